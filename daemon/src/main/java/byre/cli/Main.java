@@ -1,0 +1,46 @@
+package byre.cli;
+
+import picocli.CommandLine;
+import picocli.CommandLine.Command;
+
+/** Entry point of {@code byre}: one verb per job (design section 8). */
+@Command(name = "byre", mixinStandardHelpOptions = true, version = "byre 0.1.0",
+        description = "Barn-climate ingest and alerting daemon.",
+        subcommands = {
+                NotBuiltYet.Run.class,
+                NotBuiltYet.Demo.class,
+                NotBuiltYet.Check.class,
+                NotBuiltYet.Calc.class,
+                NotBuiltYet.Replay.class,
+                NotBuiltYet.Status.class,
+                NotBuiltYet.History.class,
+                NotBuiltYet.Ack.class,
+                NotBuiltYet.NotifyTest.class,
+        })
+public final class Main implements Runnable {
+    /** Exit codes: 0 ok, 1 runtime failure, 2 bad usage or configuration. */
+    public static final int OK = 0;
+    public static final int FAILURE = 1;
+    public static final int USAGE = 2;
+
+    @Override
+    public void run() {
+        new CommandLine(this).usage(System.out);
+    }
+
+    public static void main(String[] args) {
+        System.exit(execute(args));
+    }
+
+    /** Runs one command line and returns its exit code (tests call this). */
+    public static int execute(String... args) {
+        CommandLine cl = new CommandLine(new Main());
+        cl.setExitCodeExceptionMapper(e -> FAILURE);
+        cl.setParameterExceptionHandler((ex, a) -> {
+            ex.getCommandLine().getErr().println("byre: " + ex.getMessage());
+            ex.getCommandLine().usage(ex.getCommandLine().getErr());
+            return USAGE;
+        });
+        return cl.execute(args);
+    }
+}
