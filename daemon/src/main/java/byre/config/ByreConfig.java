@@ -1,0 +1,32 @@
+package byre.config;
+
+import java.nio.file.Path;
+import java.time.ZoneId;
+import java.util.List;
+import java.util.Map;
+
+/** A loaded, validated configuration (design section 4). Maps keep the file's order. */
+public record ByreConfig(Path file, String site, ZoneId timezone, DisplayUnits units, MqttSettings mqtt,
+                         Map<String, SensorConfig> sensors, Map<String, ZoneConfig> zones,
+                         Map<String, ChannelConfig> channels, List<Path> rulePaths,
+                         HistorySettings history, AdminSettings admin) {
+
+    /** How values are shown in messages and on the console. */
+    public enum DisplayUnits { METRIC, US }
+
+    public ByreConfig withMqtt(MqttSettings m) {
+        return new ByreConfig(file, site, timezone, units, m, sensors, zones, channels, rulePaths, history, admin);
+    }
+
+    public ByreConfig withHistory(HistorySettings h) {
+        return new ByreConfig(file, site, timezone, units, mqtt, sensors, zones, channels, rulePaths, h, admin);
+    }
+
+    public ByreConfig withAdmin(AdminSettings a) {
+        return new ByreConfig(file, site, timezone, units, mqtt, sensors, zones, channels, rulePaths, history, a);
+    }
+
+    public ByreConfig withRulePaths(List<Path> paths) {
+        return new ByreConfig(file, site, timezone, units, mqtt, sensors, zones, channels, paths, history, admin);
+    }
+}

@@ -1,0 +1,563 @@
+package byre.config;
+
+import byre.units.Dimension;
+import byre.units.Quantity;
+import byre.units.Suggest;
+import byre.units.Unit;
+import java.io.IOException;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.time.DateTimeException;
+import java.time.Duration;
+import java.time.ZoneId;
+import java.util.ArrayList;
+import java.util.HashMap;
+import java.util.LinkedHashMap;
+import java.util.LinkedHashSet;
+import java.util.List;
+import java.util.Map;
+import java.util.Optional;
+import java.util.Set;
+import java.util.function.Function;
+import org.snakeyaml.engine.v2.api.LoadSettings;
+import org.snakeyaml.engine.v2.api.lowlevel.Compose;
+import org.snakeyaml.engine.v2.exceptions.MarkedYamlEngineException;
+import org.snakeyaml.engine.v2.exceptions.YamlEngineException;
+import org.snakeyaml.engine.v2.nodes.MappingNode;
+import org.snakeyaml.engine.v2.nodes.Node;
+import org.snakeyaml.engine.v2.nodes.NodeTuple;
+import org.snakeyaml.engine.v2.nodes.ScalarNode;
+import org.snakeyaml.engine.v2.nodes.SequenceNode;
+
+/**
+ * Reads the YAML configuration of design section 4 and checks all of it before anything starts,
+ * collecting every problem as {@code file:line: message}. Secrets are read from the files or
+ * environment variables the configuration names; their values never enter a message.
+ */
+public final class ConfigLoader {
+    static final Set<String> TOP_KEYS = ordered("site", "timezone", "units", "mqtt", "sensors", "zones", "notify",
+            "rules", "history", "admin");
+    static final Set<String> MQTT_KEYS = ordered("broker", "listen", "client-id", "username", "password-file",
+            "password-env", "publish-prefix", "qos", "ca-file");
+    static final Set<String> SENSOR_KEYS = ordered("topic", "quantity", "unit", "payload", "time", "id-level");
+    static final Set<String> ZONE_KEYS = ordered("groups", "sensors", "elevation", "psychrometer", "max-age", "thi");
+    static final Set<String> HISTORY_KEYS = ordered("path", "keep-raw", "keep-minute", "keep-hour");
+    static final Set<String> ADMIN_KEYS = ordered("listen", "token-file");
+    static final Map<String, Set<String>> CHANNEL_KEYS = Map.of(
+            "webhook", ordered("type", "url", "secret-file", "headers", "template", "timeout", "rate-limit", "give-up"),
+            "mqtt", ordered("type", "topic", "retain", "rate-limit", "give-up"),
+            "email", ordered("type", "smtp", "from", "to", "username", "password-file", "tls", "timeout", "rate-limit",
+                    "give-up"),
+            "command", ordered("type", "argv", "timeout", "rate-limit", "give-up"));
+    static final Map<String, List<String>> CHANNEL_REQUIRED = Map.of(
+            "webhook", List.of("url"), "mqtt", List.of("topic"), "email", List.of("smtp", "from", "to"),
+            "command", List.of("argv"));
+    static final List<String> THI_VARIANTS = List.of("nrc-1971", "thom", "dew-point", "mader-2006");
+
+    private final String fileName;
+    private final Path baseDir;
+    private final Function<String, String> environment;
+    private final List<ConfigProblem> problems = new ArrayList<>();
+
+    private ConfigLoader(String fileName, Path baseDir, Function<String, String> environment) {
+        this.fileName = fileName;
+        this.baseDir = baseDir;
+        this.environment = environment;
+    }
+
+    /** Loads and validates a configuration file. */
+    public static ByreConfig load(Path file) throws ConfigException {
+        String text;
+        try {
+            text = Files.readString(file, StandardCharsets.UTF_8);
+        } catch (IOException e) {
+            throw new ConfigException(List.of(new ConfigProblem(file.toString(), 0,
+                    "cannot read the configuration: " + describe(e))));
+        }
+        Path dir = file.toAbsolutePath().getParent();
+        return parse(file.toString(), text, dir, System::getenv);
+    }
+
+    /** Validates configuration text; relative paths are resolved against {@code baseDir}. */
+    public static ByreConfig parse(String fileName, String text, Path baseDir, Function<String, String> environment)
+            throws ConfigException {
+        return new ConfigLoader(fileName, baseDir, environment).read(text);
+    }
+
+    private ByreConfig read(String text) throws ConfigException {
+        Node root;
+        try {
+            LoadSettings settings = LoadSettings.builder().setLabel(fileName).setMaxAliasesForCollections(10).build();
+            root = new Compose(settings).composeString(text).orElse(null);
+        } catch (MarkedYamlEngineException e) {
+            int line = e.getProblemMark().map(m -> m.getLine() + 1).orElse(0);
+            throw new ConfigException(List.of(new ConfigProblem(fileName, line, "not valid YAML: " + e.getProblem())));
+        } catch (YamlEngineException e) {
+            throw new ConfigException(List.of(new ConfigProblem(fileName, 0, "not valid YAML: " + e.getMessage())));
+        }
+        if (!(root instanceof MappingNode top)) {
+            throw new ConfigException(List.of(new ConfigProblem(fileName, root == null ? 0 : line(root),
+                    "the configuration must be a mapping of keys such as site:, mqtt:, sensors:, zones:")));
+        }
+        Map<String, Node> keys = mapping(top, TOP_KEYS, "top level");
+
+        String site = string(keys.get("site"), "site", null);
+        if (site == null) {
+            problem(top, "missing 'site:' (a short id used in topics and messages, e.g. site: larkmoor)");
+            site = "site";
+        } else if (!site.matches("[A-Za-z0-9][A-Za-z0-9_.-]*")) {
+            problem(keys.get("site"), "site '" + site + "' must be letters, digits, '-', '_' or '.' (it becomes an MQTT topic level)");
+        }
+        ZoneId tz = timezone(keys.get("timezone"));
+        ByreConfig.DisplayUnits units = ByreConfig.DisplayUnits.METRIC;
+        String u = string(keys.get("units"), "units", "metric");
+        if ("us".equals(u)) {
+            units = ByreConfig.DisplayUnits.US;
+        } else if (!"metric".equals(u)) {
+            problem(keys.get("units"), "units must be 'metric' or 'us', not '" + u + "'");
+        }
+        MqttSettings mqtt = mqtt(keys.get("mqtt"), site);
+        Map<String, SensorConfig> sensors = sensors(keys.get("sensors"));
+        Map<String, ZoneConfig> zones = zones(keys.get("zones"), sensors);
+        Map<String, ChannelConfig> channels = channels(keys.get("notify"));
+        List<Path> rules = rules(keys.get("rules"));
+        HistorySettings history = history(keys.get("history"));
+        AdminSettings admin = admin(keys.get("admin"));
+
+        if (!problems.isEmpty()) throw new ConfigException(problems);
+        return new ByreConfig(Path.of(fileName), site, tz, units, mqtt, sensors, zones, channels, rules, history, admin);
+    }
+
+    // ---- sections ----
+
+    private ZoneId timezone(Node node) {
+        String text = string(node, "timezone", null);
+        if (text == null) return ZoneId.systemDefault();
+        try {
+            return ZoneId.of(text);
+        } catch (DateTimeException e) {
+            problem(node, "unknown time zone '" + text + "'" + Suggest.hint(text, ZoneId.getAvailableZoneIds())
+                    + "; use a region name such as Europe/London");
+            return ZoneId.systemDefault();
+        }
+    }
+
+    private MqttSettings mqtt(Node node, String site) {
+        Map<String, Node> m = node == null ? Map.of() : mapping(node, MQTT_KEYS, "mqtt");
+        String broker = string(m.get("broker"), "mqtt.broker", "embedded");
+        if (!broker.equals("embedded") && !broker.matches("(tcp|ssl)://[^\\s/:]+(:\\d+)?")) {
+            problem(m.get("broker"), "mqtt.broker must be 'embedded', tcp://host:port or ssl://host:port, not '" + broker + "'");
+        }
+        String listen = string(m.get("listen"), "mqtt.listen", "127.0.0.1:1883");
+        String[] hp = hostPort(m.get("listen"), "mqtt.listen", listen);
+        String clientId = string(m.get("client-id"), "mqtt.client-id", "byre-" + site);
+        String username = string(m.get("username"), "mqtt.username", null);
+        Secret password = secretFile(m.get("password-file"), "mqtt.password-file");
+        String passwordEnv = string(m.get("password-env"), "mqtt.password-env", null);
+        if (password == null && passwordEnv != null) {
+            String v = environment.apply(passwordEnv);
+            if (v == null) {
+                problem(m.get("password-env"), "mqtt.password-env names $" + passwordEnv + ", which is not set");
+            } else {
+                password = new Secret(v, "$" + passwordEnv);
+            }
+        }
+        String prefix = string(m.get("publish-prefix"), "mqtt.publish-prefix", "byre");
+        if (prefix.contains("+") || prefix.contains("#")) {
+            problem(m.get("publish-prefix"), "mqtt.publish-prefix may not contain MQTT wildcards");
+        }
+        int qos = integer(m.get("qos"), "mqtt.qos", 1);
+        if (qos != 0 && qos != 1) problem(m.get("qos"), "mqtt.qos must be 0 or 1 (1 keeps readings across restarts)");
+        String caFile = string(m.get("ca-file"), "mqtt.ca-file", null);
+        if (caFile != null) {
+            Path p = resolve(caFile);
+            if (!Files.isReadable(p)) problem(m.get("ca-file"), "mqtt.ca-file " + p + " cannot be read");
+            caFile = p.toString();
+        }
+        return new MqttSettings(broker, hp[0], Integer.parseInt(hp[1]), clientId, username, password, prefix, qos, caFile);
+    }
+
+    private Map<String, SensorConfig> sensors(Node node) {
+        Map<String, SensorConfig> out = new LinkedHashMap<>();
+        if (node == null) return out;
+        Map<String, Node> entries = mapping(node, null, "sensors");
+        Map<String, String> topicOwner = new HashMap<>();
+        for (Map.Entry<String, Node> e : entries.entrySet()) {
+            String id = e.getKey();
+            Node n = e.getValue();
+            if (!id.matches("[A-Za-z0-9][A-Za-z0-9_.-]*")) {
+                problem(n, "sensor id '" + id + "' must be letters, digits, '-', '_' or '.'");
+            }
+            Map<String, Node> f = mapping(n, SENSOR_KEYS, "sensor " + id);
+            String topic = string(f.get("topic"), "topic", null);
+            if (topic == null) {
+                problem(n, "sensor " + id + " has no topic");
+                continue;
+            }
+            String clash = topicOwner.putIfAbsent(topic, id);
+            if (clash != null) problem(f.get("topic"), "duplicate topic '" + topic + "': already used by sensor " + clash);
+            String qText = string(f.get("quantity"), "quantity", null);
+            Quantity q = null;
+            if (qText == null) {
+                problem(n, "sensor " + id + " has no quantity (one of " + String.join(", ", measurableIds()) + ")");
+            } else {
+                q = Quantity.byId(qText).filter(Quantity::measurable).orElse(null);
+                if (q == null) {
+                    problem(f.get("quantity"), "unknown quantity '" + qText + "'" + Suggest.hint(qText, measurableIds())
+                            + "; a sensor measures one of " + String.join(", ", measurableIds()));
+                }
+            }
+            Unit unit = q == null ? null : q.canonicalUnit();
+            String uText = string(f.get("unit"), "unit", null);
+            if (uText != null) {
+                Optional<Unit> parsed = Unit.bySymbol(uText);
+                if (parsed.isEmpty()) {
+                    problem(f.get("unit"), "unknown unit '" + uText + "'" + Suggest.hint(uText, Unit.symbols())
+                            + "; known units: " + String.join(" ", Unit.symbols()));
+                } else if (q != null && parsed.get().dimension() != q.dimension()) {
+                    problem(f.get("unit"), "unit '" + uText + "' does not measure " + q.id() + " (use one of "
+                            + String.join(" ", unitsOf(q.dimension())) + ")");
+                } else {
+                    unit = parsed.get();
+                }
+            }
+            PayloadFormat payload = payload(f.get("payload"));
+            String time = string(f.get("time"), "time", null);
+            String timePath = null;
+            if (time != null) {
+                if (time.startsWith("json:") && time.length() > 5 && payload.kind() == PayloadFormat.Kind.JSON) {
+                    timePath = time.substring(5);
+                } else {
+                    problem(f.get("time"), "time must be json:<path> and needs a json: payload (SenML carries its own time)");
+                }
+            }
+            int idLevel = integer(f.get("id-level"), "id-level", 0);
+            boolean family = topic.contains("+") || topic.contains("#");
+            if (!validTopicFilter(topic)) {
+                problem(f.get("topic"), "topic '" + topic + "' is not a valid MQTT topic filter ('+' and '#' must fill a whole level, '#' only last)");
+            } else if (family && idLevel <= 0) {
+                problem(f.get("topic"), "topic '" + topic + "' has wildcards: add id-level: N (the topic level, from 1, that names each sensor)");
+            } else if (idLevel > 0 && idLevel > topic.split("/", -1).length && !topic.endsWith("#")) {
+                problem(f.get("id-level"), "id-level " + idLevel + " is beyond the " + topic.split("/", -1).length + " levels of '" + topic + "'");
+            }
+            if (q != null && unit != null) {
+                out.put(id, new SensorConfig(id, topic, q, unit, payload, timePath, idLevel, line(n)));
+            }
+        }
+        return out;
+    }
+
+    private PayloadFormat payload(Node node) {
+        String text = string(node, "payload", "number");
+        if (text.equals("number")) return PayloadFormat.NUMBER;
+        if (text.startsWith("json:") && text.length() > 5) return new PayloadFormat(PayloadFormat.Kind.JSON, text.substring(5));
+        if (text.startsWith("senml:") && text.length() > 6) return new PayloadFormat(PayloadFormat.Kind.SENML, text.substring(6));
+        problem(node, "payload must be number, json:<dotted.path> or senml:<name>, not '" + text + "'");
+        return PayloadFormat.NUMBER;
+    }
+
+    private Map<String, ZoneConfig> zones(Node node, Map<String, SensorConfig> sensors) {
+        Map<String, ZoneConfig> out = new LinkedHashMap<>();
+        if (node == null) return out;
+        Map<String, String> sensorOwner = new HashMap<>();
+        for (Map.Entry<String, Node> e : mapping(node, null, "zones").entrySet()) {
+            String id = e.getKey();
+            Node n = e.getValue();
+            if (!id.matches("[A-Za-z0-9][A-Za-z0-9_.-]*")) problem(n, "zone id '" + id + "' must be letters, digits, '-', '_' or '.'");
+            Map<String, Node> f = mapping(n, ZONE_KEYS, "zone " + id);
+            List<String> groups = stringList(f.get("groups"), "groups");
+            List<String> zs = stringList(f.get("sensors"), "sensors");
+            if (zs.isEmpty()) problem(n, "zone " + id + " lists no sensors");
+            for (String s : zs) {
+                if (!sensors.containsKey(s) && !isFamilyMember(s, sensors)) {
+                    problem(f.get("sensors"), "zone " + id + " names unknown sensor '" + s + "'" + Suggest.hint(s, sensors.keySet()));
+                }
+                String other = sensorOwner.putIfAbsent(s, id);
+                if (other != null) problem(f.get("sensors"), "sensor " + s + " is already in zone " + other + "; a sensor belongs to one zone");
+            }
+            double elevationM = Double.NaN;
+            Node el = f.get("elevation");
+            if (el != null) {
+                String t = string(el, "elevation", "");
+                java.util.regex.Matcher m = java.util.regex.Pattern.compile("\\s*(-?\\d+(?:\\.\\d+)?)\\s*(m|ft)?\\s*").matcher(t);
+                if (m.matches()) {
+                    elevationM = Double.parseDouble(m.group(1)) * ("ft".equals(m.group(2)) ? 0.3048 : 1.0);
+                    if (elevationM < -500 || elevationM > 6000) problem(el, "elevation " + t + " is outside -500..6000 m");
+                } else {
+                    problem(el, "elevation must be a height such as '240 m' or '790 ft', not '" + t + "'");
+                }
+            }
+            String ps = string(f.get("psychrometer"), "psychrometer", "aspirated");
+            ZoneConfig.Psychrometer psychrometer = ZoneConfig.Psychrometer.ASPIRATED;
+            if (ps.equals("screen")) {
+                psychrometer = ZoneConfig.Psychrometer.SCREEN;
+            } else if (!ps.equals("aspirated")) {
+                problem(f.get("psychrometer"), "psychrometer must be 'aspirated' or 'screen', not '" + ps + "'" + Suggest.hint(ps, List.of("aspirated", "screen")));
+            }
+            Duration maxAge = duration(f.get("max-age"), "max-age", Duration.ofMinutes(5));
+            String thi = string(f.get("thi"), "thi", "nrc-1971");
+            if (!THI_VARIANTS.contains(thi)) {
+                problem(f.get("thi"), "unknown THI variant '" + thi + "'" + Suggest.hint(thi, THI_VARIANTS) + "; one of " + String.join(", ", THI_VARIANTS));
+            }
+            out.put(id, new ZoneConfig(id, groups, zs, elevationM, psychrometer, maxAge, thi, line(n)));
+        }
+        return out;
+    }
+
+    private static boolean isFamilyMember(String id, Map<String, SensorConfig> sensors) {
+        int slash = id.indexOf('/');
+        if (slash <= 0) return false;
+        SensorConfig family = sensors.get(id.substring(0, slash));
+        return family != null && family.isFamily();
+    }
+
+    private Map<String, ChannelConfig> channels(Node node) {
+        Map<String, ChannelConfig> out = new LinkedHashMap<>();
+        if (node == null) return out;
+        for (Map.Entry<String, Node> e : mapping(node, null, "notify").entrySet()) {
+            String name = e.getKey();
+            Node n = e.getValue();
+            if (!(n instanceof MappingNode mn)) {
+                problem(n, "channel " + name + " must be a mapping such as { type: webhook, url: ... }");
+                continue;
+            }
+            Map<String, Node> raw = mapping(mn, null, "channel " + name);
+            String type = string(raw.get("type"), "type", null);
+            if (type == null) {
+                problem(n, "channel " + name + " has no type (one of " + String.join(", ", CHANNEL_KEYS.keySet().stream().sorted().toList()) + ")");
+                continue;
+            }
+            Set<String> allowed = CHANNEL_KEYS.get(type);
+            if (allowed == null) {
+                problem(raw.get("type"), "unknown channel type '" + type + "'" + Suggest.hint(type, CHANNEL_KEYS.keySet())
+                        + "; one of webhook, mqtt, email, command");
+                continue;
+            }
+            Map<String, Object> fields = new LinkedHashMap<>();
+            Map<String, Secret> secrets = new LinkedHashMap<>();
+            for (Map.Entry<String, Node> f : raw.entrySet()) {
+                if (!allowed.contains(f.getKey())) {
+                    problem(keyNodes.getOrDefault(f.getValue(), f.getValue()), "unknown key '" + f.getKey() + "' in " + type + " channel " + name
+                            + Suggest.hint(f.getKey(), allowed));
+                    continue;
+                }
+                if (f.getKey().endsWith("-file") && !f.getKey().equals("type")) {
+                    Secret s = secretFile(f.getValue(), name + "." + f.getKey());
+                    if (s != null) secrets.put(f.getKey(), s);
+                } else {
+                    fields.put(f.getKey(), plain(f.getValue()));
+                }
+            }
+            for (String req : CHANNEL_REQUIRED.get(type)) {
+                if (!raw.containsKey(req)) problem(n, type + " channel " + name + " is missing '" + req + "'");
+            }
+            out.put(name, new ChannelConfig(name, type, fields, secrets, line(n)));
+        }
+        return out;
+    }
+
+    private List<Path> rules(Node node) {
+        List<Path> out = new ArrayList<>();
+        if (node == null) return out;
+        if (node instanceof SequenceNode) {
+            for (String s : stringList(node, "rules")) out.add(resolve(s));
+        } else {
+            String s = string(node, "rules", null);
+            if (s != null) out.add(resolve(s));
+        }
+        return out;
+    }
+
+    private HistorySettings history(Node node) {
+        Map<String, Node> m = node == null ? Map.of() : mapping(node, HISTORY_KEYS, "history");
+        Path path = resolve(string(m.get("path"), "history.path", "/var/lib/byre/history.db"));
+        return new HistorySettings(path,
+                duration(m.get("keep-raw"), "history.keep-raw", Duration.ofDays(14)),
+                duration(m.get("keep-minute"), "history.keep-minute", Duration.ofDays(90)),
+                duration(m.get("keep-hour"), "history.keep-hour", Duration.ofDays(5 * 365)));
+    }
+
+    private AdminSettings admin(Node node) {
+        Map<String, Node> m = node == null ? Map.of() : mapping(node, ADMIN_KEYS, "admin");
+        String listen = string(m.get("listen"), "admin.listen", "127.0.0.1:9466");
+        String[] hp = hostPort(m.get("listen"), "admin.listen", listen);
+        Secret token = secretFile(m.get("token-file"), "admin.token-file");
+        return new AdminSettings(hp[0], Integer.parseInt(hp[1]), token);
+    }
+
+    // ---- typed accessors; each records a problem and returns a fallback on a wrong type ----
+
+    private final Map<Node, Node> keyNodes = new HashMap<>();
+
+    /** Reads a mapping; unknown keys (when {@code known} is given) and duplicate keys are problems. */
+    private Map<String, Node> mapping(Node node, Set<String> known, String where) {
+        Map<String, Node> out = new LinkedHashMap<>();
+        if (!(node instanceof MappingNode mn)) {
+            if (node != null && !(node instanceof ScalarNode s && s.getValue().isEmpty())) {
+                problem(node, where + " must be a mapping of keys, not " + kind(node));
+            }
+            return out;
+        }
+        for (NodeTuple t : mn.getValue()) {
+            if (!(t.getKeyNode() instanceof ScalarNode k)) {
+                problem(t.getKeyNode(), "keys in " + where + " must be plain words");
+                continue;
+            }
+            String key = k.getValue();
+            if (known != null && !known.contains(key)) {
+                problem(k, "unknown key '" + key + "' in " + where + Suggest.hint(key, known));
+                continue;
+            }
+            if (out.containsKey(key)) {
+                problem(k, "duplicate key '" + key + "' in " + where);
+                continue;
+            }
+            keyNodes.put(t.getValueNode(), k);
+            out.put(key, t.getValueNode());
+        }
+        return out;
+    }
+
+    private String string(Node node, String what, String fallback) {
+        if (node == null) return fallback;
+        if (node instanceof ScalarNode s) {
+            return s.getValue().isEmpty() && fallback != null ? fallback : s.getValue();
+        }
+        problem(node, what + " must be a single value, not " + kind(node));
+        return fallback;
+    }
+
+    private int integer(Node node, String what, int fallback) {
+        String s = string(node, what, null);
+        if (s == null) return fallback;
+        try {
+            return Integer.parseInt(s.trim());
+        } catch (NumberFormatException e) {
+            problem(node, what + " must be a whole number, not '" + s + "'");
+            return fallback;
+        }
+    }
+
+    private Duration duration(Node node, String what, Duration fallback) {
+        String s = string(node, what, null);
+        if (s == null) return fallback;
+        Optional<Duration> d = Durations.parse(s);
+        if (d.isEmpty() || d.get().isZero()) {
+            problem(node, what + " must be a duration such as 30s, 20m, 2h, 14d or 5y, not '" + s + "'");
+            return fallback;
+        }
+        return d.get();
+    }
+
+    private List<String> stringList(Node node, String what) {
+        List<String> out = new ArrayList<>();
+        if (node == null) return out;
+        if (node instanceof ScalarNode s) {
+            if (!s.getValue().isEmpty()) out.add(s.getValue());
+            return out;
+        }
+        if (!(node instanceof SequenceNode seq)) {
+            problem(node, what + " must be a list such as [a, b]");
+            return out;
+        }
+        for (Node item : seq.getValue()) {
+            String v = string(item, what + " item", null);
+            if (v != null) out.add(v);
+        }
+        return out;
+    }
+
+    private Object plain(Node node) {
+        if (node instanceof ScalarNode s) return s.getValue();
+        if (node instanceof SequenceNode seq) {
+            List<Object> l = new ArrayList<>();
+            for (Node n : seq.getValue()) l.add(plain(n));
+            return l;
+        }
+        Map<String, Object> m = new LinkedHashMap<>();
+        for (NodeTuple t : ((MappingNode) node).getValue()) {
+            m.put(t.getKeyNode() instanceof ScalarNode k ? k.getValue() : "?", plain(t.getValueNode()));
+        }
+        return m;
+    }
+
+    private Secret secretFile(Node node, String what) {
+        String s = string(node, what, null);
+        if (s == null) return null;
+        Path p = resolve(s);
+        try {
+            String v = Files.readString(p, StandardCharsets.UTF_8).strip();
+            if (v.isEmpty()) {
+                problem(node, what + ": " + p + " is empty");
+                return null;
+            }
+            return new Secret(v, p.toString());
+        } catch (IOException e) {
+            problem(node, what + ": cannot read " + p + " (" + describe(e) + ")");
+            return null;
+        }
+    }
+
+    private String[] hostPort(Node node, String what, String text) {
+        int colon = text.lastIndexOf(':');
+        if (colon > 0) {
+            try {
+                int port = Integer.parseInt(text.substring(colon + 1));
+                if (port >= 0 && port <= 65535) return new String[] {text.substring(0, colon), Integer.toString(port)};
+            } catch (NumberFormatException ignored) {
+                // reported below
+            }
+        }
+        problem(node, what + " must be host:port such as 127.0.0.1:1883, not '" + text + "'");
+        return new String[] {"127.0.0.1", "0"};
+    }
+
+    private Path resolve(String s) {
+        Path p = Path.of(s);
+        return p.isAbsolute() || baseDir == null ? p : baseDir.resolve(p).normalize();
+    }
+
+    private void problem(Node node, String message) {
+        problems.add(new ConfigProblem(fileName, node == null ? 0 : line(node), message));
+    }
+
+    private static int line(Node node) {
+        return node.getStartMark().map(m -> m.getLine() + 1).orElse(0);
+    }
+
+    private static String kind(Node node) {
+        if (node instanceof MappingNode) return "a mapping";
+        if (node instanceof SequenceNode) return "a list";
+        return "a single value";
+    }
+
+    private static boolean validTopicFilter(String topic) {
+        if (topic.isEmpty()) return false;
+        String[] levels = topic.split("/", -1);
+        for (int i = 0; i < levels.length; i++) {
+            String l = levels[i];
+            if (l.contains("#") && (!l.equals("#") || i != levels.length - 1)) return false;
+            if (l.contains("+") && !l.equals("+")) return false;
+        }
+        return true;
+    }
+
+    private static List<String> measurableIds() {
+        return java.util.Arrays.stream(Quantity.values()).filter(Quantity::measurable).map(Quantity::id).toList();
+    }
+
+    private static List<String> unitsOf(Dimension d) {
+        return java.util.Arrays.stream(Unit.values()).filter(u -> u.dimension() == d).map(Unit::symbol).toList();
+    }
+
+    private static Set<String> ordered(String... keys) {
+        return new LinkedHashSet<>(List.of(keys));
+    }
+
+    static String describe(IOException e) {
+        if (e instanceof java.nio.file.NoSuchFileException) return "no such file";
+        if (e instanceof java.nio.file.AccessDeniedException) return "permission denied";
+        return e.getClass().getSimpleName() + (e.getMessage() == null ? "" : ": " + e.getMessage());
+    }
+}

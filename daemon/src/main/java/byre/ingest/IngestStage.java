@@ -1,0 +1,115 @@
+package byre.ingest;
+
+import byre.config.SensorConfig;
+import byre.units.Quantity;
+import io.micrometer.core.instrument.Counter;
+import io.micrometer.core.instrument.MeterRegistry;
+import java.time.Clock;
+import java.time.Duration;
+import java.time.Instant;
+import java.util.Collection;
+import java.util.EnumMap;
+import java.util.Map;
+import java.util.concurrent.ConcurrentHashMap;
+import java.util.function.Consumer;
+import org.slf4j.Logger;
+import org.slf4j.LoggerFactory;
+
+/**
+ * The first stage of the data flow: topic -> sensor, payload -> number, unit -> canonical,
+ * plausibility, the reading's time. Every rejection is counted by reason and logged (rate-limited)
+ * with the sensor and the reason; accepted readings go to the sink.
+ */
+public final class IngestStage {
+    /** Earliest believable payload time: a Pi without a real-time clock boots in 1970 or at its build date. */
+    static final Instant EARLIEST_BELIEVABLE = Instant.parse("2020-01-01T00:00:00Z");
+    /** Payload times further ahead than this are from a sensor whose clock is wrong. */
+    static final Duration MAX_AHEAD = Duration.ofMinutes(5);
+
+    private static final Logger LOG = LoggerFactory.getLogger(IngestStage.class);
+
+    private final TopicRouter router;
+    private final Clock clock;
+    private final Consumer<Reading> sink;
+    private final RateLimitedLog warnings;
+    private final FloodGate floodGate;
+    private final MeterRegistry registry;
+    private final Map<RejectReason, Counter> rejected = new EnumMap<>(RejectReason.class);
+    private final Map<String, Counter> receivedBySensor = new ConcurrentHashMap<>();
+    private final Counter unknownTopic;
+    private final Counter clockBefore2020;
+    private final Counter clockAhead;
+
+    public IngestStage(Collection<SensorConfig> sensors, Clock clock, MeterRegistry registry, Consumer<Reading> sink,
+                       int maxReadingsPerSecondPerSensor) {
+        this.router = new TopicRouter(sensors);
+        this.clock = clock;
+        this.sink = sink;
+        this.registry = registry;
+        this.warnings = new RateLimitedLog(LOG, Duration.ofMinutes(1), System::nanoTime);
+        this.floodGate = new FloodGate(maxReadingsPerSecondPerSensor);
+        for (RejectReason r : RejectReason.values()) {
+            rejected.put(r, Counter.builder("byre.readings.rejected").tag("reason", r.id())
+                    .description("Payloads not turned into readings, by reason").register(registry));
+        }
+        unknownTopic = Counter.builder("byre.readings.unrouted")
+                .description("Messages on subscribed topics that no sensor claims").register(registry);
+        clockBefore2020 = Counter.builder("byre.readings.time.replaced").tag("reason", "before-2020")
+                .description("Payload times not believed; arrival time used instead").register(registry);
+        clockAhead = Counter.builder("byre.readings.time.replaced").tag("reason", "ahead")
+                .description("Payload times not believed; arrival time used instead").register(registry);
+    }
+
+    /** Handles one MQTT message; never throws for bad input. Returns the reading or null. */
+    public Reading accept(String topic, byte[] payload) {
+        Instant arrival = clock.instant();
+        TopicRouter.Route route = router.route(topic);
+        if (route == null) {
+            unknownTopic.increment();
+            warnings.warn("topic:" + topic, "message on " + topic + " matches no configured sensor; ignored");
+            return null;
+        }
+        String id = route.sensorId();
+        SensorConfig sensor = route.sensor();
+        if (!floodGate.admit(id, System.nanoTime())) {
+            return reject(id, RejectReason.FLOOD, "more than " + floodGate.limitPerSecond() + " readings per second");
+        }
+        Decoded d = PayloadDecoder.decode(sensor, payload, arrival);
+        if (!d.ok()) return reject(id, d.reject(), d.detail());
+        Quantity q = sensor.quantity();
+        double canonical = d.unit().toCanonical(d.value());
+        if (!q.isPlausible(canonical)) {
+            return reject(id, RejectReason.OUT_OF_RANGE, String.format("%s %.6g %s is outside %s..%s %s", q.id(), d.value(),
+                    d.unit().symbol(), q.plausibleMin(), q.plausibleMax(), q.canonicalUnit().symbol()));
+        }
+        Instant at = arrival;
+        if (d.payloadTime() != null) {
+            if (d.payloadTime().isBefore(EARLIEST_BELIEVABLE)) {
+                clockBefore2020.increment();
+                warnings.warn("clock:" + id, "sensor " + id + " sent time " + d.payloadTime()
+                        + ", before 2020: its clock is not set; using the arrival time");
+            } else if (d.payloadTime().isAfter(arrival.plus(MAX_AHEAD))) {
+                clockAhead.increment();
+                warnings.warn("clock:" + id, "sensor " + id + " sent time " + d.payloadTime()
+                        + ", more than 5 minutes ahead; using the arrival time");
+            } else {
+                at = d.payloadTime();
+            }
+        }
+        receivedBySensor.computeIfAbsent(id, k -> Counter.builder("byre.readings.received").tag("sensor", k)
+                .description("Readings accepted, per sensor").register(registry)).increment();
+        Reading r = new Reading(id, q, canonical, at);
+        sink.accept(r);
+        return r;
+    }
+
+    private Reading reject(String sensorId, RejectReason reason, String detail) {
+        rejected.get(reason).increment();
+        warnings.warn(sensorId + ":" + reason.id(), "sensor " + sensorId + ": rejected (" + reason.id() + "): " + detail);
+        return null;
+    }
+
+    public TopicRouter router() {
+        return router;
+    }
+}

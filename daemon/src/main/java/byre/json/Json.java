@@ -1,0 +1,219 @@
+package byre.json;
+
+import java.util.ArrayList;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+
+/**
+ * A small strict JSON reader (RFC 8259) for sensor payloads, SenML records and acknowledgements.
+ * Objects become {@code LinkedHashMap}, arrays {@code ArrayList}, numbers {@code Double}, plus
+ * {@code String}, {@code Boolean} and {@code null}. Nesting is bounded so that a hostile payload
+ * cannot exhaust the stack. Written by hand: payloads are small and a full JSON library would be
+ * most of the jar for three uses.
+ */
+public final class Json {
+    /** Deeper nesting than this is refused; no sensor payload needs more. */
+    public static final int MAX_DEPTH = 32;
+
+    private final String text;
+    private int pos;
+
+    private Json(String text) {
+        this.text = text;
+    }
+
+    /** Parses one JSON value; throws {@link JsonException} with the offset of the first problem. */
+    public static Object parse(String text) {
+        Json p = new Json(text);
+        p.skipWhitespace();
+        Object value = p.value(0);
+        p.skipWhitespace();
+        if (p.pos != text.length()) throw p.error("unexpected text after the value");
+        return value;
+    }
+
+    /**
+     * Follows a dotted path such as {@code sensor.temp} or {@code readings.0.v} (array index as a
+     * number); returns null when any step is missing.
+     */
+    public static Object path(Object root, String dottedPath) {
+        Object node = root;
+        for (String step : dottedPath.split("\\.", -1)) {
+            if (node instanceof Map<?, ?> m) {
+                node = m.get(step);
+            } else if (node instanceof List<?> l) {
+                int i;
+                try {
+                    i = Integer.parseInt(step);
+                } catch (NumberFormatException e) {
+                    return null;
+                }
+                node = i >= 0 && i < l.size() ? l.get(i) : null;
+            } else {
+                return null;
+            }
+            if (node == null) return null;
+        }
+        return node;
+    }
+
+    private Object value(int depth) {
+        if (depth > MAX_DEPTH) throw error("nesting deeper than " + MAX_DEPTH);
+        if (pos >= text.length()) throw error("unexpected end of input");
+        char c = text.charAt(pos);
+        switch (c) {
+            case '{': return object(depth);
+            case '[': return array(depth);
+            case '"': return string();
+            case 't': return literal("true", Boolean.TRUE);
+            case 'f': return literal("false", Boolean.FALSE);
+            case 'n': return literal("null", null);
+            default:
+                if (c == '-' || (c >= '0' && c <= '9')) return number();
+                throw error("unexpected character '" + printable(c) + "'");
+        }
+    }
+
+    private Map<String, Object> object(int depth) {
+        Map<String, Object> map = new LinkedHashMap<>();
+        pos++;
+        skipWhitespace();
+        if (peek() == '}') {
+            pos++;
+            return map;
+        }
+        while (true) {
+            skipWhitespace();
+            if (peek() != '"') throw error("expected a quoted member name");
+            String key = string();
+            skipWhitespace();
+            if (peek() != ':') throw error("expected ':' after member name");
+            pos++;
+            skipWhitespace();
+            map.put(key, value(depth + 1));
+            skipWhitespace();
+            char c = peek();
+            pos++;
+            if (c == '}') return map;
+            if (c != ',') throw error("expected ',' or '}' in object");
+        }
+    }
+
+    private List<Object> array(int depth) {
+        List<Object> list = new ArrayList<>();
+        pos++;
+        skipWhitespace();
+        if (peek() == ']') {
+            pos++;
+            return list;
+        }
+        while (true) {
+            skipWhitespace();
+            list.add(value(depth + 1));
+            skipWhitespace();
+            char c = peek();
+            pos++;
+            if (c == ']') return list;
+            if (c != ',') throw error("expected ',' or ']' in array");
+        }
+    }
+
+    private String string() {
+        pos++;
+        StringBuilder sb = new StringBuilder();
+        while (true) {
+            if (pos >= text.length()) throw error("unterminated string");
+            char c = text.charAt(pos++);
+            if (c == '"') return sb.toString();
+            if (c < 0x20) throw error("control character in string");
+            if (c != '\\') {
+                sb.append(c);
+                continue;
+            }
+            if (pos >= text.length()) throw error("unterminated escape");
+            char e = text.charAt(pos++);
+            switch (e) {
+                case '"': sb.append('"'); break;
+                case '\\': sb.append('\\'); break;
+                case '/': sb.append('/'); break;
+                case 'b': sb.append('\b'); break;
+                case 'f': sb.append('\f'); break;
+                case 'n': sb.append('\n'); break;
+                case 'r': sb.append('\r'); break;
+                case 't': sb.append('\t'); break;
+                case 'u':
+                    if (pos + 4 > text.length()) throw error("short \\u escape");
+                    try {
+                        sb.append((char) Integer.parseInt(text.substring(pos, pos + 4), 16));
+                    } catch (NumberFormatException ex) {
+                        throw error("bad \\u escape");
+                    }
+                    pos += 4;
+                    break;
+                default: throw error("bad escape '\\" + printable(e) + "'");
+            }
+        }
+    }
+
+    private Double number() {
+        int start = pos;
+        if (peek() == '-') pos++;
+        if (!digit()) throw error("malformed number");
+        if (text.charAt(pos) == '0') {
+            pos++;
+        } else {
+            while (digit()) pos++;
+        }
+        if (pos < text.length() && text.charAt(pos) == '.') {
+            pos++;
+            if (!digit()) throw error("malformed number");
+            while (digit()) pos++;
+        }
+        if (pos < text.length() && (text.charAt(pos) == 'e' || text.charAt(pos) == 'E')) {
+            pos++;
+            if (pos < text.length() && (text.charAt(pos) == '+' || text.charAt(pos) == '-')) pos++;
+            if (!digit()) throw error("malformed number");
+            while (digit()) pos++;
+        }
+        return Double.parseDouble(text.substring(start, pos));
+    }
+
+    private boolean digit() {
+        return pos < text.length() && text.charAt(pos) >= '0' && text.charAt(pos) <= '9';
+    }
+
+    private Object literal(String word, Object value) {
+        if (!text.startsWith(word, pos)) throw error("unexpected word");
+        pos += word.length();
+        return value;
+    }
+
+    private char peek() {
+        if (pos >= text.length()) throw error("unexpected end of input");
+        return text.charAt(pos);
+    }
+
+    private void skipWhitespace() {
+        while (pos < text.length()) {
+            char c = text.charAt(pos);
+            if (c != ' ' && c != '\t' && c != '\n' && c != '\r') return;
+            pos++;
+        }
+    }
+
+    private JsonException error(String message) {
+        return new JsonException(message + " at offset " + pos);
+    }
+
+    private static String printable(char c) {
+        return c < 0x20 || c > 0x7e ? String.format("\\u%04x", (int) c) : String.valueOf(c);
+    }
+
+    /** A payload that is not valid JSON. */
+    public static final class JsonException extends RuntimeException {
+        public JsonException(String message) {
+            super(message);
+        }
+    }
+}

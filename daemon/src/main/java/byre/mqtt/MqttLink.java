@@ -1,0 +1,300 @@
+package byre.mqtt;
+
+import byre.config.MqttSettings;
+import io.micrometer.core.instrument.Counter;
+import io.micrometer.core.instrument.Gauge;
+import io.micrometer.core.instrument.MeterRegistry;
+import java.io.InputStream;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.security.KeyStore;
+import java.security.cert.Certificate;
+import java.security.cert.CertificateFactory;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Map;
+import java.util.concurrent.ConcurrentHashMap;
+import java.util.concurrent.TimeUnit;
+import java.util.concurrent.atomic.AtomicBoolean;
+import java.util.function.BiConsumer;
+import javax.net.ssl.SSLContext;
+import javax.net.ssl.TrustManagerFactory;
+import org.eclipse.paho.client.mqttv3.IMqttDeliveryToken;
+import org.eclipse.paho.client.mqttv3.MqttAsyncClient;
+import org.eclipse.paho.client.mqttv3.MqttCallbackExtended;
+import org.eclipse.paho.client.mqttv3.MqttConnectOptions;
+import org.eclipse.paho.client.mqttv3.MqttException;
+import org.eclipse.paho.client.mqttv3.MqttMessage;
+import org.eclipse.paho.client.mqttv3.persist.MemoryPersistence;
+import org.slf4j.Logger;
+import org.slf4j.LoggerFactory;
+
+/**
+ * byre's one connection to the broker (MQTT 3.1.1, Paho). A persistent session (clean session off,
+ * a stable client id) and QoS 1 subscriptions mean the broker keeps readings published while byre
+ * was down. A last will marks the site offline. byre reconnects on its own with a short capped
+ * backoff, so it is back within seconds of the broker's return.
+ */
+public final class MqttLink implements AutoCloseable {
+    private static final Logger LOG = LoggerFactory.getLogger(MqttLink.class);
+    private static final long FIRST_BACKOFF_MS = 250;
+    private static final long MAX_BACKOFF_MS = 4000;
+
+    private final MqttSettings settings;
+    private final String statusTopic;
+    private final Map<String, BiConsumer<String, byte[]>> subscriptions = new ConcurrentHashMap<>();
+    private final List<Runnable> onConnect = new ArrayList<>();
+    private final MqttAsyncClient client;
+    private final AtomicBoolean closing = new AtomicBoolean();
+    private final Object reconnectLock = new Object();
+    private volatile boolean connected;
+    private volatile String lastError = "not connected yet";
+    private Thread connector;
+    private final Counter publishDropped;
+    private final Counter connectionLosses;
+
+    public MqttLink(MqttSettings settings, String site, MeterRegistry registry) throws MqttException {
+        this.settings = settings;
+        this.statusTopic = settings.publishPrefix() + "/" + site + "/status";
+        this.client = new MqttAsyncClient(settings.connectUri(), settings.clientId(), new MemoryPersistence());
+        client.setCallback(new Callback());
+        Gauge.builder("byre.mqtt.connected", this, l -> l.connected ? 1 : 0)
+                .description("1 while connected to the broker").register(registry);
+        publishDropped = Counter.builder("byre.mqtt.publish.dropped")
+                .description("Derived-stream publications dropped while disconnected or saturated").register(registry);
+        connectionLosses = Counter.builder("byre.mqtt.connection.lost").description("Broker connections lost").register(registry);
+    }
+
+    /** Adds a subscription (before {@link #start()}); the handler runs on the client's callback thread. */
+    public void subscribe(String filter, BiConsumer<String, byte[]> handler) {
+        subscriptions.put(filter, handler);
+    }
+
+    /** Runs after every (re)connection, e.g. to republish retained state. */
+    public void onConnect(Runnable r) {
+        onConnect.add(r);
+    }
+
+    /** Starts connecting in the background; returns at once. */
+    public void start() {
+        connector = new Thread(this::connectLoop, "mqtt-connect");
+        connector.setDaemon(true);
+        connector.start();
+    }
+
+    public boolean isConnected() {
+        return connected;
+    }
+
+    public String lastError() {
+        return lastError;
+    }
+
+    /** Publishes without waiting; while disconnected the message is dropped and counted. */
+    public boolean publish(String topic, String payload, int qos, boolean retained) {
+        if (!connected) {
+            publishDropped.increment();
+            return false;
+        }
+        try {
+            MqttMessage m = new MqttMessage(payload.getBytes(StandardCharsets.UTF_8));
+            m.setQos(qos);
+            m.setRetained(retained);
+            client.publish(topic, m);
+            return true;
+        } catch (MqttException e) {
+            publishDropped.increment();
+            return false;
+        }
+    }
+
+    /** Publishes and waits for the broker's acknowledgement (QoS 1); false on failure or timeout. */
+    public boolean publishAndWait(String topic, String payload, long timeoutMs) {
+        if (!connected) return false;
+        try {
+            MqttMessage m = new MqttMessage(payload.getBytes(StandardCharsets.UTF_8));
+            m.setQos(1);
+            IMqttDeliveryToken t = client.publish(topic, m);
+            t.waitForCompletion(timeoutMs);
+            return t.isComplete() && t.getException() == null;
+        } catch (MqttException e) {
+            lastError = describe(e);
+            return false;
+        }
+    }
+
+    private void connectLoop() {
+        long backoff = FIRST_BACKOFF_MS;
+        boolean warned = false;
+        while (!closing.get()) {
+            if (connected) {
+                synchronized (reconnectLock) {
+                    try {
+                        reconnectLock.wait(1000);
+                    } catch (InterruptedException e) {
+                        return;
+                    }
+                }
+                backoff = FIRST_BACKOFF_MS;
+                continue;
+            }
+            try {
+                client.connect(options()).waitForCompletion(10_000);
+                if (!client.isConnected()) throw new MqttException(MqttException.REASON_CODE_CLIENT_TIMEOUT);
+                for (Map.Entry<String, BiConsumer<String, byte[]>> s : subscriptions.entrySet()) {
+                    client.subscribe(s.getKey(), settings.qos()).waitForCompletion(10_000);
+                }
+                connected = true;
+                lastError = "";
+                warned = false;
+                LOG.info("connected to MQTT broker {} as {}", settings.connectUri(), settings.clientId());
+                publish(statusTopic, "online", 1, true);
+                for (Runnable r : onConnect) {
+                    try {
+                        r.run();
+                    } catch (RuntimeException e) {
+                        LOG.warn("after-connect task failed: {}", e.toString());
+                    }
+                }
+            } catch (MqttException e) {
+                lastError = describe(e);
+                if (!warned) {
+                    LOG.warn("cannot connect to MQTT broker {}: {}; retrying", settings.connectUri(), lastError);
+                    warned = true;
+                } else {
+                    LOG.debug("still cannot connect to {}: {}", settings.connectUri(), lastError);
+                }
+                try {
+                    if (client.isConnected()) client.disconnectForcibly(100, 100);
+                } catch (MqttException ignored) {
+                    // about to retry anyway
+                }
+                try {
+                    TimeUnit.MILLISECONDS.sleep(backoff);
+                } catch (InterruptedException ie) {
+                    return;
+                }
+                backoff = Math.min(MAX_BACKOFF_MS, backoff * 2);
+            }
+        }
+    }
+
+    private MqttConnectOptions options() throws MqttException {
+        MqttConnectOptions o = new MqttConnectOptions();
+        o.setMqttVersion(MqttConnectOptions.MQTT_VERSION_3_1_1);
+        o.setCleanSession(false);
+        o.setAutomaticReconnect(false);
+        o.setKeepAliveInterval(20);
+        o.setConnectionTimeout(10);
+        o.setMaxInflight(1000);
+        o.setWill(statusTopic, "offline".getBytes(StandardCharsets.UTF_8), 1, true);
+        if (settings.username() != null) o.setUserName(settings.username());
+        if (settings.password() != null) o.setPassword(settings.password().reveal().toCharArray());
+        if (settings.caFile() != null) o.setSocketFactory(trustingOnly(Path.of(settings.caFile())));
+        return o;
+    }
+
+    /** A TLS socket factory that trusts exactly the CA certificate(s) in the given PEM file. */
+    static javax.net.ssl.SSLSocketFactory trustingOnly(Path caPem) throws MqttException {
+        try (InputStream in = Files.newInputStream(caPem)) {
+            KeyStore ks = KeyStore.getInstance(KeyStore.getDefaultType());
+            ks.load(null, null);
+            int i = 0;
+            for (Certificate c : CertificateFactory.getInstance("X.509").generateCertificates(in)) {
+                ks.setCertificateEntry("ca" + i++, c);
+            }
+            TrustManagerFactory tmf = TrustManagerFactory.getInstance(TrustManagerFactory.getDefaultAlgorithm());
+            tmf.init(ks);
+            SSLContext ctx = SSLContext.getInstance("TLS");
+            ctx.init(null, tmf.getTrustManagers(), null);
+            return ctx.getSocketFactory();
+        } catch (Exception e) {
+            throw new MqttException(MqttException.REASON_CODE_SSL_CONFIG_ERROR, e);
+        }
+    }
+
+    /** A short reason for an MQTT failure, without any credentials. */
+    static String describe(MqttException e) {
+        switch (e.getReasonCode()) {
+            case MqttException.REASON_CODE_FAILED_AUTHENTICATION: return "bad user name or password (broker refused authentication)";
+            case MqttException.REASON_CODE_NOT_AUTHORIZED: return "not authorised by the broker";
+            case MqttException.REASON_CODE_INVALID_CLIENT_ID: return "client id rejected by the broker";
+            case MqttException.REASON_CODE_BROKER_UNAVAILABLE: return "broker unavailable";
+            case MqttException.REASON_CODE_SERVER_CONNECT_ERROR:
+                Throwable c = e.getCause();
+                return "cannot reach the broker" + (c == null ? "" : " (" + c.getClass().getSimpleName()
+                        + (c.getMessage() == null ? "" : ": " + c.getMessage()) + ")");
+            case MqttException.REASON_CODE_SSL_CONFIG_ERROR: return "TLS set-up failed: " + e.getCause();
+            default: return e.getMessage() + " (code " + e.getReasonCode() + ")";
+        }
+    }
+
+    @Override
+    public void close() {
+        if (!closing.compareAndSet(false, true)) return;
+        if (connector != null) connector.interrupt();
+        try {
+            if (client.isConnected()) {
+                // A clean goodbye does not trigger the will, so say offline ourselves.
+                MqttMessage off = new MqttMessage("offline".getBytes(StandardCharsets.UTF_8));
+                off.setQos(1);
+                off.setRetained(true);
+                client.publish(statusTopic, off).waitForCompletion(2000);
+                client.disconnect(2000).waitForCompletion(3000);
+            }
+        } catch (MqttException e) {
+            LOG.debug("disconnect: {}", e.toString());
+        }
+        try {
+            client.close(true);
+        } catch (MqttException e) {
+            LOG.debug("close: {}", e.toString());
+        }
+        connected = false;
+        if (connector != null) {
+            try {
+                connector.join(2000);
+            } catch (InterruptedException ignored) {
+                Thread.currentThread().interrupt();
+            }
+        }
+    }
+
+    private final class Callback implements MqttCallbackExtended {
+        @Override
+        public void connectComplete(boolean reconnect, String serverURI) {
+            // connection set-up is driven by connectLoop
+        }
+
+        @Override
+        public void connectionLost(Throwable cause) {
+            connected = false;
+            connectionLosses.increment();
+            lastError = "connection lost: " + (cause == null ? "unknown" : cause.getMessage());
+            if (!closing.get()) LOG.warn("lost the MQTT broker connection ({}); reconnecting", cause == null ? "?" : cause.getMessage());
+            synchronized (reconnectLock) {
+                reconnectLock.notifyAll();
+            }
+        }
+
+        @Override
+        public void messageArrived(String topic, MqttMessage message) {
+            for (Map.Entry<String, BiConsumer<String, byte[]>> s : subscriptions.entrySet()) {
+                if (byre.ingest.TopicRouter.matches(s.getKey().split("/", -1), topic.split("/", -1))) {
+                    try {
+                        s.getValue().accept(topic, message.getPayload());
+                    } catch (RuntimeException e) {
+                        LOG.error("handler for {} failed on a message: {}", topic, e.toString(), e);
+                    }
+                    return;
+                }
+            }
+        }
+
+        @Override
+        public void deliveryComplete(IMqttDeliveryToken token) {
+            // nothing to do: publications are fire-and-forget or awaited by the caller
+        }
+    }
+}

@@ -1,0 +1,114 @@
+package byre.zones;
+
+import byre.config.ZoneConfig;
+import byre.ingest.Reading;
+import byre.rules.ZoneReading;
+import byre.units.Quantity;
+import java.time.Instant;
+import java.util.Arrays;
+import java.util.HashMap;
+import java.util.List;
+import java.util.Map;
+import java.util.function.Consumer;
+
+/**
+ * Combines each zone's sensors into zone-level streams: the measured quantities as they arrive and,
+ * whenever an input changes, every derived quantity whose inputs are fresh (no older than the zone's
+ * max-age relative to the newest input). A measured quantity always wins over the same one derived.
+ * Pure: no I/O, time comes from the readings.
+ */
+public final class ZoneStage {
+    private static final int N = Quantity.values().length;
+    /** Wet bulb above dry bulb by more than this is physically impossible: a wick or wiring fault. */
+    public static final double WET_ABOVE_DRY_TOLERANCE_C = 0.3;
+
+    /** Counts what the stage noticed, for the metrics. */
+    public interface Observer {
+        void wetBulbAboveDryBulb(String zone, double excessC);
+
+        void derivationSkipped(String zone, String why);
+
+        void derived(String zone);
+    }
+
+    private static final class ZoneState {
+        final ZoneConfig config;
+        final double[] values = new double[N];
+        final long[] atMillis = new long[N];
+        final double[] fresh = new double[N];
+        final double[] derived = new double[N];
+
+        ZoneState(ZoneConfig config) {
+            this.config = config;
+            Arrays.fill(values, Double.NaN);
+        }
+    }
+
+    private final Map<String, ZoneState> bySensor = new HashMap<>();
+    private final Map<String, ZoneState> byZone = new HashMap<>();
+    private final ZoneDeriver deriver;
+    private final Observer observer;
+
+    public ZoneStage(List<ZoneConfig> zones, ZoneDeriver deriver, Observer observer) {
+        this.deriver = deriver;
+        this.observer = observer;
+        for (ZoneConfig z : zones) {
+            ZoneState s = new ZoneState(z);
+            byZone.put(z.id(), s);
+            for (String sensor : z.sensors()) bySensor.put(sensor, s);
+        }
+    }
+
+    /** The zone a sensor belongs to, or null. */
+    public String zoneOf(String sensorId) {
+        ZoneState s = bySensor.get(sensorId);
+        return s == null ? null : s.config.id();
+    }
+
+    /** Feeds one sensor reading; emits the zone streams it produces. */
+    public void accept(Reading r, Consumer<ZoneReading> out) {
+        ZoneState z = bySensor.get(r.sensorId());
+        if (z == null) return;
+        int q = r.quantity().ordinal();
+        long t = r.at().toEpochMilli();
+        if (z.atMillis[q] > t && !Double.isNaN(z.values[q])) {
+            // An older reading redelivered after a newer one: keep the newer as the current input.
+            out.accept(new ZoneReading(r.at(), z.config.id(), r.quantity(), r.value()));
+            return;
+        }
+        z.values[q] = r.value();
+        z.atMillis[q] = t;
+        out.accept(new ZoneReading(r.at(), z.config.id(), r.quantity(), r.value()));
+
+        long oldest = t - z.config.maxAge().toMillis();
+        for (int i = 0; i < N; i++) {
+            z.fresh[i] = z.atMillis[i] >= oldest && z.atMillis[i] <= t ? z.values[i] : Double.NaN;
+        }
+        double dry = z.fresh[Quantity.DRY_BULB.ordinal()];
+        double wet = z.fresh[Quantity.WET_BULB.ordinal()];
+        if (wet - dry > WET_ABOVE_DRY_TOLERANCE_C) observer.wetBulbAboveDryBulb(z.config.id(), wet - dry);
+
+        String problem = deriver.derive(z.config, z.fresh, z.derived);
+        if (problem != null) observer.derivationSkipped(z.config.id(), problem);
+        boolean any = false;
+        for (Quantity dq : Quantity.values()) {
+            int i = dq.ordinal();
+            double v = z.derived[i];
+            if (Double.isNaN(v) || !Double.isNaN(z.fresh[i])) continue;
+            any = true;
+            out.accept(new ZoneReading(r.at(), z.config.id(), dq, v));
+        }
+        if (any) observer.derived(z.config.id());
+    }
+
+    /** The latest value per quantity (measured, NaN if never seen) of a zone, for status lines. */
+    public double latest(String zone, Quantity q) {
+        ZoneState z = byZone.get(zone);
+        return z == null ? Double.NaN : z.values[q.ordinal()];
+    }
+
+    public Instant latestAt(String zone, Quantity q) {
+        ZoneState z = byZone.get(zone);
+        return z == null || z.atMillis[q.ordinal()] == 0 ? null : Instant.ofEpochMilli(z.atMillis[q.ordinal()]);
+    }
+}
