@@ -18,7 +18,16 @@ public final class Suggest {
             }
         }
         int allowed = Math.max(1, Math.min(3, wrong.length() / 3));
-        return best != null && bestDistance <= allowed ? Optional.of(best) : Optional.empty();
+        if (best != null && bestDistance <= allowed) return Optional.of(best);
+        // A known name the user wrote out longhand ("Fahr" for "F", "calves-all" for "calves").
+        String prefix = null;
+        for (String candidate : known) {
+            if (!candidate.isEmpty() && wrong.toLowerCase().startsWith(candidate.toLowerCase())
+                    && (prefix == null || candidate.length() > prefix.length())) {
+                prefix = candidate;
+            }
+        }
+        return Optional.ofNullable(prefix);
     }
 
     /** " (did you mean 'x'?)" or "". */

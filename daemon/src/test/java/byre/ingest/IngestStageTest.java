@@ -1,0 +1,121 @@
+package byre.ingest;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertNotNull;
+import static org.junit.jupiter.api.Assertions.assertNull;
+
+import byre.config.PayloadFormat;
+import byre.config.SensorConfig;
+import byre.units.Quantity;
+import byre.units.Unit;
+import io.micrometer.core.instrument.simple.SimpleMeterRegistry;
+import java.nio.charset.StandardCharsets;
+import java.time.Clock;
+import java.time.Instant;
+import java.time.ZoneOffset;
+import java.util.ArrayList;
+import java.util.List;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.params.ParameterizedTest;
+import org.junit.jupiter.params.provider.CsvSource;
+
+/** Bad input table: each malformed payload and the exact reason and detail it gets. */
+class IngestStageTest {
+    static final Instant NOW = Instant.parse("2026-07-14T13:05:00Z");
+    final SimpleMeterRegistry registry = new SimpleMeterRegistry();
+    final List<Reading> accepted = new ArrayList<>();
+    final IngestStage stage = new IngestStage(List.of(
+            new SensorConfig("pen1-dry", "barn/pen1/dry", Quantity.DRY_BULB, Unit.F, PayloadFormat.NUMBER, null, 0, 1),
+            new SensorConfig("pen1-air", "barn/pen1/air", Quantity.AIR_SPEED, Unit.FT_PER_MIN,
+                    new PayloadFormat(PayloadFormat.Kind.JSON, "speed"), "ts", 0, 2),
+            new SensorConfig("shed-rh", "barn/shed/senml", Quantity.RH, Unit.PERCENT,
+                    new PayloadFormat(PayloadFormat.Kind.SENML, "shed/rh"), null, 0, 3),
+            new SensorConfig("pens-wet", "barn/+/wet", Quantity.WET_BULB, Unit.C, PayloadFormat.NUMBER, null, 2, 4)),
+            Clock.fixed(NOW, ZoneOffset.UTC), registry, accepted::add, 50);
+
+    double rejected(String reason) {
+        return registry.counter("byre.readings.rejected", "reason", reason).count();
+    }
+
+    Reading send(String topic, String payload) {
+        return stage.accept(topic, payload.getBytes(StandardCharsets.UTF_8));
+    }
+
+    @ParameterizedTest(name = "{0} {1} -> {2}")
+    @CsvSource(delimiter = '|', quoteCharacter = '`', textBlock = """
+            barn/pen1/dry | abc                          | unparseable
+            barn/pen1/dry | ``                           | unparseable
+            barn/pen1/dry | 12,5                         | unparseable
+            barn/pen1/dry | NaN                          | not-finite
+            barn/pen1/dry | -Infinity                    | not-finite
+            barn/pen1/dry | 1e400                        | not-finite
+            barn/pen1/dry | 400                          | out-of-range
+            barn/pen1/dry | -90                          | out-of-range
+            barn/pen1/air | {"speed": 120                | unparseable
+            barn/pen1/air | {"velocity": 120}            | missing-field
+            barn/pen1/air | {"speed": true}              | unparseable
+            barn/pen1/air | {"speed": -5}                | out-of-range
+            barn/pen1/air | {"speed": 1, "ts": "noon"}   | unparseable
+            barn/shed/senml | {"n":"rh","v":50}          | unparseable
+            barn/shed/senml | [{"n":"shed/rh","v":"x"}]  | unparseable
+            barn/shed/senml | [{"n":"other","v":50}]     | missing-field
+            barn/shed/senml | [{"n":"shed/rh","u":"Cel","v":50}] | bad-unit
+            barn/shed/senml | [{"n":"shed/rh","v":140}]  | out-of-range
+            """)
+    void rejectsMalformedPayloadsByReason(String topic, String payload, String reason) {
+        assertNull(send(topic, payload));
+        assertEquals(1.0, rejected(reason));
+        assertEquals(0, accepted.size());
+    }
+
+    @Test
+    void refusesPayloadsOver4KiB() {
+        byte[] big = new byte[4097];
+        java.util.Arrays.fill(big, (byte) '1');
+        assertNull(stage.accept("barn/pen1/dry", big));
+        assertEquals(1.0, rejected("too-large"));
+        assertNull(stage.accept("barn/pen1/dry", new byte[] {(byte) 0xff, (byte) 0xfe}));
+        assertEquals(1.0, rejected("unparseable"), "not UTF-8");
+    }
+
+    @Test
+    void convertsToCanonicalUnits() {
+        // 0 C = 32 F, 20 C = 68 F (common practice); 1 ft/min = 0.00508 m/s exactly (definition of the foot).
+        assertEquals(20.0, send("barn/pen1/dry", "68").value(), 1e-9);
+        assertEquals(0.508, send("barn/pen1/air", "{\"speed\": 100}").value(), 1e-9);
+        Reading rh = send("barn/shed/senml", "[{\"bn\":\"shed/\",\"n\":\"rh\",\"u\":\"%RH\",\"v\":71.2}]");
+        assertEquals(71.2, rh.value(), 1e-9);
+        Reading wet = send("barn/pen7/wet", "12.5");
+        assertEquals("pens-wet/pen7", wet.sensorId());
+        assertEquals(4, accepted.size());
+    }
+
+    @Test
+    void takesBelievableTimesFromThePayloadAndReplacesOthers() {
+        Instant tenSecondsAgo = NOW.minusSeconds(10);
+        assertEquals(tenSecondsAgo, send("barn/pen1/air", "{\"speed\":1,\"ts\":" + tenSecondsAgo.getEpochSecond() + "}").at());
+        assertEquals(tenSecondsAgo, send("barn/pen1/air", "{\"speed\":1,\"ts\":\"" + tenSecondsAgo + "\"}").at());
+        // A Pi without a real-time clock boots in 1970: use the arrival time and count it.
+        assertEquals(NOW, send("barn/pen1/air", "{\"speed\":1,\"ts\":86400}").at());
+        assertEquals(NOW, send("barn/pen1/air", "{\"speed\":1,\"ts\":" + NOW.plusSeconds(600).toEpochMilli() + "}").at());
+        assertEquals(1.0, registry.counter("byre.readings.time.replaced", "reason", "before-2020").count());
+        assertEquals(1.0, registry.counter("byre.readings.time.replaced", "reason", "ahead").count());
+        // SenML: base time plus time (RFC 8428 section 4.5.3).
+        Reading s = send("barn/shed/senml", "[{\"bn\":\"shed/\",\"bt\":" + (NOW.getEpochSecond() - 60) + ",\"n\":\"rh\",\"v\":50,\"t\":30}]");
+        assertEquals(NOW.minusSeconds(30), s.at());
+    }
+
+    @Test
+    void countsUnroutedTopicsAndThrottlesFloods() {
+        assertNull(send("barn/elsewhere", "1"));
+        assertEquals(1.0, registry.counter("byre.readings.unrouted").count());
+        int ok = 0;
+        for (int i = 0; i < 1000; i++) {
+            if (send("barn/pen1/dry", "68") != null) ok++;
+        }
+        assertNotNull(accepted.get(0));
+        // The bucket holds 50; a tight loop refills it only a little.
+        assertEquals(1000 - ok, (int) rejected("flood"));
+        org.junit.jupiter.api.Assertions.assertTrue(ok < 200, "flood not throttled: " + ok);
+    }
+}
