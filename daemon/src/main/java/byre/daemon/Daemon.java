@@ -1,0 +1,205 @@
+package byre.daemon;
+
+import byre.config.ByreConfig;
+import byre.config.SensorConfig;
+import byre.history.HistoryStore;
+import byre.history.HistoryWriter;
+import byre.history.Retention;
+import byre.ingest.IngestStage;
+import byre.mqtt.EmbeddedBroker;
+import byre.mqtt.MqttLink;
+import byre.zones.ZoneDeriver;
+import byre.zones.ZoneStage;
+import io.micrometer.core.instrument.Counter;
+import io.micrometer.core.instrument.Gauge;
+import io.micrometer.core.instrument.MeterRegistry;
+import java.io.IOException;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.time.Clock;
+import java.util.ArrayList;
+import java.util.List;
+import org.slf4j.Logger;
+import org.slf4j.LoggerFactory;
+
+/**
+ * The running daemon: broker link, ingest, zone derivation, history, and (as they are added) rules
+ * and alerts, assembled from one configuration. {@link #close()} stops intake first, then drains
+ * every stage in order, so a clean stop loses nothing that was acknowledged to the broker.
+ */
+public final class Daemon implements AutoCloseable {
+    private static final Logger LOG = LoggerFactory.getLogger(Daemon.class);
+    /** Readings per second one sensor may send before it is throttled (a normal one sends one a minute or so). */
+    static final int FLOOD_LIMIT_PER_SENSOR = 50;
+
+    private final ByreConfig config;
+    private final Clock clock;
+    private final MeterRegistry registry;
+    private EmbeddedBroker broker;
+    private HistoryStore store;
+    private HistoryWriter writer;
+    private Pipeline pipeline;
+    private MqttLink link;
+    private ZoneStreamPublisher publisher;
+    private ZoneStage zones;
+    private final List<Pipeline.ZoneListener> extraListeners = new ArrayList<>();
+
+    private Daemon(ByreConfig config, Clock clock, MeterRegistry registry) {
+        this.config = config;
+        this.clock = clock;
+        this.registry = registry;
+    }
+
+    /** Builds a daemon; {@link #start(ZoneDeriver)} brings it up. */
+    public static Daemon create(ByreConfig config, Clock clock, MeterRegistry registry) {
+        return new Daemon(config, clock, registry);
+    }
+
+    /** Adds a consumer of zone streams (console lines in the demo, tests); call before start. */
+    public Daemon listen(Pipeline.ZoneListener l) {
+        extraListeners.add(l);
+        return this;
+    }
+
+    public Daemon start(ZoneDeriver deriver) throws Exception {
+        try {
+            Path db = config.history().path();
+            if (db.getParent() != null) Files.createDirectories(db.getParent());
+            store = HistoryStore.open(db, clock);
+            writer = HistoryWriter.start(store, new Retention(config.history().keepRaw(), config.history().keepMinute(),
+                    config.history().keepHour()), clock);
+            registerHistoryMeters();
+
+            zones = new ZoneStage(new ArrayList<>(config.zones().values()), deriver, new ZoneMetrics(registry));
+            pipeline = new Pipeline(50_000, zones, writer, clock);
+            Gauge.builder("byre.pipeline.queue", pipeline, Pipeline::depth).description("Readings waiting for the pipeline").register(registry);
+
+            if (config.mqtt().embedded()) {
+                broker = EmbeddedBroker.start(config.mqtt().listenHost(), config.mqtt().listenPort());
+            }
+            link = new MqttLink(config.mqtt(), config.site(), registry);
+            publisher = new ZoneStreamPublisher(link, config.mqtt().publishPrefix(), config.site());
+            pipeline.addListener(new Pipeline.ZoneListener() {
+                @Override
+                public void accept(byre.rules.ZoneReading r) {
+                    publisher.offer(r);
+                }
+
+                @Override
+                public void tick(java.time.Instant now) {
+                    publisher.flush();
+                }
+            });
+            extraListeners.forEach(pipeline::addListener);
+
+            IngestStage ingest = new IngestStage(config.sensors().values(), clock, registry, pipeline::offer, FLOOD_LIMIT_PER_SENSOR);
+            for (SensorConfig s : config.sensors().values()) {
+                link.subscribe(s.topic(), ingest::accept);
+            }
+            link.onConnect(publisher::republishAll);
+            pipeline.start();
+            link.start();
+            LOG.info("byre started for site {}: {} sensors in {} zones, history {}", config.site(), config.sensors().size(),
+                    config.zones().size(), db);
+            return this;
+        } catch (Exception e) {
+            close();
+            throw e;
+        }
+    }
+
+    private void registerHistoryMeters() {
+        Gauge.builder("byre.history.queue", writer, HistoryWriter::queueDepth).description("Rows waiting for the history writer").register(registry);
+        Gauge.builder("byre.history.backlog", writer, HistoryWriter::backlogRows).description("Rows held in memory while the database cannot be written").register(registry);
+        Gauge.builder("byre.history.rows.written", writer, HistoryWriter::rowsWritten).description("Rows committed to the history").register(registry);
+        Gauge.builder("byre.history.batch.rows", writer, HistoryWriter::lastBatchRows).description("Rows in the last committed batch").register(registry);
+        Gauge.builder("byre.history.commit.millis", writer, HistoryWriter::lastCommitMillis).description("Duration of the last commit").register(registry);
+        Gauge.builder("byre.history.rows.dropped", writer, HistoryWriter::rowsDropped).description("Rows dropped because the backlog was full").register(registry);
+        Gauge.builder("byre.history.write.errors", writer, HistoryWriter::writeErrors).description("Failed history writes").register(registry);
+        Gauge.builder("byre.history.healthy", writer, w -> w.isHealthy() ? 1 : 0).description("1 while history writes succeed").register(registry);
+        Gauge.builder("byre.history.size.bytes", store, HistoryStore::sizeOnDiskBytes).description("Database size on disk").register(registry);
+    }
+
+    public ByreConfig config() {
+        return config;
+    }
+
+    public MqttLink link() {
+        return link;
+    }
+
+    public HistoryWriter history() {
+        return writer;
+    }
+
+    public HistoryStore store() {
+        return store;
+    }
+
+    public ZoneStage zones() {
+        return zones;
+    }
+
+    /** Readings that have gone through the pipeline since start. */
+    public long processed() {
+        return pipeline == null ? 0 : pipeline.processed();
+    }
+
+    /** Waits until everything received so far is committed to the history. */
+    public boolean flush() {
+        long deadline = System.nanoTime() + 10_000_000_000L;
+        while (pipeline != null && pipeline.depth() > 0 && System.nanoTime() < deadline) {
+            try {
+                Thread.sleep(5);
+            } catch (InterruptedException e) {
+                Thread.currentThread().interrupt();
+                return false;
+            }
+        }
+        return writer == null || writer.flush();
+    }
+
+    @Override
+    public void close() {
+        if (link != null) link.close();
+        if (pipeline != null) pipeline.close();
+        if (writer != null) writer.close();
+        if (store != null) store.close();
+        if (broker != null) broker.close();
+        LOG.info("byre stopped");
+    }
+
+    /** Zone-stage observations as metrics. */
+    private static final class ZoneMetrics implements ZoneStage.Observer {
+        private final MeterRegistry registry;
+        private final byre.ingest.RateLimitedLog warnings = new byre.ingest.RateLimitedLog(LOG, java.time.Duration.ofMinutes(10), System::nanoTime);
+
+        ZoneMetrics(MeterRegistry registry) {
+            this.registry = registry;
+        }
+
+        @Override
+        public void wetBulbAboveDryBulb(String zone, double excessC) {
+            Counter.builder("byre.readings.flagged").tag("reason", "wet-above-dry").tag("zone", zone)
+                    .description("Readings that are possible but suspicious").register(registry).increment();
+            warnings.warn("wet:" + zone, String.format("zone %s: wet bulb reads %.1f C above dry bulb; check the wick and the wiring", zone, excessC));
+        }
+
+        @Override
+        public void derivationSkipped(String zone, String why) {
+            Counter.builder("byre.derivations.skipped").tag("zone", zone).description("Zone derivations skipped for bad inputs")
+                    .register(registry).increment();
+            warnings.warn("skip:" + zone + why, "zone " + zone + ": " + why);
+        }
+
+        @Override
+        public void derived(String zone) {
+            Counter.builder("byre.derivations").tag("zone", zone).description("Zone derivations").register(registry).increment();
+        }
+    }
+
+    static Path ensureParent(Path p) throws IOException {
+        if (p.getParent() != null) Files.createDirectories(p.getParent());
+        return p;
+    }
+}
