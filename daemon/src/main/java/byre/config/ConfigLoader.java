@@ -53,7 +53,7 @@ public final class ConfigLoader {
     static final Map<String, List<String>> CHANNEL_REQUIRED = Map.of(
             "webhook", List.of("url"), "mqtt", List.of("topic"), "email", List.of("smtp", "from", "to"),
             "command", List.of("argv"));
-    static final List<String> THI_VARIANTS = List.of("nrc-1971", "thom", "dew-point", "mader-2006");
+    static final List<String> THI_VARIANTS = java.util.Arrays.stream(byre.climate.ThiVariant.values()).map(byre.climate.ThiVariant::id).toList();
 
     private final String fileName;
     private final Path baseDir;
