@@ -1,0 +1,65 @@
+package byre.history;
+
+import java.util.List;
+
+/**
+ * The schema of the history database, as a list of numbered steps. To change the schema, append a step
+ * with the next number; never edit a step that has shipped. The file's {@code PRAGMA user_version} holds
+ * the number of the last step applied.
+ */
+final class Migrations {
+    private Migrations() {}
+
+    /** Marks the file as ours ("byre" in ASCII), so a stranger SQLite file is refused with a clear message. */
+    static final int APPLICATION_ID = 0x62797265;
+
+    static final List<Migration> ALL = List.of(
+        new Migration(1, "streams, raw readings, minute and hour rollups, state", List.of(
+            // A stream is a sensor (key = sensor id) or a zone quantity (key = "zone.quantity").
+            // The small integer id keeps the per-reading rows short.
+            """
+            CREATE TABLE stream (
+              id   INTEGER PRIMARY KEY,
+              kind TEXT    NOT NULL CHECK (kind IN ('sensor', 'zone')),
+              key  TEXT    NOT NULL,
+              UNIQUE (kind, key))""",
+            // WITHOUT ROWID: the (stream, ts) key is the table itself, no second index (about 25 bytes a row).
+            // ts is epoch milliseconds UTC.
+            """
+            CREATE TABLE reading (
+              stream INTEGER NOT NULL,
+              ts     INTEGER NOT NULL,
+              value  REAL    NOT NULL,
+              PRIMARY KEY (stream, ts)) WITHOUT ROWID""",
+            // Rollups: ts = bucket start (epoch ms, aligned to the epoch), n = count, lo/hi = min/max,
+            // total = sum (mean = total / n). Sums rather than means, so buckets merge exactly.
+            """
+            CREATE TABLE rollup_minute (
+              stream INTEGER NOT NULL,
+              ts     INTEGER NOT NULL,
+              n      INTEGER NOT NULL,
+              lo     REAL    NOT NULL,
+              hi     REAL    NOT NULL,
+              total  REAL    NOT NULL,
+              PRIMARY KEY (stream, ts)) WITHOUT ROWID""",
+            """
+            CREATE TABLE rollup_hour (
+              stream INTEGER NOT NULL,
+              ts     INTEGER NOT NULL,
+              n      INTEGER NOT NULL,
+              lo     REAL    NOT NULL,
+              hi     REAL    NOT NULL,
+              total  REAL    NOT NULL,
+              PRIMARY KEY (stream, ts)) WITHOUT ROWID""",
+            // Small durable key/value store for other stages (watch state); updated = epoch ms.
+            """
+            CREATE TABLE state (
+              key     TEXT    PRIMARY KEY,
+              value   TEXT    NOT NULL,
+              updated INTEGER NOT NULL)""",
+            "PRAGMA application_id = " + APPLICATION_ID))
+        // Next: new Migration(2, "...", List.of("CREATE TABLE outbox (...)")),
+    );
+
+    static int latestVersion() { return ALL.get(ALL.size() - 1).version(); }
+}
