@@ -7,7 +7,7 @@ import picocli.CommandLine.Command;
 @Command(name = "byre", mixinStandardHelpOptions = true, version = "byre 0.1.0",
         description = "Barn-climate ingest and alerting daemon.",
         subcommands = {
-                NotBuiltYet.Run.class,
+                RunCommand.class,
                 NotBuiltYet.Demo.class,
                 NotBuiltYet.Check.class,
                 NotBuiltYet.Calc.class,

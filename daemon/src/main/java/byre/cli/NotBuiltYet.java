@@ -15,7 +15,6 @@ final class NotBuiltYet {
         }
     }
 
-    @Command(name = "run", mixinStandardHelpOptions = true, description = "Run the daemon.") static final class Run extends Stub {}
     @Command(name = "demo", mixinStandardHelpOptions = true, description = "Embedded broker, simulated barn and daemon, no set-up.") static final class Demo extends Stub {}
     @Command(name = "check", mixinStandardHelpOptions = true, description = "Validate configuration and rule files.") static final class Check extends Stub {}
     @Command(name = "calc", mixinStandardHelpOptions = true, description = "Every derived value for one set of conditions.") static final class Calc extends Stub {}

@@ -97,6 +97,7 @@ public final class Daemon implements AutoCloseable {
                 link.subscribe(s.topic(), ingest::accept);
             }
             link.onConnect(publisher::republishAll);
+            link.onConnecting(ingest::connected);
             pipeline.start();
             link.start();
             LOG.info("byre started for site {}: {} sensors in {} zones, history {}", config.site(), config.sensors().size(),

@@ -8,6 +8,7 @@ import java.util.concurrent.ConcurrentHashMap;
  */
 final class FloodGate {
     private final int limitPerSecond;
+    private final double burst;
     private final ConcurrentHashMap<String, Bucket> buckets = new ConcurrentHashMap<>();
 
     private static final class Bucket {
@@ -20,8 +21,10 @@ final class FloodGate {
         }
     }
 
-    FloodGate(int limitPerSecond) {
+    /** A sensor may send {@code burst} readings at once, then {@code limitPerSecond} on average. */
+    FloodGate(int limitPerSecond, int burst) {
         this.limitPerSecond = limitPerSecond;
+        this.burst = Math.max(burst, limitPerSecond);
     }
 
     int limitPerSecond() {
@@ -30,11 +33,11 @@ final class FloodGate {
 
     boolean admit(String sensorId, long nowNanos) {
         if (limitPerSecond <= 0) return true;
-        Bucket b = buckets.computeIfAbsent(sensorId, k -> new Bucket(limitPerSecond, nowNanos));
+        Bucket b = buckets.computeIfAbsent(sensorId, k -> new Bucket(burst, nowNanos));
         synchronized (b) {
             double elapsedS = (nowNanos - b.lastNanos) / 1e9;
             b.lastNanos = nowNanos;
-            b.tokens = Math.min(limitPerSecond, b.tokens + elapsedS * limitPerSecond);
+            b.tokens = Math.min(burst, b.tokens + elapsedS * limitPerSecond);
             if (b.tokens >= 1) {
                 b.tokens -= 1;
                 return true;

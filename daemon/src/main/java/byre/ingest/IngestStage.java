@@ -26,6 +26,11 @@ public final class IngestStage {
     /** Payload times further ahead than this are from a sensor whose clock is wrong. */
     static final Duration MAX_AHEAD = Duration.ofMinutes(5);
 
+    /** Readings one sensor may send at once before the flood limit bites. */
+    static final int FLOOD_BURST = 1000;
+    /** After a (re)connection the broker delivers what it kept for byre's session in one burst: no flood limit then. */
+    static final Duration BACKLOG_GRACE = Duration.ofSeconds(30);
+
     private static final Logger LOG = LoggerFactory.getLogger(IngestStage.class);
 
     private final TopicRouter router;
@@ -39,6 +44,7 @@ public final class IngestStage {
     private final Counter unknownTopic;
     private final Counter clockBefore2020;
     private final Counter clockAhead;
+    private volatile long connectedAtNanos = System.nanoTime() - BACKLOG_GRACE.toNanos() - 1;
 
     public IngestStage(Collection<SensorConfig> sensors, Clock clock, MeterRegistry registry, Consumer<Reading> sink,
                        int maxReadingsPerSecondPerSensor) {
@@ -47,7 +53,7 @@ public final class IngestStage {
         this.sink = sink;
         this.registry = registry;
         this.warnings = new RateLimitedLog(LOG, Duration.ofMinutes(1), System::nanoTime);
-        this.floodGate = new FloodGate(maxReadingsPerSecondPerSensor);
+        this.floodGate = new FloodGate(maxReadingsPerSecondPerSensor, FLOOD_BURST);
         for (RejectReason r : RejectReason.values()) {
             rejected.put(r, Counter.builder("byre.readings.rejected").tag("reason", r.id())
                     .description("Payloads not turned into readings, by reason").register(registry));
@@ -71,7 +77,8 @@ public final class IngestStage {
         }
         String id = route.sensorId();
         SensorConfig sensor = route.sensor();
-        if (!floodGate.admit(id, System.nanoTime())) {
+        long nowNanos = System.nanoTime();
+        if (nowNanos - connectedAtNanos > BACKLOG_GRACE.toNanos() && !floodGate.admit(id, nowNanos)) {
             return reject(id, RejectReason.FLOOD, "more than " + floodGate.limitPerSecond() + " readings per second");
         }
         Decoded d = PayloadDecoder.decode(sensor, payload, arrival);
@@ -107,6 +114,11 @@ public final class IngestStage {
         rejected.get(reason).increment();
         warnings.warn(sensorId + ":" + reason.id(), "sensor " + sensorId + ": rejected (" + reason.id() + "): " + detail);
         return null;
+    }
+
+    /** Tells the stage that the broker connection was (re)established: a session backlog may follow. */
+    public void connected() {
+        connectedAtNanos = System.nanoTime();
     }
 
     public TopicRouter router() {

@@ -45,6 +45,7 @@ public final class MqttLink implements AutoCloseable {
     private final String statusTopic;
     private final Map<String, BiConsumer<String, byte[]>> subscriptions = new ConcurrentHashMap<>();
     private final List<Runnable> onConnect = new ArrayList<>();
+    private final List<Runnable> onConnecting = new ArrayList<>();
     private final MqttAsyncClient client;
     private final AtomicBoolean closing = new AtomicBoolean();
     private final Object reconnectLock = new Object();
@@ -74,6 +75,11 @@ public final class MqttLink implements AutoCloseable {
     /** Runs after every (re)connection, e.g. to republish retained state. */
     public void onConnect(Runnable r) {
         onConnect.add(r);
+    }
+
+    /** Runs just before every connection attempt (a session backlog may arrive before the attempt returns). */
+    public void onConnecting(Runnable r) {
+        onConnecting.add(r);
     }
 
     /** Starts connecting in the background; returns at once. */
@@ -140,6 +146,7 @@ public final class MqttLink implements AutoCloseable {
                 continue;
             }
             try {
+                onConnecting.forEach(Runnable::run);
                 client.connect(options()).waitForCompletion(10_000);
                 if (!client.isConnected()) throw new MqttException(MqttException.REASON_CODE_CLIENT_TIMEOUT);
                 for (Map.Entry<String, BiConsumer<String, byte[]>> s : subscriptions.entrySet()) {

@@ -80,9 +80,12 @@ public final class ZoneStage {
         z.atMillis[q] = t;
         out.accept(new ZoneReading(r.at(), z.config.id(), r.quantity(), r.value()));
 
-        long oldest = t - z.config.maxAge().toMillis();
+        // Fresh = no older than max-age before the zone's newest input (sensors need not report in step).
+        long newest = t;
+        for (int i = 0; i < N; i++) newest = Math.max(newest, z.atMillis[i]);
+        long oldest = newest - z.config.maxAge().toMillis();
         for (int i = 0; i < N; i++) {
-            z.fresh[i] = z.atMillis[i] >= oldest && z.atMillis[i] <= t ? z.values[i] : Double.NaN;
+            z.fresh[i] = z.atMillis[i] >= oldest ? z.values[i] : Double.NaN;
         }
         double dry = z.fresh[Quantity.DRY_BULB.ordinal()];
         double wet = z.fresh[Quantity.WET_BULB.ordinal()];

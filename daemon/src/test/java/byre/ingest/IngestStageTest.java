@@ -110,12 +110,13 @@ class IngestStageTest {
         assertNull(send("barn/elsewhere", "1"));
         assertEquals(1.0, registry.counter("byre.readings.unrouted").count());
         int ok = 0;
-        for (int i = 0; i < 1000; i++) {
+        for (int i = 0; i < 3000; i++) {
             if (send("barn/pen1/dry", "68") != null) ok++;
         }
         assertNotNull(accepted.get(0));
         // The bucket holds 50; a tight loop refills it only a little.
-        assertEquals(1000 - ok, (int) rejected("flood"));
-        org.junit.jupiter.api.Assertions.assertTrue(ok < 200, "flood not throttled: " + ok);
+        assertEquals(3000 - ok, (int) rejected("flood"));
+        // A burst of 1000 passes (a session backlog after a restart), then about 50 per second.
+        org.junit.jupiter.api.Assertions.assertTrue(ok >= 1000 && ok < 1500, "flood not throttled: " + ok);
     }
 }

@@ -1,0 +1,98 @@
+package byre.testing;
+
+import java.io.IOException;
+import java.net.InetSocketAddress;
+import java.net.ServerSocket;
+import java.net.Socket;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.time.Duration;
+import java.util.concurrent.TimeUnit;
+
+/**
+ * Debian's mosquitto, started by a test on a free loopback port with its own configuration (CI
+ * installs the package; nothing is started by hand). Unbounded queues so a slow subscriber loses
+ * nothing at QoS 1; stopped and its folder removed by {@link #close()}.
+ */
+public final class Mosquitto implements AutoCloseable {
+    private final Process process;
+    private final int port;
+    private final Path dir;
+
+    private Mosquitto(Process process, int port, Path dir) {
+        this.process = process;
+        this.port = port;
+        this.dir = dir;
+    }
+
+    public static Mosquitto start() throws IOException, InterruptedException {
+        return start(freePort());
+    }
+
+    /** Starts on a given port (used to restart a broker on the same address). */
+    public static Mosquitto start(int port) throws IOException, InterruptedException {
+        Path dir = Files.createTempDirectory("byre-mosquitto");
+        Path conf = dir.resolve("mosquitto.conf");
+        Files.writeString(conf, String.join("\n",
+                "listener " + port + " 127.0.0.1",
+                "allow_anonymous true",
+                "persistence false",
+                "max_queued_messages 0",
+                "max_queued_bytes 0",
+                "max_inflight_messages 0",
+                "log_dest stderr",
+                "log_type error",
+                "") );
+        String exe = Files.isExecutable(Path.of("/usr/sbin/mosquitto")) ? "/usr/sbin/mosquitto" : "mosquitto";
+        Process p = new ProcessBuilder(exe, "-c", conf.toString())
+                .redirectErrorStream(true).redirectOutput(dir.resolve("mosquitto.log").toFile()).start();
+        Mosquitto m = new Mosquitto(p, port, dir);
+        long deadline = System.nanoTime() + Duration.ofSeconds(10).toNanos();
+        while (System.nanoTime() < deadline) {
+            if (!p.isAlive()) {
+                throw new IOException("mosquitto exited: " + Files.readString(dir.resolve("mosquitto.log")));
+            }
+            try (Socket s = new Socket()) {
+                s.connect(new InetSocketAddress("127.0.0.1", port), 200);
+                return m;
+            } catch (IOException notYet) {
+                Thread.sleep(20);
+            }
+        }
+        m.close();
+        throw new IOException("mosquitto did not listen on " + port + " within 10 s");
+    }
+
+    public String uri() {
+        return "tcp://127.0.0.1:" + port;
+    }
+
+    public int port() {
+        return port;
+    }
+
+    /** Kills the broker at once (SIGKILL), as a crash would. */
+    public void kill() throws InterruptedException {
+        process.destroyForcibly();
+        process.waitFor(5, TimeUnit.SECONDS);
+    }
+
+    @Override
+    public void close() throws InterruptedException {
+        process.destroy();
+        if (!process.waitFor(5, TimeUnit.SECONDS)) kill();
+        try (var walk = Files.walk(dir)) {
+            walk.sorted(java.util.Comparator.reverseOrder()).forEach(f -> f.toFile().delete());
+        } catch (IOException ignored) {
+            // temporary folder
+        }
+    }
+
+    public static int freePort() throws IOException {
+        try (ServerSocket s = new ServerSocket()) {
+            s.setReuseAddress(true);
+            s.bind(new InetSocketAddress("127.0.0.1", 0));
+            return s.getLocalPort();
+        }
+    }
+}
