@@ -10,7 +10,7 @@ import picocli.CommandLine.Command;
                 RunCommand.class,
                 NotBuiltYet.Demo.class,
                 NotBuiltYet.Check.class,
-                NotBuiltYet.Calc.class,
+                CalcCommand.class,
                 NotBuiltYet.Replay.class,
                 NotBuiltYet.Status.class,
                 NotBuiltYet.History.class,
