@@ -43,19 +43,21 @@ public final class LarkmoorScenario {
     public static final double WICK_REWET_H = 7.0;
     public static final String WICK_SENSOR = "pen1-wet";
     /** Depression a fully dry wick still shows (the bulb is not quite at air temperature). */
-    public static final double DRY_WICK_DEPRESSION_C = 0.1;
+    public static final double DRY_WICK_DEPRESSION_C = 0.08;
 
     /** Human-readable timeline, elapsed hours and the clock times they have with the default start. */
     public static List<String> timeline() {
         return List.of(
-                "+0:15-2:45 (12:15-14:45)  calf-pen-1 wet-bulb wick dries out: the depression shrinks to about 0.1 C",
-                "+0:30-6:30 (12:30-18:30)  hot humid afternoon in the cow shed; THI above 72 from about 14:15 to 16:45, peak about 77 near 15:30",
-                "+2:45-7:00 (14:45-19:00)  calf-pen-1 wet bulb reads the dry bulb (apparent RH near 100 %)",
-                "+5:30-6:00 (17:30-18:00)  calf-pen-2 air-speed sensor (pen2-air) is silent",
-                "+7:00      (19:00)        calf-pen-1 wick re-wetted; wet bulb back to normal",
-                "+10:00-18:30 (22:00-06:30) wind through the calf pens, about 2-3 m/s from 22:45 to 05:45",
-                "+9:00-19:00 (21:00-07:00) cold front: calf pens at 2-6 C from about midnight to 05:30;"
-                        + " NWS/MSC wind chill below 5 C from about 23:30 to 05:30 in both pens",
+                "+0:15-2:45 (12:15-14:45)   calf-pen-1 wet-bulb wick dries out; the wet bulb creeps up to the dry bulb",
+                "+0:30-6:30 (12:30-18:30)   hot humid afternoon in the cow shed (RH about 72 %): NRC THI at or above 72"
+                        + " from about 14:00 to 16:45, peak about 77 near 15:30",
+                "+2:30-7:00 (14:30-19:00)   calf-pen-1 depression (dry minus wet bulb) below 0.3 C; apparent RH near 100 %",
+                "+5:30-6:00 (17:30-18:00)   calf-pen-2 air-speed sensor (pen2-air) publishes nothing",
+                "+7:00      (19:00)         calf-pen-1 wick re-wetted; its wet bulb reads true again",
+                "+10:20-18:10 (22:20-06:10) wind through the calf pens above 1 m/s, about 2 m/s (gusts to 3) from 23:00 to 05:30",
+                "+11:50-17:00 (23:50-05:00) calf pens at 2.5-6 C (coldest about 02:30); NWS/MSC wind chill below 5 C"
+                        + " from about 23:45 to 05:15 in calf-pen-1 and 00:00 to 04:45 in calf-pen-2, lowest about 0 C",
+                "+20:00     (08:00)         calf pens calm and above 7 C again",
                 "+24:00     (12:00 next day) the day repeats with fresh noise");
     }
 
