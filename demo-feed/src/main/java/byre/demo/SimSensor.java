@@ -11,7 +11,7 @@ public record SimSensor(String id, String zone, String topic, String quantity, S
     public String yamlLine() {
         StringBuilder b = new StringBuilder();
         b.append(id).append(": { topic: ").append(topic).append(", quantity: ").append(quantity)
-                .append(", unit: ").append(unit);
+                .append(", unit: ").append(unit.equals("%") ? "\"%\"" : unit);
         if (!payload.equals("number")) b.append(", payload: \"").append(payload).append('"');
         return b.append(" }").toString();
     }
