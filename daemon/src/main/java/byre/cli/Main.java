@@ -8,7 +8,7 @@ import picocli.CommandLine.Command;
         description = "Barn-climate ingest and alerting daemon.",
         subcommands = {
                 RunCommand.class,
-                NotBuiltYet.Demo.class,
+                DemoCommand.class,
                 NotBuiltYet.Check.class,
                 CalcCommand.class,
                 NotBuiltYet.Replay.class,

@@ -56,10 +56,18 @@ public final class FeedPublisher implements AutoCloseable {
      * @param simDuration simulated time to cover; null runs until {@link #stop()}
      */
     public synchronized void start(FeedSource source, Duration simDuration) {
+        start(source, simDuration, Double.isInfinite(speed) ? null : new SimClock(source.simTime(), speed));
+    }
+
+    /**
+     * Starts publishing paced by a given simulated clock (the demo shares one clock between the
+     * simulator and the daemon, so hold times run in simulated time on both sides).
+     */
+    public synchronized void start(FeedSource source, Duration simDuration, SimClock simClock) {
         if (worker != null) throw new IllegalStateException("this publisher was already started");
         Instant origin = source.simTime();
         Instant end = simDuration == null ? null : origin.plus(simDuration);
-        clock = Double.isInfinite(speed) ? null : new SimClock(origin, speed);
+        clock = simClock;
         Thread t = new Thread(() -> run(source, end), "byre-feed-publisher");
         t.setDaemon(true);
         worker = t;
