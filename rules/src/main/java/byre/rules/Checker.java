@@ -65,11 +65,12 @@ final class Checker {
 
         List<Threshold> raiseThresholds = new ArrayList<>();
         List<Threshold> clearThresholds = new ArrayList<>();
-        Plan.Cond raise = cond(w.raise().cond(), raiseThresholds);
+        Plan.Cond raise = w.raise() == null ? null : cond(w.raise().cond(), raiseThresholds);
+        if (raise == null) failed = true;
         int raiseTermCount = terms.size();
         Plan.Cond clear = w.clear() == null ? null : cond(w.clear().cond(), clearThresholds);
 
-        long raiseHold = hold(w.raise());
+        long raiseHold = w.raise() == null ? 0 : hold(w.raise());
         long clearHold = w.clear() == null ? raiseHold : hold(w.clear());
 
         Level level = Level.WARNING;
@@ -108,11 +109,11 @@ final class Checker {
                 : new TimeWindow(LocalTime.of(w.only().startMinute() / 60, w.only().startMinute() % 60),
                 LocalTime.of(w.only().endMinute() / 60, w.only().endMinute() % 60));
 
-        List<String> zones = failed ? List.of() : instanceZones();
+        List<String> zones = failed || terms.isEmpty() ? List.of() : instanceZones();
         if (failed) return Optional.empty();
 
         // Warnings that need a resolved watch.
-        if (w.clear() == null && hasComparison(raise)) {
+        if (w.clear() == null && !w.hadSyntaxErrors() && hasComparison(raise)) {
             String after = raiseHold > 0 ? "when the raise condition has been false for " + w.raise().hold().text()
                     : "as soon as the raise condition is false";
             sink.warning(w.raise().pos(), "watch '" + w.name() + "' has no 'clear when' line, so it has no hysteresis band: it clears " + after);
@@ -240,6 +241,7 @@ final class Checker {
     }
 
     private static String kindText(Typed t) {
+        if (t.quantity() == null) return "unknown";
         switch (t.kind()) {
             case HOURS: return "hours";
             case CHANGE: return "a change of " + dimensionName(t.quantity().dimension());
@@ -339,7 +341,7 @@ final class Checker {
         if (oq.isEmpty()) {
             error(t.quantityPos(), "unknown quantity '" + t.quantity() + "'" + Suggest.hint(t.quantity(), Quantity.ids()));
         }
-        Quantity q = oq.orElse(Quantity.DRY_BULB);
+        Quantity q = oq.orElse(null);
         Plan.TermPlan plan;
         switch (t.kind()) {
             case ZONE: {
@@ -379,7 +381,7 @@ final class Checker {
                 break;
             }
         }
-        if (plan.zone() == null) instanceQuantities.add(q);
+        if (plan.zone() == null && q != null) instanceQuantities.add(q);
         terms.add(plan);
         return plan;
     }

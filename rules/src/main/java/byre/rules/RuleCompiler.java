@@ -33,7 +33,9 @@ public final class RuleCompiler {
                 // A bug of ours must not take the daemon down with a bad file; say so plainly.
                 sink.error(new Pos(1, 1, 1), "internal error while checking this file (" + e + "); please report it");
             }
-            all.addAll(sink.diagnostics());
+            List<Diagnostic> mine = new ArrayList<>(sink.diagnostics());
+            mine.sort(java.util.Comparator.comparingInt(Diagnostic::line)); // stable: same-line order is kept
+            all.addAll(mine);
         }
         boolean errors = all.stream().anyMatch(Diagnostic::isError);
         Optional<RuleSet> set = errors ? Optional.empty()

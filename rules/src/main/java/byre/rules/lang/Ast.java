@@ -6,9 +6,13 @@ import java.util.List;
 public final class Ast {
     private Ast() {}
 
-    /** One {@code watch} block as written; clauses the user left out are null (lists: empty). */
+    /**
+     * One {@code watch} block as written; clauses the user left out are null (lists: empty). {@code raise}
+     * is null only when its line had a syntax error (already reported); the rest is still checked.
+     */
     public record Watch(String file, String name, Pos pos, When raise, When clear, Word level, List<Word> notifyTo,
-                        Dur remind, Dur escalateAfter, List<Word> escalateTo, Between only, Text message) {
+                        Dur remind, Dur escalateAfter, List<Word> escalateTo, Between only, Text message,
+                        boolean hadSyntaxErrors) {
     }
 
     /** {@code raise when ... [for D]} or {@code clear when ... [for D]}; hold null when there is no {@code for}. */

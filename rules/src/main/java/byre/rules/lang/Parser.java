@@ -29,6 +29,7 @@ public final class Parser {
     private final List<Watch> watches = new ArrayList<>();
     private int p;
     private Builder cur;
+    private String keyword;
 
     private Parser(List<Token> toks, DiagnosticSink sink) {
         this.toks = toks;
@@ -47,6 +48,11 @@ public final class Parser {
             try {
                 statement();
             } catch (LineError e) {
+                if (cur != null) {
+                    cur.broken = true;
+                    // a misspelt 'raise' line is still the watch's raise line: do not also say it is missing
+                    if (keyword != null && Suggest.closest(keyword, KEYWORDS).orElse("").equals("raise")) cur.raiseBroken = true;
+                }
                 while (!peek().is(Kind.EOL) && !peek().is(Kind.EOF)) p++;
             }
             if (peek().is(Kind.EOL)) p++;
@@ -83,10 +89,12 @@ public final class Parser {
 
     private void statement() {
         Token t = peek();
+        keyword = null;
         if (t.is(Kind.EOL) || t.is(Kind.EOF)) return;
         if (t.is(Kind.BAD)) throw new LineError();
         if (!t.is(Kind.WORD)) throw fail(t, "expected a keyword such as 'watch', 'raise' or 'notify', found " + t.shown());
         String kw = t.text();
+        keyword = kw;
         if (!KEYWORDS.contains(kw)) throw fail(t, "unknown keyword '" + kw + "'" + Suggest.hint(kw, KEYWORDS));
         if (kw.equals("watch")) {
             watchLine();
@@ -190,9 +198,10 @@ public final class Parser {
     private void finish() {
         if (cur == null) return;
         if (!cur.name.equals("?")) {
-            if (cur.raise == null) sink.error(cur.pos, "watch '" + cur.name + "' has no 'raise when' line");
+            if (cur.raise == null && !cur.raiseBroken) sink.error(cur.pos, "watch '" + cur.name + "' has no 'raise when' line");
             else watches.add(new Watch(sink.file(), cur.name, cur.pos, cur.raise, cur.clear, cur.level, List.copyOf(cur.notify),
-                    cur.remind, cur.escalateAfter, cur.escalateTo == null ? List.of() : List.copyOf(cur.escalateTo), cur.only, cur.message));
+                    cur.remind, cur.escalateAfter, cur.escalateTo == null ? List.of() : List.copyOf(cur.escalateTo), cur.only, cur.message,
+                    cur.broken));
         }
         cur = null;
     }
@@ -283,11 +292,13 @@ public final class Parser {
             Term term = term();
             if (t.text().equals("silent")) {
                 close(t);
+                notCompared(t);
                 return new Silent(term, t.pos());
             }
             comma(t);
             Dur w = duration("as the window of stuck()");
             close(t);
+            notCompared(t);
             return new Stuck(term, w, t.pos());
         }
         Operand left = operand();
@@ -305,6 +316,10 @@ public final class Parser {
         if (o instanceof Func f) return f.name() + "(...)";
         if (o instanceof Num n) return "'" + n.text() + "'";
         return "the value";
+    }
+
+    private void notCompared(Token fn) {
+        if (peek().is(Kind.OP)) throw fail(fn, fn.text() + "(...) is a condition, not a value: use it without a comparison");
     }
 
     private void comma(Token fn) {
@@ -414,6 +429,8 @@ public final class Parser {
         List<Word> escalateTo;
         Between only;
         Text message;
+        boolean raiseBroken;
+        boolean broken;
 
         Builder(String name, Pos pos) {
             this.name = name;
