@@ -162,7 +162,7 @@ class GrammarTest {
         assertEquals(List.of("barn.rules:1:7: watch 'w' has no 'raise when' line"), headlines("watch w\n notify office\n"));
         assertEquals(List.of("barn.rules:1:7: expected a watch name (letters, digits, '-' and '_', starting with a letter) after 'watch', found '9'"),
                 headlines("watch 9x\n"));
-        assertEquals(List.of("barn.rules:3:12: expected 'when' after 'raise', found 'cows'"), inWatch("raise cows.thi > 72"));
+        assertEquals(List.of("barn.rules:3:7: expected 'when' after 'raise', found 'cows'"), inWatch("raise cows.thi > 72"));
         assertEquals(List.of("barn.rules:3:21: expected a comparison (< <= > >= ==) after 'cows.thi', found '72'"),
                 inWatch("raise when cows.thi 72"));
         assertEquals(List.of("barn.rules:3:21: '=' is not a comparison; write '=='"), inWatch("raise when cows.thi = 72"));
@@ -219,7 +219,7 @@ class GrammarTest {
                 inWatch("raise when cows.wind-chill < 5 m/s", "clear when cows.wind-chill > 7 C"));
         assertEquals(List.of("barn.rules:3:26: 'thi' is an index without a unit: write the bare number"), inWatch("raise when cows.thi > 72 C"));
         assertEquals(List.of("barn.rules:3:31: unknown unit 'Celsius'"), inWatch("raise when cows.dry-bulb > 30 Celsius", "clear when cows.dry-bulb < 28 C"));
-        assertEquals(List.of("barn.rules:3:30: unknown unit 'mps' (did you mean 'mph'?)"), inWatch("raise when cows.air-speed < 1 mps", "clear when cows.air-speed > 2 m/s"));
+        assertEquals(List.of("barn.rules:3:31: unknown unit 'mps' (did you mean 'm/s'?)"), inWatch("raise when cows.air-speed < 1 mps", "clear when cows.air-speed > 2 m/s"));
         assertEquals(List.of("barn.rules:3:12: this comparison has no stream on either side"), inWatch("raise when 1 < 2"));
         assertEquals(List.of("barn.rules:3:25: cannot compare 'cows.thi' with 'cows.rh': index vs relative humidity"), inWatch("raise when cows.thi > cows.rh"));
         assertEquals(List.of("barn.rules:3:46: hours-above(...) counts hours: compare it with a bare number of hours or a duration such as 6h"),
@@ -251,7 +251,7 @@ class GrammarTest {
         SimpleRuleContext ctx = Scenario.farm().interval("cows", Quantity.THI, Duration.ofMinutes(1));
         CompileResult r = RuleCompiler.compile(List.of(new RuleSource("barn.rules",
                 "watch w\n notify office\n raise when cows.thi > 72 for 30s\n clear when cows.thi < 70 for 2m\n")), ctx);
-        assertEquals(List.of("barn.rules:3:29: warning: hold time 30s is shorter than the 1m reporting interval of cows.thi: the condition rests on a single reading"),
+        assertEquals(List.of("barn.rules:3:31: warning: hold time 30s is shorter than the 1m reporting interval of cows.thi: the condition rests on a single reading"),
                 r.diagnostics().stream().map(Diagnostic::headline).toList());
         assertTrue(r.ruleSet().isPresent(), "warnings do not stop a rule set");
     }
