@@ -169,9 +169,9 @@ class GrammarTest {
         assertEquals(List.of("barn.rules:3:21: '!=' is not part of the language; write 'not (a == b)'"), inWatch("raise when cows.thi != 72"));
         assertEquals(List.of("barn.rules:3:12: 'thi' needs a zone: write '<zone>.thi', '@<group>.thi' or '*.thi'"), inWatch("raise when thi > 72"));
         assertEquals(List.of("barn.rules:3:12: unknown function 'avgg' (did you mean 'avg'?)"), inWatch("raise when avgg(cows.thi, 30m) > 72"));
-        assertEquals(List.of("barn.rules:3:27: '30' needs a time unit: write e.g. 30m (s, m, h or d)"), inWatch("raise when cows.thi > 72 for 30"));
-        assertEquals(List.of("barn.rules:3:27: expected a duration such as 30s, 20m, 2h or 1d after 'for', found 'soon'"), inWatch("raise when cows.thi > 72 for soon"));
-        assertEquals(List.of("barn.rules:3:31: unexpected 'please' at the end of the line"), inWatch("raise when cows.thi > 72 for 3m please"));
+        assertEquals(List.of("barn.rules:3:30: '30' needs a time unit: write e.g. 30m (s, m, h or d)"), inWatch("raise when cows.thi > 72 for 30"));
+        assertEquals(List.of("barn.rules:3:30: expected a duration such as 30s, 20m, 2h or 1d after 'for', found 'soon'"), inWatch("raise when cows.thi > 72 for soon"));
+        assertEquals(List.of("barn.rules:3:33: unexpected 'please' at the end of the line"), inWatch("raise when cows.thi > 72 for 3m please"));
         assertEquals(List.of("barn.rules:3:26: expected ')' to close the '(' at column 12, found the end of the line"), inWatch("raise when (cows.thi > 72"));
         assertEquals(List.of("barn.rules:3:29: expected ',' in avg(...), found ')'"), inWatch("raise when avg(cows.thi) > 72"));
         assertEquals(List.of("barn.rules:3:9: unterminated string: add a closing '\"' on the same line"), inWatch("raise when cows.thi > 72", "message \"oops"));
@@ -221,7 +221,7 @@ class GrammarTest {
         assertEquals(List.of("barn.rules:3:31: unknown unit 'Celsius'"), inWatch("raise when cows.dry-bulb > 30 Celsius", "clear when cows.dry-bulb < 28 C"));
         assertEquals(List.of("barn.rules:3:31: unknown unit 'mps' (did you mean 'm/s'?)"), inWatch("raise when cows.air-speed < 1 mps", "clear when cows.air-speed > 2 m/s"));
         assertEquals(List.of("barn.rules:3:12: this comparison has no stream on either side"), inWatch("raise when 1 < 2"));
-        assertEquals(List.of("barn.rules:3:25: cannot compare 'cows.thi' with 'cows.rh': index vs relative humidity"), inWatch("raise when cows.thi > cows.rh"));
+        assertEquals(List.of("barn.rules:3:23: cannot compare 'cows.thi' with 'cows.rh': index vs relative humidity"), inWatch("raise when cows.thi > cows.rh"));
         assertEquals(List.of("barn.rules:3:46: hours-above(...) counts hours: compare it with a bare number of hours or a duration such as 6h"),
                 inWatch("raise when hours-above(cows.thi, 72, 24h) > 6 C"));
         assertEquals(List.of("barn.rules:3:23: a duration only compares with hours-above(...); 'cows.thi' is index"), inWatch("raise when cows.thi > 6h"));
