@@ -173,7 +173,7 @@ class GrammarTest {
         assertEquals(List.of("barn.rules:3:30: expected a duration such as 30s, 20m, 2h or 1d after 'for', found 'soon'"), inWatch("raise when cows.thi > 72 for soon"));
         assertEquals(List.of("barn.rules:3:33: unexpected 'please' at the end of the line"), inWatch("raise when cows.thi > 72 for 3m please"));
         assertEquals(List.of("barn.rules:3:26: expected ')' to close the '(' at column 12, found the end of the line"), inWatch("raise when (cows.thi > 72"));
-        assertEquals(List.of("barn.rules:3:29: expected ',' in avg(...), found ')'"), inWatch("raise when avg(cows.thi) > 72"));
+        assertEquals(List.of("barn.rules:3:24: expected ',' in avg(...), found ')'"), inWatch("raise when avg(cows.thi) > 72"));
         assertEquals(List.of("barn.rules:3:9: unterminated string: add a closing '\"' on the same line"), inWatch("raise when cows.thi > 72", "message \"oops"));
         assertEquals(List.of("barn.rules:3:14: '25:00' is not a time of day; write HH:MM from 00:00 to 23:59"), inWatch("raise when cows.thi > 72", "only between 25:00 and 08:00"));
         assertEquals(List.of("barn.rules:4:14: 'only between 08:00 and 08:00' is an empty window; use two different times"),
@@ -222,7 +222,7 @@ class GrammarTest {
         assertEquals(List.of("barn.rules:3:31: unknown unit 'mps' (did you mean 'm/s'?)"), inWatch("raise when cows.air-speed < 1 mps", "clear when cows.air-speed > 2 m/s"));
         assertEquals(List.of("barn.rules:3:12: this comparison has no stream on either side"), inWatch("raise when 1 < 2"));
         assertEquals(List.of("barn.rules:3:23: cannot compare 'cows.thi' with 'cows.rh': index vs relative humidity"), inWatch("raise when cows.thi > cows.rh"));
-        assertEquals(List.of("barn.rules:3:46: hours-above(...) counts hours: compare it with a bare number of hours or a duration such as 6h"),
+        assertEquals(List.of("barn.rules:3:47: hours-above(...) counts hours: compare it with a bare number of hours or a duration such as 6h"),
                 inWatch("raise when hours-above(cows.thi, 72, 24h) > 6 C"));
         assertEquals(List.of("barn.rules:3:23: a duration only compares with hours-above(...); 'cows.thi' is index"), inWatch("raise when cows.thi > 6h"));
         assertEquals(List.of("barn.rules:3:26: a window must be longer than 0s"), inWatch("raise when avg(cows.thi, 0s) > 72"));
