@@ -175,7 +175,7 @@ class GrammarTest {
         assertEquals(List.of("barn.rules:3:26: expected ')' to close the '(' at column 12, found the end of the line"), inWatch("raise when (cows.thi > 72"));
         assertEquals(List.of("barn.rules:3:24: expected ',' in avg(...), found ')'"), inWatch("raise when avg(cows.thi) > 72"));
         assertEquals(List.of("barn.rules:4:9: unterminated string: add a closing '\"' on the same line"), inWatch("raise when cows.thi > 72", "message \"oops"));
-        assertEquals(List.of("barn.rules:3:14: '25:00' is not a time of day; write HH:MM from 00:00 to 23:59"), inWatch("raise when cows.thi > 72", "only between 25:00 and 08:00"));
+        assertEquals(List.of("barn.rules:4:14: '25:00' is not a time of day; write HH:MM from 00:00 to 23:59"), inWatch("raise when cows.thi > 72", "only between 25:00 and 08:00"));
         assertEquals(List.of("barn.rules:4:14: 'only between 08:00 and 08:00' is an empty window; use two different times"),
                 inWatch("raise when cows.thi > 72", "only between 08:00 and 08:00"));
         assertEquals(List.of("barn.rules:4:1: second 'raise when' in watch 'w' (the first is on line 3)"),
