@@ -180,7 +180,7 @@ class GrammarTest {
                 inWatch("raise when silent(cows.thi)", "only between 08:00 and 08:00"));
         assertEquals(List.of("barn.rules:4:1: second 'raise when' in watch 'w' (the first is on line 3)"),
                 inWatch("raise when silent(cows.thi)", "raise when cows.thi > 73"));
-        assertEquals(List.of("barn.rules:3:22: unexpected character '$'"), inWatch("raise when cows.thi > $72"));
+        assertEquals(List.of("barn.rules:3:23: unexpected character '$'"), inWatch("raise when cows.thi > $72"));
         assertEquals(List.of("barn.rules:3:12: silent(...) is a condition, not a value: use it without a comparison"),
                 inWatch("raise when silent(cows.thi) > 1"));
         assertEquals(List.of("barn.rules:3:17: expected '.<quantity>' after 'cows', found '>'"), inWatch("raise when cows > 72"));
