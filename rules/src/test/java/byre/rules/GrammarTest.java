@@ -183,7 +183,7 @@ class GrammarTest {
         assertEquals(List.of("barn.rules:3:23: unexpected character '$'"), inWatch("raise when cows.thi > $72"));
         assertEquals(List.of("barn.rules:3:12: silent(...) is a condition, not a value: use it without a comparison"),
                 inWatch("raise when silent(cows.thi) > 1"));
-        assertEquals(List.of("barn.rules:3:17: expected '.<quantity>' after 'cows', found '>'"), inWatch("raise when cows > 72"));
+        assertEquals(List.of("barn.rules:3:12: expected a value such as 'cows.thi', 'avg(cows.thi, 30m)' or '72', found 'cows'"), inWatch("raise when cows > 72"));
     }
 
     @Test
