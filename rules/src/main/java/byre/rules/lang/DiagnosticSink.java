@@ -45,8 +45,11 @@ public final class DiagnosticSink {
             list.add(make(Severity.ERROR, p, "too many problems; stopping after " + MAX_PER_FILE + " in this file"));
             return;
         }
-        list.add(make(s, p, message));
+        list.add(make(s, p, LONG_NAME.matcher(message).replaceAll(m -> java.util.regex.Matcher.quoteReplacement("'" + m.group(1).substring(0, 40) + "...'"))));
     }
+
+    /** A quoted name over 40 characters (a 1 MB word) is cut in messages; the excerpt shows where it is. */
+    private static final java.util.regex.Pattern LONG_NAME = java.util.regex.Pattern.compile("'([^']{41,})'");
 
     private Diagnostic make(Severity s, Pos p, String message) {
         int line = Math.max(1, Math.min(p.line(), lineStarts.length));
