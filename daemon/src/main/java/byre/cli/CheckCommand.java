@@ -44,7 +44,7 @@ final class CheckCommand implements Callable<Integer> {
         if (!result.diagnostics().isEmpty()) System.err.println(result.render() + "\n");
         int watches = result.ruleSet().map(rs -> rs.watches().size()).orElse(0);
         if (result.hasErrors()) {
-            System.err.printf("byre check: %d error%s, %d warning%s in %d rule file%s; the running rules stay as they are.%n",
+            System.err.printf("byre check: %d error%s, %d warning%s in %d rule file%s; fix them before the rules go live (a running daemon keeps its old rules).%n",
                     result.errors().size(), plural(result.errors().size()), result.warnings().size(), plural(result.warnings().size()),
                     sources.size(), plural(sources.size()));
             return Main.USAGE;

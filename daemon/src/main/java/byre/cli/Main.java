@@ -9,7 +9,7 @@ import picocli.CommandLine.Command;
         subcommands = {
                 RunCommand.class,
                 DemoCommand.class,
-                NotBuiltYet.Check.class,
+                CheckCommand.class,
                 CalcCommand.class,
                 NotBuiltYet.Replay.class,
                 NotBuiltYet.Status.class,

@@ -15,7 +15,6 @@ final class NotBuiltYet {
         }
     }
 
-    @Command(name = "check", mixinStandardHelpOptions = true, description = "Validate configuration and rule files.") static final class Check extends Stub {}
     @Command(name = "replay", mixinStandardHelpOptions = true, description = "Run watches over a CSV or the history and print the events.") static final class Replay extends Stub {}
     @Command(name = "status", mixinStandardHelpOptions = true, description = "Current values, open alerts and 24 h trends.") static final class Status extends Stub {}
     @Command(name = "history", mixinStandardHelpOptions = true, description = "Query and export the history.") static final class History extends Stub {}
