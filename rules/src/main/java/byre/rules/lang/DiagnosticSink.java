@@ -49,7 +49,7 @@ public final class DiagnosticSink {
     }
 
     /** A quoted name over 40 characters (a 1 MB word) is cut in messages; the excerpt shows where it is. */
-    private static final java.util.regex.Pattern LONG_NAME = java.util.regex.Pattern.compile("'([^']{41,})'");
+    private static final java.util.regex.Pattern LONG_NAME = java.util.regex.Pattern.compile("'([^'\\s]{41,})'");
 
     private Diagnostic make(Severity s, Pos p, String message) {
         int line = Math.max(1, Math.min(p.line(), lineStarts.length));

@@ -104,7 +104,7 @@ public final class Parser {
         next();
         switch (kw) {
             case "raise": {
-                Token w = expectWord("when", "after 'raise'");
+                expectWord("when", "after 'raise'");
                 When when = when(t);
                 if (cur.raise != null) sink.error(t.pos(), "second 'raise when' in watch '" + cur.name + "' (the first is on line " + cur.raise.pos().line() + ")");
                 else cur.raise = when;
