@@ -33,7 +33,7 @@ import picocli.CommandLine.Option;
                 "Nothing to set up; everything it writes goes to a scratch folder that is removed at the end."})
 final class DemoCommand implements Callable<Integer> {
     /** Demo rule packs shipped in the jar (copied from rules/examples at build time). */
-    static final List<String> RULE_FILES = List.of("young-calf-cold.rules", "dairy-heat.rules", "sensor-health.rules");
+    static final List<String> RULE_FILES = List.of("calf-cold.rules", "dairy-heat.rules", "sensor-health.rules");
 
     @Option(names = "--duration", paramLabel = "D", defaultValue = "10m",
             description = "Real time to run, e.g. 60s or 10m (default ${DEFAULT-VALUE}); Ctrl-C stops it sooner.")
@@ -77,15 +77,40 @@ final class DemoCommand implements Callable<Integer> {
                 System.err.println("byre demo: the built-in configuration is broken:\n" + e.getMessage());
                 return Main.FAILURE;
             }
+            // The console shows each alert with its simulated time; the log line would say it twice.
+            ((ch.qos.logback.classic.Logger) org.slf4j.LoggerFactory.getLogger("byre.alerts")).setLevel(ch.qos.logback.classic.Level.ERROR);
             LarkmoorFarm farm = new LarkmoorFarm(seed);
-            SimClock clock = new SimClock(farm.simTime(), speed);
+            // The simulated clock starts with the feed, not before: while the daemon starts up
+            // (a few real seconds, hours of simulated time at high speed) time stands still.
+            java.util.concurrent.atomic.AtomicReference<SimClock> running = new java.util.concurrent.atomic.AtomicReference<>();
+            java.time.Instant origin = farm.simTime();
+            java.time.Clock clock = new java.time.Clock() {
+                @Override
+                public java.time.ZoneId getZone() {
+                    return java.time.ZoneOffset.UTC;
+                }
+
+                @Override
+                public java.time.Clock withZone(java.time.ZoneId zone) {
+                    return this;
+                }
+
+                @Override
+                public java.time.Instant instant() {
+                    SimClock c = running.get();
+                    return c == null ? origin : c.instant();
+                }
+            };
             System.out.printf("byre demo: Larkmoor farm, simulated from %s at %.0fx; stopping after %s (Ctrl-C stops sooner).%n",
                     farm.simTime().atZone(cfg.timezone()).toLocalDateTime(), speed, Durations.format(realDuration));
             daemon = Daemon.create(cfg, clock, new SimpleMeterRegistry())
                     .listen(new ZoneLines(cfg, System.out, lineEvery))
+                    .alertsTo(System.out::println)
                     .start(new ClimateDeriver());
             feed = FeedPublisher.toBroker(cfg.mqtt().connectUri(), 1, speed);
-            feed.start(farm, null, clock);
+            SimClock simClock = new SimClock(origin, speed);
+            running.set(simClock);
+            feed.start(farm, null, simClock);
 
             Daemon d = daemon;
             long firstStored = -1;

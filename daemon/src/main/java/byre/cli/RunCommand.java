@@ -25,6 +25,9 @@ final class RunCommand implements Callable<Integer> {
         Daemon daemon;
         try {
             daemon = Daemon.create(cfg, Clock.systemUTC(), registry).start(new ClimateDeriver());
+        } catch (Daemon.StartException e) {
+            System.err.println("byre: cannot start: " + e.getMessage());
+            return Main.USAGE;
         } catch (Exception e) {
             System.err.println("byre: cannot start: " + e.getMessage());
             return Main.FAILURE;

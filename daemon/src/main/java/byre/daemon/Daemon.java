@@ -43,6 +43,10 @@ public final class Daemon implements AutoCloseable {
     private ZoneStreamPublisher publisher;
     private ZoneStage zones;
     private final List<Pipeline.ZoneListener> extraListeners = new ArrayList<>();
+    private java.util.function.Consumer<String> alertConsole;
+    private RuleLoader rules;
+    private WatchStage watches;
+    private volatile boolean reloadRequested;
 
     private Daemon(ByreConfig config, Clock clock, MeterRegistry registry) {
         this.config = config;
@@ -61,8 +65,21 @@ public final class Daemon implements AutoCloseable {
         return this;
     }
 
+    /** Prints alert transitions to a console as well (the demo); call before start. */
+    public Daemon alertsTo(java.util.function.Consumer<String> console) {
+        this.alertConsole = console;
+        return this;
+    }
+
+    /**
+     * Starts every stage. Fails with {@link StartException} when the rule files have errors (the
+     * diagnostics are logged): a daemon must not start without the alerts the operator wrote.
+     */
     public Daemon start(ZoneDeriver deriver) throws Exception {
         try {
+            rules = new RuleLoader(config);
+            byre.rules.RuleSet ruleSet = rules.load()
+                    .orElseThrow(() -> new StartException("the rule files have errors (listed above); run 'byre check'"));
             Path db = config.history().path();
             if (db.getParent() != null) Files.createDirectories(db.getParent());
             store = HistoryStore.open(db, clock);
@@ -88,6 +105,27 @@ public final class Daemon implements AutoCloseable {
                 @Override
                 public void tick(java.time.Instant now) {
                     publisher.flush();
+                }
+            });
+            watches = new WatchStage(ruleSet, store, config.timezone(),
+                    new AlertLog(link, config.mqtt().publishPrefix(), config.site(), config.timezone(), alertConsole), clock.instant());
+            pipeline.addListener(watches);
+            pipeline.addListener(new Pipeline.ZoneListener() {
+                private java.time.Instant nextCheck = java.time.Instant.MIN;
+
+                @Override
+                public void accept(byre.rules.ZoneReading r) {}
+
+                @Override
+                public void tick(java.time.Instant now) {
+                    boolean due = !now.isBefore(nextCheck) || now.isBefore(nextCheck.minusSeconds(10));
+                    if (!reloadRequested && !due) return;
+                    nextCheck = now.plusSeconds(2);
+                    if (reloadRequested || rules.changed()) {
+                        reloadRequested = false;
+                        rules.load().ifPresentOrElse(rs -> watches.reload(rs, now),
+                                () -> LOG.error("reload refused: the rule files have errors; the previous rules keep running"));
+                    }
                 }
             });
             extraListeners.forEach(pipeline::addListener);
@@ -119,6 +157,22 @@ public final class Daemon implements AutoCloseable {
         Gauge.builder("byre.history.write.errors", writer, HistoryWriter::writeErrors).description("Failed history writes").register(registry);
         Gauge.builder("byre.history.healthy", writer, w -> w.isHealthy() ? 1 : 0).description("1 while history writes succeed").register(registry);
         Gauge.builder("byre.history.size.bytes", store, HistoryStore::sizeOnDiskBytes).description("Database size on disk").register(registry);
+    }
+
+    /** Asks for the rule files to be read again (SIGHUP); done on the pipeline thread within a second. */
+    public void reload() {
+        reloadRequested = true;
+    }
+
+    public WatchStage watches() {
+        return watches;
+    }
+
+    /** A start-up refusal whose message is for the operator. */
+    public static final class StartException extends Exception {
+        public StartException(String message) {
+            super(message);
+        }
     }
 
     public ByreConfig config() {

@@ -41,7 +41,7 @@ class ExamplesTest {
         CompileResult r = RuleCompiler.compile(files, larkmoor());
         assertEquals(List.of(), r.diagnostics(), r.render());
         assertEquals(List.of("young-calf-cold", "calf-draught", "heat-onset", "heat-alert", "heat-danger", "heat-emergency",
-                "no-cool-night", "quiet-sensor", "quiet-wet-bulb", "stuck-thermometer", "dry-wick"),
+                "no-cool-night", "quiet-sensor", "quiet-anemometer", "quiet-wet-bulb", "stuck-thermometer", "dry-wick"),
                 r.ruleSet().orElseThrow().watches().stream().map(Watch::name).toList());
         for (RuleSource f : files) assertTrue(f.text().contains("veterinarian"), f.name() + " carries the safety note");
     }

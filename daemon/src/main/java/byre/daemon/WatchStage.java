@@ -1,0 +1,135 @@
+package byre.daemon;
+
+import byre.history.HistoryReader;
+import byre.history.HistoryStore;
+import byre.history.StreamKey;
+import byre.rules.RuleSet;
+import byre.rules.Watch;
+import byre.rules.ZoneReading;
+import byre.rules.eval.Transition;
+import byre.rules.eval.WatchEngine;
+import java.time.Duration;
+import java.time.Instant;
+import java.time.ZoneId;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+import java.util.Objects;
+import org.slf4j.Logger;
+import org.slf4j.LoggerFactory;
+
+/**
+ * The rule stage of the live daemon: feeds zone streams and the passing of time to the watch
+ * engine, hands its transitions to the alert stage, and keeps the engine's state in the history
+ * database so that a restart neither forgets a raised alert nor repeats its {@code raised}.
+ * Runs on the pipeline thread only.
+ */
+public final class WatchStage implements Pipeline.ZoneListener {
+    private static final Logger LOG = LoggerFactory.getLogger(WatchStage.class);
+    static final String STATE_KEY = "rules.snapshot";
+    /** How far back windows are refilled from history at start and on reload. */
+    static final Duration PRIME_SPAN = Duration.ofHours(25);
+
+    /** Receives what the watches decide. */
+    public interface Outcomes {
+        void transition(Transition t, Watch watch);
+
+        default void tick(Instant now) {}
+    }
+
+    private final HistoryStore store;
+    private final ZoneId siteZone;
+    private final Outcomes outcomes;
+    private WatchEngine engine;
+    private Map<String, String> lastSaved = Map.of();
+    private Instant lastSave = Instant.MIN;
+
+    public WatchStage(RuleSet rules, HistoryStore store, ZoneId siteZone, Outcomes outcomes, Instant now) {
+        this.store = store;
+        this.siteZone = siteZone;
+        this.outcomes = outcomes;
+        this.engine = build(rules, load(), now);
+    }
+
+    private WatchEngine build(RuleSet rules, Map<String, String> state, Instant now) {
+        WatchEngine e = new WatchEngine(rules, siteZone, WatchEngine.Options.live());
+        for (String skipped : e.restore(state)) LOG.info("alert state not carried over: {}", skipped);
+        prime(e, now);
+        return e;
+    }
+
+    /** Refills the engine's windows with the stored zone streams of the last day. */
+    private void prime(WatchEngine e, Instant now) {
+        try (HistoryReader r = store.openReader()) {
+            List<StreamKey> zoneKeys = r.streams().stream().filter(k -> k.kind() == StreamKey.Kind.ZONE).toList();
+            r.forEachRawInTimeOrder(zoneKeys, now.minus(PRIME_SPAN), now, row -> {
+                String zone = row.stream().zone().orElse(null);
+                row.stream().quantity().ifPresent(q -> e.prime(new ZoneReading(row.at(), zone, q, row.value())));
+            });
+        } catch (RuntimeException ex) {
+            LOG.warn("could not refill rule windows from history ({}); they fill as readings arrive", ex.getMessage());
+        }
+    }
+
+    /** Swaps in new rules; the state of watches that still exist carries over. */
+    public void reload(RuleSet rules, Instant now) {
+        Map<String, String> state = engine.snapshot();
+        engine = build(rules, state, now);
+        save(now, true);
+        LOG.info("rules reloaded: {} watches", rules.watches().size());
+    }
+
+    public WatchEngine engine() {
+        return engine;
+    }
+
+    @Override
+    public void accept(ZoneReading r) {
+        handle(engine.accept(r), r.at());
+    }
+
+    @Override
+    public void tick(Instant now) {
+        handle(engine.tick(now), now);
+        outcomes.tick(now);
+    }
+
+    private void handle(List<Transition> transitions, Instant now) {
+        for (Transition t : transitions) {
+            Watch w = engine.rules().watch(t.watch()).orElse(null);
+            try {
+                outcomes.transition(t, w);
+            } catch (RuntimeException e) {
+                LOG.error("alert stage failed on {} {} {}: {}", t.kind(), t.watch(), t.zone(), e.toString(), e);
+            }
+        }
+        save(now, !transitions.isEmpty());
+    }
+
+    /** Stores the state when an alert changed, and at most once a minute for running holds. */
+    private void save(Instant now, boolean force) {
+        if (!force && now.isBefore(lastSave.plusSeconds(60)) && !now.isBefore(lastSave)) return;
+        Map<String, String> snap = engine.snapshot();
+        if (!force && Objects.equals(snap, lastSaved)) return;
+        StringBuilder sb = new StringBuilder();
+        snap.forEach((k, v) -> sb.append(k).append('\t').append(v).append('\n'));
+        try {
+            store.putState(STATE_KEY, sb.toString());
+            lastSaved = snap;
+            lastSave = now;
+        } catch (RuntimeException e) {
+            LOG.warn("cannot store alert state: {}", e.getMessage());
+        }
+    }
+
+    private Map<String, String> load() {
+        Map<String, String> out = new LinkedHashMap<>();
+        String text = store.loadState(STATE_KEY).get(STATE_KEY);
+        if (text == null) return out;
+        for (String line : text.split("\n")) {
+            int tab = line.indexOf('\t');
+            if (tab > 0) out.put(line.substring(0, tab), line.substring(tab + 1));
+        }
+        return out;
+    }
+}
