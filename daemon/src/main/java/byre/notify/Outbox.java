@@ -45,6 +45,8 @@ public final class Outbox implements AutoCloseable {
                  PreparedStatement seqOf = conn.prepareStatement("SELECT seq FROM outbox_event WHERE id = ?");
                  PreparedStatement del = conn.prepareStatement(
                          "INSERT OR IGNORE INTO outbox_delivery(channel, event, state, attempts, next_at) VALUES (?, ?, 'pending', 0, ?)");
+                 PreparedStatement drop = conn.prepareStatement("DELETE FROM outbox_event WHERE seq = ? AND NOT EXISTS "
+                         + "(SELECT 1 FROM outbox_delivery WHERE event = ?)");
                  PreparedStatement pendingReminder = conn.prepareStatement(
                          "SELECT 1 FROM outbox_delivery d JOIN outbox_event e ON e.seq = d.event "
                          + "WHERE d.channel = ? AND d.state = 'pending' AND e.kind = 'reminder' AND e.incident = ? LIMIT 1")) {
@@ -75,6 +77,9 @@ public final class Outbox implements AutoCloseable {
                         del.setLong(3, now.toEpochMilli());
                         rows += del.executeUpdate();
                     }
+                    drop.setLong(1, seq); // every channel already holds a reminder of it: keep no orphan event
+                    drop.setLong(2, seq);
+                    drop.executeUpdate();
                 }
                 conn.commit();
             } catch (SQLException | RuntimeException ex) {
