@@ -63,9 +63,11 @@ public final class AlertService implements AckService, AutoCloseable {
         return outbox;
     }
 
-    /** Feeds one transition from the rule engine. */
-    public void accept(WatchOutcome outcome) {
-        send(book.accept(outcome));
+    /** Feeds one transition from the rule engine; returns the events it caused, committed to the outbox. */
+    public List<AlertEvent> accept(WatchOutcome outcome) {
+        List<AlertEvent> events = book.accept(outcome);
+        send(events);
+        return events;
     }
 
     /** Reminders, escalations and channel self-watch; call every few seconds from the daemon's tick. */
