@@ -86,6 +86,7 @@ public record AlertEvent(String id, String incident, EventKind kind, String site
             case ACKNOWLEDGED -> "Acknowledged";
             case TEST -> "Test";
             case SUMMARY -> "Held back";
+            case DIGEST -> "Night digest";
         };
         StringBuilder sb = new StringBuilder(what);
         if (watch != null) sb.append(": ").append(watch);

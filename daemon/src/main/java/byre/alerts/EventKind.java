@@ -1,8 +1,8 @@
 package byre.alerts;
 
-/** What happened to an incident (design section 6), plus {@code summary} for events held back by a rate limit. */
+/** What happened to an incident (design section 6), plus {@code summary} (events held back by a rate limit) and {@code digest} (the morning digest). */
 public enum EventKind {
-    RAISED, REMINDER, ESCALATED, CLEARED, ACKNOWLEDGED, TEST, SUMMARY;
+    RAISED, REMINDER, ESCALATED, CLEARED, ACKNOWLEDGED, TEST, SUMMARY, DIGEST;
 
     /** The lower-case word used in event JSON. */
     public String id() {

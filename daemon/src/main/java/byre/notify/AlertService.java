@@ -38,6 +38,13 @@ public final class AlertService implements AckService, AutoCloseable {
     private final Duration channelFailingAfter;
     private final String ackTopic;
     private volatile String lastSaved = "";
+    private Digest digest;
+    private Instant nextDigest;
+
+    /** Where the morning digest goes and how to gather it; {@code source} reads the history for a [from, to) window. */
+    private record Digest(java.time.LocalTime at, java.time.ZoneId zone, List<String> channels,
+                          java.util.function.BiFunction<Instant, Instant, byre.alerts.NightDigest> source, String site,
+                          IdSource ids) {}
 
     AlertService(IncidentBook book, Outbox outbox, Dispatcher dispatcher, Map<String, Channel> channels,
                  BiConsumer<String, String> saveState, Clock clock, Duration channelFailingAfter, String ackTopic) {
@@ -70,10 +77,43 @@ public final class AlertService implements AckService, AutoCloseable {
         return events;
     }
 
-    /** Reminders, escalations and channel self-watch; call every few seconds from the daemon's tick. */
+    /**
+     * Turns the morning digest on: at {@code at} (site time zone) the events of the night (from 12 h before) are
+     * gathered by {@code source} and sent to {@code channels}. {@code lastSent} (or null) comes from the state
+     * key {@link #DIGEST_KEY}, so a restart neither repeats nor skips a digest.
+     */
+    public void scheduleDigest(java.time.LocalTime at, java.time.ZoneId zone, List<String> channels, String site, IdSource ids,
+                               java.util.function.BiFunction<Instant, Instant, byre.alerts.NightDigest> source, Instant lastSent) {
+        digest = new Digest(at, zone, List.copyOf(channels), source, site, ids);
+        nextDigest = byre.alerts.DigestBuilder.nextRun(lastSent != null ? lastSent : clock.instant(), at, zone);
+    }
+
+    /** The state key holding when the last digest went out (ISO instant). */
+    public static final String DIGEST_KEY = "alerts.digest.last";
+
+    /** When the next digest is due, or null when none is scheduled. */
+    public Instant nextDigest() {
+        return nextDigest;
+    }
+
+    /** Reminders, escalations, channel self-watch and the digest; call every few seconds from the daemon's tick. */
     public void tick() {
         Instant now = clock.instant();
         List<AlertEvent> due = new java.util.ArrayList<>(book.tick(now));
+        if (digest != null && nextDigest != null && !now.isBefore(nextDigest)) {
+            try {
+                byre.alerts.NightDigest night = digest.source().apply(nextDigest.minus(Duration.ofHours(12)), nextDigest);
+                due.add(byre.alerts.DigestBuilder.event(digest.ids().eventId(now), digest.site(), night, digest.zone(), digest.channels()));
+            } catch (RuntimeException e) {
+                LOG.error("morning digest could not be gathered: {}", e.getMessage());
+            }
+            try {
+                saveState.accept(DIGEST_KEY, nextDigest.toString());
+            } catch (RuntimeException e) {
+                LOG.error("digest time not saved: {}", e.getMessage());
+            }
+            nextDigest = byre.alerts.DigestBuilder.nextRun(now, digest.at(), digest.zone());
+        }
         Map<String, Instant> failing = dispatcher.failingSince();
         for (String name : channels.keySet()) {
             Instant since = failing.get(name);
