@@ -39,9 +39,11 @@ class KillNineTest {
         Path db = dir.resolve("history.db");
         Random rnd = new Random(20260714);
         Set<String> committed = new HashSet<>();
+        List<Process> live = new ArrayList<>();
         try (Receiver receiver = new Receiver()) {
             for (int run = 0; run < 20; run++) {
                 Process p = worker(db, receiver, "raise", run);
+                live.add(p);
                 BufferedReader out = new BufferedReader(new InputStreamReader(p.getInputStream(), StandardCharsets.UTF_8));
                 String line;
                 while ((line = out.readLine()) != null && !line.equals("READY")) {
@@ -68,6 +70,7 @@ class KillNineTest {
                 reader.join(5000);
             }
             Process drain = worker(db, receiver, "drain", 99);
+            live.add(drain);
             BufferedReader out = new BufferedReader(new InputStreamReader(drain.getInputStream(), StandardCharsets.UTF_8));
             List<String> lines = new ArrayList<>();
             String l;
@@ -83,6 +86,8 @@ class KillNineTest {
             assertEquals(Set.of(), lost, "committed but never delivered");
             System.out.println("kill -9 test: " + committed.size() + " events committed, " + receiver.requests().size()
                     + " requests received (" + (receiver.requests().size() - received.size()) + " duplicates)");
+        } finally {
+            for (Process p : live) p.destroyForcibly(); // never leave a worker behind when an assertion fails
         }
     }
 }
