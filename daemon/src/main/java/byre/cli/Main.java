@@ -14,8 +14,8 @@ import picocli.CommandLine.Command;
                 NotBuiltYet.Replay.class,
                 NotBuiltYet.Status.class,
                 NotBuiltYet.History.class,
-                NotBuiltYet.Ack.class,
-                NotBuiltYet.NotifyTest.class,
+                AckCommand.class,
+                NotifyTestCommand.class,
         })
 public final class Main implements Runnable {
     /** Exit codes: 0 ok, 1 runtime failure, 2 bad usage or configuration. */

@@ -9,24 +9,24 @@ import java.util.Map;
 public record ByreConfig(Path file, String site, ZoneId timezone, DisplayUnits units, MqttSettings mqtt,
                          Map<String, SensorConfig> sensors, Map<String, ZoneConfig> zones,
                          Map<String, ChannelConfig> channels, List<Path> rulePaths,
-                         HistorySettings history, AdminSettings admin) {
+                         HistorySettings history, AdminSettings admin, AlertSettings alerts) {
 
     /** How values are shown in messages and on the console. */
     public enum DisplayUnits { METRIC, US }
 
     public ByreConfig withMqtt(MqttSettings m) {
-        return new ByreConfig(file, site, timezone, units, m, sensors, zones, channels, rulePaths, history, admin);
+        return new ByreConfig(file, site, timezone, units, m, sensors, zones, channels, rulePaths, history, admin, alerts);
     }
 
     public ByreConfig withHistory(HistorySettings h) {
-        return new ByreConfig(file, site, timezone, units, mqtt, sensors, zones, channels, rulePaths, h, admin);
+        return new ByreConfig(file, site, timezone, units, mqtt, sensors, zones, channels, rulePaths, h, admin, alerts);
     }
 
     public ByreConfig withAdmin(AdminSettings a) {
-        return new ByreConfig(file, site, timezone, units, mqtt, sensors, zones, channels, rulePaths, history, a);
+        return new ByreConfig(file, site, timezone, units, mqtt, sensors, zones, channels, rulePaths, history, a, alerts);
     }
 
     public ByreConfig withRulePaths(List<Path> paths) {
-        return new ByreConfig(file, site, timezone, units, mqtt, sensors, zones, channels, paths, history, admin);
+        return new ByreConfig(file, site, timezone, units, mqtt, sensors, zones, channels, paths, history, admin, alerts);
     }
 }

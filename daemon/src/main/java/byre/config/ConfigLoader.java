@@ -37,7 +37,9 @@ import org.snakeyaml.engine.v2.nodes.SequenceNode;
  */
 public final class ConfigLoader {
     static final Set<String> TOP_KEYS = ordered("site", "timezone", "units", "mqtt", "sensors", "zones", "notify",
-            "rules", "history", "admin");
+            "rules", "history", "admin", "digest", "self-alerts");
+    static final Set<String> DIGEST_KEYS = ordered("at", "notify");
+    static final Set<String> SELF_ALERT_KEYS = ordered("notify", "channel-failing-after");
     static final Set<String> MQTT_KEYS = ordered("broker", "listen", "client-id", "username", "password-file",
             "password-env", "publish-prefix", "qos", "ca-file");
     static final Set<String> SENSOR_KEYS = ordered("topic", "quantity", "unit", "payload", "time", "id-level");
@@ -50,6 +52,7 @@ public final class ConfigLoader {
             "email", ordered("type", "smtp", "from", "to", "username", "password-file", "tls", "timeout", "rate-limit",
                     "give-up"),
             "command", ordered("type", "argv", "timeout", "rate-limit", "give-up"));
+    // webhook "template": body with {placeholders}; "rate-limit": messages per 10 minutes; "give-up": e.g. 24h
     static final Map<String, List<String>> CHANNEL_REQUIRED = Map.of(
             "webhook", List.of("url"), "mqtt", List.of("topic"), "email", List.of("smtp", "from", "to"),
             "command", List.of("argv"));
@@ -124,9 +127,10 @@ public final class ConfigLoader {
         List<Path> rules = rules(keys.get("rules"));
         HistorySettings history = history(keys.get("history"));
         AdminSettings admin = admin(keys.get("admin"));
+        AlertSettings alerts = alerts(keys.get("digest"), keys.get("self-alerts"), channels);
 
         if (!problems.isEmpty()) throw new ConfigException(problems);
-        return new ByreConfig(Path.of(fileName), site, tz, units, mqtt, sensors, zones, channels, rules, history, admin);
+        return new ByreConfig(Path.of(fileName), site, tz, units, mqtt, sensors, zones, channels, rules, history, admin, alerts);
     }
 
     // ---- sections ----
@@ -352,9 +356,75 @@ public final class ConfigLoader {
             for (String req : CHANNEL_REQUIRED.get(type)) {
                 if (!raw.containsKey(req)) problem(n, type + " channel " + name + " is missing '" + req + "'");
             }
+            checkChannelFields(n, name, type, raw);
             out.put(name, new ChannelConfig(name, type, fields, secrets, line(n)));
         }
         return out;
+    }
+
+    private AlertSettings alerts(Node digest, Node self, Map<String, ChannelConfig> channels) {
+        java.time.LocalTime at = null;
+        List<String> digestNotify = List.of();
+        if (digest != null) {
+            Map<String, Node> d = mapping(digest, DIGEST_KEYS, "digest");
+            String t = string(d.get("at"), "digest.at", null);
+            if (t == null) {
+                problem(digest, "digest needs 'at' (a time of day in the site time zone, e.g. at: \"07:00\")");
+            } else {
+                try {
+                    at = java.time.LocalTime.parse(t.strip().length() == 4 ? "0" + t.strip() : t.strip());
+                } catch (java.time.format.DateTimeParseException e) {
+                    problem(d.get("at"), "digest.at must be a time of day HH:MM such as 07:00, not '" + t + "'");
+                }
+            }
+            digestNotify = channelList(d.get("notify"), "digest.notify", channels);
+            if (digestNotify.isEmpty() && !d.containsKey("notify")) problem(digest, "digest needs 'notify' (the channels that get it)");
+        }
+        List<String> selfNotify = List.of();
+        Duration failingAfter = AlertSettings.DEFAULT_CHANNEL_FAILING_AFTER;
+        if (self != null) {
+            Map<String, Node> m = mapping(self, SELF_ALERT_KEYS, "self-alerts");
+            selfNotify = channelList(m.get("notify"), "self-alerts.notify", channels);
+            failingAfter = duration(m.get("channel-failing-after"), "self-alerts.channel-failing-after", failingAfter);
+        } else {
+            selfNotify = new ArrayList<>(channels.keySet()); // by default byre's own trouble goes everywhere
+        }
+        return new AlertSettings(at, digestNotify, selfNotify, failingAfter);
+    }
+
+    private List<String> channelList(Node node, String what, Map<String, ChannelConfig> channels) {
+        List<String> out = stringList(node, what);
+        for (String c : out) {
+            if (!channels.containsKey(c)) problem(node, what + " names unknown channel '" + c + "'" + Suggest.hint(c, channels.keySet()));
+        }
+        return out;
+    }
+
+    private void checkChannelFields(Node n, String name, String type, Map<String, Node> raw) {
+        Node rate = raw.get("rate-limit");
+        if (rate != null) {
+            int r = integer(rate, name + ".rate-limit", 10);
+            if (r < 1) problem(rate, name + ".rate-limit must be at least 1 (messages per 10 minutes)");
+        }
+        if (raw.get("timeout") != null) duration(raw.get("timeout"), name + ".timeout", null);
+        if (raw.get("give-up") != null) duration(raw.get("give-up"), name + ".give-up", null);
+        if (raw.get("tls") != null) {
+            String t = string(raw.get("tls"), name + ".tls", "");
+            if (!List.of("starttls", "implicit", "none").contains(t)) {
+                problem(raw.get("tls"), name + ".tls must be starttls, implicit or none, not '" + t + "'"
+                        + Suggest.hint(t, List.of("starttls", "implicit", "none")));
+            }
+        }
+        if (raw.get("headers") != null && !(raw.get("headers") instanceof MappingNode)) {
+            problem(raw.get("headers"), name + ".headers must be a mapping such as { Authorization: \"Bearer …\" }");
+        }
+        if ("webhook".equals(type) && raw.get("url") != null) {
+            String u = string(raw.get("url"), name + ".url", "");
+            if (!u.startsWith("http://") && !u.startsWith("https://")) problem(raw.get("url"), name + ".url must start with https:// or http://, not '" + u + "'");
+        }
+        if ("command".equals(type) && raw.get("argv") != null && !(raw.get("argv") instanceof SequenceNode)) {
+            problem(raw.get("argv"), name + ".argv must be a list such as [/usr/local/bin/send-sms, \"+440000000000\"] (no shell is used)");
+        }
     }
 
     private List<Path> rules(Node node) {

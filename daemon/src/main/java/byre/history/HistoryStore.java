@@ -180,6 +180,18 @@ public final class HistoryStore implements AutoCloseable {
         }
     }
 
+    /**
+     * A new read-write connection with {@code synchronous=FULL}, for a stage that keeps its own tables in this file
+     * (the alert outbox): a commit is on disk when it returns. The caller owns and closes it.
+     */
+    public Connection openSyncedConnection() {
+        try {
+            return connect(file, false, true);
+        } catch (SQLException e) {
+            throw new HistoryException("history " + file + ": cannot open: " + e.getMessage(), e);
+        }
+    }
+
     /** A connection for the writer thread (synchronous=NORMAL); it opens its own transactions with {@link WriterTx}. */
     Connection openWriterConnection() throws SQLException {
         return connect(file, false, false);

@@ -57,8 +57,33 @@ final class Migrations {
               key     TEXT    PRIMARY KEY,
               value   TEXT    NOT NULL,
               updated INTEGER NOT NULL)""",
-            "PRAGMA application_id = " + APPLICATION_ID))
-        // Next: new Migration(2, "...", List.of("CREATE TABLE outbox (...)")),
+            "PRAGMA application_id = " + APPLICATION_ID)),
+        new Migration(2, "alert outbox: events and their delivery per channel", List.of(
+            // Every alert event is committed here before the first delivery attempt. seq orders events
+            // (delivery per channel follows it); id is the event's own id, body its JSON; times are epoch ms.
+            """
+            CREATE TABLE outbox_event (
+              seq      INTEGER PRIMARY KEY AUTOINCREMENT,
+              id       TEXT    NOT NULL UNIQUE,
+              incident TEXT,
+              kind     TEXT    NOT NULL,
+              body     TEXT    NOT NULL,
+              created  INTEGER NOT NULL)""",
+            // One row per (channel, event). state: pending -> delivered | given-up | folded (sent inside a
+            // rate-limit summary). next_at = earliest next attempt; reason/last_error = the last failure.
+            """
+            CREATE TABLE outbox_delivery (
+              channel    TEXT    NOT NULL,
+              event      INTEGER NOT NULL REFERENCES outbox_event(seq),
+              state      TEXT    NOT NULL CHECK (state IN ('pending', 'delivered', 'given-up', 'folded')),
+              attempts   INTEGER NOT NULL DEFAULT 0,
+              next_at    INTEGER NOT NULL,
+              reason     TEXT,
+              last_error TEXT,
+              done_at    INTEGER,
+              PRIMARY KEY (channel, event)) WITHOUT ROWID""",
+            "CREATE INDEX outbox_delivery_state ON outbox_delivery (state, channel, event)",
+            "CREATE INDEX outbox_delivery_done ON outbox_delivery (channel, done_at)"))
     );
 
     static int latestVersion() { return ALL.get(ALL.size() - 1).version(); }

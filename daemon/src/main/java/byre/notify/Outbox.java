@@ -1,0 +1,251 @@
+package byre.notify;
+
+import byre.alerts.AlertEvent;
+import byre.alerts.EventKind;
+import java.sql.Connection;
+import java.sql.PreparedStatement;
+import java.sql.ResultSet;
+import java.sql.SQLException;
+import java.sql.Statement;
+import java.time.Instant;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Optional;
+
+/**
+ * The durable outbox (tables {@code outbox_event}, {@code outbox_delivery} of the history file). An event is
+ * committed, with one pending delivery row per channel, before anything tries to send it; the dispatcher then
+ * moves each row to delivered, given-up or folded. All methods are thread-safe; times are passed in.
+ */
+public final class Outbox implements AutoCloseable {
+    /** One pending delivery: the event's position, its JSON and how it has fared so far. */
+    public record Row(String channel, long seq, String eventId, String kind, String body, Instant created, int attempts,
+                      Instant nextAt, String lastError) {}
+
+    private final Connection conn;
+
+    /** Uses (and closes) {@code conn}, a connection to a history file migrated to version 2 or later. */
+    public Outbox(Connection conn) {
+        this.conn = conn;
+    }
+
+    /**
+     * Commits events and their deliveries in one transaction. A reminder is not queued on a channel that still
+     * holds an undelivered reminder of the same incident: a channel that is down does not pile them up.
+     *
+     * @return the number of delivery rows created
+     */
+    public int enqueue(List<AlertEvent> events, Instant now) throws SQLException {
+        int rows = 0;
+        synchronized (conn) {
+            boolean auto = conn.getAutoCommit();
+            conn.setAutoCommit(false);
+            try (PreparedStatement ev = conn.prepareStatement(
+                    "INSERT OR IGNORE INTO outbox_event(id, incident, kind, body, created) VALUES (?, ?, ?, ?, ?)");
+                 PreparedStatement seqOf = conn.prepareStatement("SELECT seq FROM outbox_event WHERE id = ?");
+                 PreparedStatement del = conn.prepareStatement(
+                         "INSERT OR IGNORE INTO outbox_delivery(channel, event, state, attempts, next_at) VALUES (?, ?, 'pending', 0, ?)");
+                 PreparedStatement drop = conn.prepareStatement("DELETE FROM outbox_event WHERE seq = ? AND NOT EXISTS "
+                         + "(SELECT 1 FROM outbox_delivery WHERE event = ?)");
+                 PreparedStatement pendingReminder = conn.prepareStatement(
+                         "SELECT 1 FROM outbox_delivery d JOIN outbox_event e ON e.seq = d.event "
+                         + "WHERE d.channel = ? AND d.state = 'pending' AND e.kind = 'reminder' AND e.incident = ? LIMIT 1")) {
+                for (AlertEvent e : events) {
+                    if (e.channels().isEmpty()) continue;
+                    ev.setString(1, e.id());
+                    ev.setString(2, e.incident());
+                    ev.setString(3, e.kind().id());
+                    ev.setString(4, e.toJson());
+                    ev.setLong(5, now.toEpochMilli());
+                    ev.executeUpdate();
+                    seqOf.setString(1, e.id());
+                    long seq;
+                    try (ResultSet rs = seqOf.executeQuery()) {
+                        rs.next();
+                        seq = rs.getLong(1);
+                    }
+                    for (String ch : e.channels()) {
+                        if (e.kind() == EventKind.REMINDER && e.incident() != null) {
+                            pendingReminder.setString(1, ch);
+                            pendingReminder.setString(2, e.incident());
+                            try (ResultSet rs = pendingReminder.executeQuery()) {
+                                if (rs.next()) continue;
+                            }
+                        }
+                        del.setString(1, ch);
+                        del.setLong(2, seq);
+                        del.setLong(3, now.toEpochMilli());
+                        rows += del.executeUpdate();
+                    }
+                    drop.setLong(1, seq); // every channel already holds a reminder of it: keep no orphan event
+                    drop.setLong(2, seq);
+                    drop.executeUpdate();
+                }
+                conn.commit();
+            } catch (SQLException | RuntimeException ex) {
+                conn.rollback();
+                throw ex;
+            } finally {
+                conn.setAutoCommit(auto);
+            }
+        }
+        return rows;
+    }
+
+    /** Channels with at least one pending delivery. */
+    public List<String> channelsWithPending() throws SQLException {
+        List<String> out = new ArrayList<>();
+        synchronized (conn) {
+            try (Statement st = conn.createStatement();
+                 ResultSet rs = st.executeQuery("SELECT DISTINCT channel FROM outbox_delivery WHERE state = 'pending' ORDER BY channel")) {
+                while (rs.next()) out.add(rs.getString(1));
+            }
+        }
+        return out;
+    }
+
+    /** The oldest pending deliveries of a channel, in event order (the first is the one to send next). */
+    public List<Row> pending(String channel, int limit) throws SQLException {
+        List<Row> out = new ArrayList<>();
+        synchronized (conn) {
+            try (PreparedStatement ps = conn.prepareStatement(
+                    "SELECT d.event, e.id, e.kind, e.body, e.created, d.attempts, d.next_at, d.last_error "
+                    + "FROM outbox_delivery d JOIN outbox_event e ON e.seq = d.event "
+                    + "WHERE d.channel = ? AND d.state = 'pending' ORDER BY d.event LIMIT ?")) {
+                ps.setString(1, channel);
+                ps.setInt(2, limit);
+                try (ResultSet rs = ps.executeQuery()) {
+                    while (rs.next()) {
+                        out.add(new Row(channel, rs.getLong(1), rs.getString(2), rs.getString(3), rs.getString(4),
+                                Instant.ofEpochMilli(rs.getLong(5)), rs.getInt(6), Instant.ofEpochMilli(rs.getLong(7)), rs.getString(8)));
+                    }
+                }
+            }
+        }
+        return out;
+    }
+
+    public Optional<Row> head(String channel) throws SQLException {
+        List<Row> l = pending(channel, 1);
+        return l.isEmpty() ? Optional.empty() : Optional.of(l.get(0));
+    }
+
+    public void delivered(Row r, Instant now) throws SQLException {
+        finish(r, "delivered", now, null);
+    }
+
+    public void givenUp(Row r, Instant now, String why) throws SQLException {
+        finish(r, "given-up", now, why);
+    }
+
+    private void finish(Row r, String state, Instant now, String error) throws SQLException {
+        synchronized (conn) {
+            try (PreparedStatement ps = conn.prepareStatement(
+                    "UPDATE outbox_delivery SET state = ?, done_at = ?, last_error = coalesce(?, last_error) WHERE channel = ? AND event = ?")) {
+                ps.setString(1, state);
+                ps.setLong(2, now.toEpochMilli());
+                ps.setString(3, error);
+                ps.setString(4, r.channel());
+                ps.setLong(5, r.seq());
+                ps.executeUpdate();
+            }
+        }
+    }
+
+    public void failed(Row r, Instant nextAt, FailureReason reason, String error) throws SQLException {
+        synchronized (conn) {
+            try (PreparedStatement ps = conn.prepareStatement(
+                    "UPDATE outbox_delivery SET attempts = attempts + 1, next_at = ?, reason = ?, last_error = ? WHERE channel = ? AND event = ?")) {
+                ps.setLong(1, nextAt.toEpochMilli());
+                ps.setString(2, reason.tag());
+                ps.setString(3, error);
+                ps.setString(4, r.channel());
+                ps.setLong(5, r.seq());
+                ps.executeUpdate();
+            }
+        }
+    }
+
+    /** Marks {@code rows} as folded and queues {@code summary} for the channel, in one transaction. */
+    public void fold(String channel, List<Row> rows, AlertEvent summary, Instant now) throws SQLException {
+        synchronized (conn) {
+            boolean auto = conn.getAutoCommit();
+            conn.setAutoCommit(false);
+            try (PreparedStatement ps = conn.prepareStatement(
+                    "UPDATE outbox_delivery SET state = 'folded', done_at = ? WHERE channel = ? AND event = ?")) {
+                for (Row r : rows) {
+                    ps.setLong(1, now.toEpochMilli());
+                    ps.setString(2, channel);
+                    ps.setLong(3, r.seq());
+                    ps.executeUpdate();
+                }
+                conn.commit();
+            } catch (SQLException | RuntimeException ex) {
+                conn.rollback();
+                throw ex;
+            } finally {
+                conn.setAutoCommit(auto);
+            }
+            enqueue(List.of(summary.to(List.of(channel))), now);
+        }
+    }
+
+    /** Messages delivered on a channel at or after {@code from} (a summary counts once), newest first. */
+    public List<Instant> deliveredSince(String channel, Instant from) throws SQLException {
+        List<Instant> out = new ArrayList<>();
+        synchronized (conn) {
+            try (PreparedStatement ps = conn.prepareStatement(
+                    "SELECT done_at FROM outbox_delivery WHERE channel = ? AND state = 'delivered' AND done_at >= ? ORDER BY done_at DESC")) {
+                ps.setString(1, channel);
+                ps.setLong(2, from.toEpochMilli());
+                try (ResultSet rs = ps.executeQuery()) {
+                    while (rs.next()) out.add(Instant.ofEpochMilli(rs.getLong(1)));
+                }
+            }
+        }
+        return out;
+    }
+
+    /** Pending deliveries over all channels. */
+    public long depth() throws SQLException {
+        return number("SELECT count(*) FROM outbox_delivery WHERE state = 'pending'");
+    }
+
+    /** When the oldest undelivered event was committed, if any. */
+    public Optional<Instant> oldestPending() throws SQLException {
+        long ms = number("SELECT coalesce(min(e.created), -1) FROM outbox_delivery d JOIN outbox_event e ON e.seq = d.event WHERE d.state = 'pending'");
+        return ms < 0 ? Optional.empty() : Optional.of(Instant.ofEpochMilli(ms));
+    }
+
+    /** Deletes finished deliveries older than {@code before} and events left with no delivery. */
+    public int prune(Instant before) throws SQLException {
+        synchronized (conn) {
+            try (PreparedStatement ps = conn.prepareStatement("DELETE FROM outbox_delivery WHERE state <> 'pending' AND done_at < ?");
+                 Statement st = conn.createStatement()) {
+                ps.setLong(1, before.toEpochMilli());
+                int n = ps.executeUpdate();
+                st.executeUpdate("DELETE FROM outbox_event WHERE seq NOT IN (SELECT event FROM outbox_delivery)");
+                return n;
+            }
+        }
+    }
+
+    private long number(String sql) throws SQLException {
+        synchronized (conn) {
+            try (Statement st = conn.createStatement(); ResultSet rs = st.executeQuery(sql)) {
+                return rs.next() ? rs.getLong(1) : 0;
+            }
+        }
+    }
+
+    @Override
+    public void close() {
+        synchronized (conn) {
+            try {
+                conn.close();
+            } catch (SQLException ignored) {
+                // closing is best effort
+            }
+        }
+    }
+}

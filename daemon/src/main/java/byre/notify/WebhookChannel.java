@@ -1,0 +1,108 @@
+package byre.notify;
+
+import byre.alerts.AlertEvent;
+import java.io.IOException;
+import java.net.ConnectException;
+import java.net.URI;
+import java.net.UnknownHostException;
+import java.net.http.HttpClient;
+import java.net.http.HttpConnectTimeoutException;
+import java.net.http.HttpRequest;
+import java.net.http.HttpResponse;
+import java.net.http.HttpTimeoutException;
+import java.nio.channels.UnresolvedAddressException;
+import java.nio.charset.StandardCharsets;
+import java.time.Duration;
+import java.util.Map;
+import javax.net.ssl.SSLException;
+
+/**
+ * POSTs the event JSON (or a rendered template) to a URL. With a shared secret the body is signed:
+ * {@code X-Byre-Signature: sha256=<hex HMAC-SHA256 of the body bytes>}. Any 2xx is success.
+ */
+public final class WebhookChannel implements Channel {
+    public static final String SIGNATURE_HEADER = "X-Byre-Signature";
+
+    private final String name;
+    private final URI url;
+    private final String template;
+    private final Map<String, String> headers;
+    private final String secret;
+    private final Duration timeout;
+    private final HttpClient client;
+
+    public WebhookChannel(String name, URI url, String template, Map<String, String> headers, String secret, Duration timeout) {
+        this.name = name;
+        this.url = url;
+        this.template = template;
+        this.headers = Map.copyOf(headers);
+        this.secret = secret;
+        this.timeout = timeout;
+        this.client = HttpClient.newBuilder().connectTimeout(timeout).followRedirects(HttpClient.Redirect.NEVER).build();
+    }
+
+    @Override
+    public String name() {
+        return name;
+    }
+
+    @Override
+    public String type() {
+        return "webhook";
+    }
+
+    /** The bytes that would be sent for an event. */
+    public byte[] body(AlertEvent e) {
+        return (template == null ? e.toJson() : Template.render(template, e)).getBytes(StandardCharsets.UTF_8);
+    }
+
+    @Override
+    public DeliveryResult deliver(AlertEvent event) {
+        byte[] body = body(event);
+        HttpRequest.Builder rb = HttpRequest.newBuilder(url).timeout(timeout)
+                .header("Content-Type", template == null || template.stripLeading().startsWith("{") ? "application/json" : "text/plain; charset=utf-8")
+                .header("User-Agent", "byre")
+                .header("X-Byre-Event", event.kind().id())
+                .POST(HttpRequest.BodyPublishers.ofByteArray(body));
+        if (event.id() != null) rb.header("X-Byre-Id", event.id());
+        headers.forEach(rb::header);
+        if (secret != null) rb.header(SIGNATURE_HEADER, "sha256=" + Hmac.sha256Hex(secret, body));
+        try {
+            HttpResponse<String> r = client.send(rb.build(), HttpResponse.BodyHandlers.ofString());
+            if (r.statusCode() / 100 == 2) return DeliveryResult.success("HTTP " + r.statusCode());
+            return DeliveryResult.failure(FailureReason.HTTP_STATUS,
+                    "HTTP " + r.statusCode() + " from " + url + ": " + DeliveryResult.excerpt(r.body(), 200));
+        } catch (InterruptedException e) {
+            Thread.currentThread().interrupt();
+            return DeliveryResult.failure(FailureReason.IO, "interrupted while posting to " + url);
+        } catch (IllegalArgumentException e) {
+            return DeliveryResult.failure(FailureReason.CONFIG, "cannot post to " + url + ": " + e.getMessage());
+        } catch (IOException e) {
+            return classify(e, url);
+        }
+    }
+
+    static DeliveryResult classify(IOException e, URI url) {
+        String host = url.getHost() + (url.getPort() > 0 ? ":" + url.getPort() : "");
+        if (e instanceof HttpConnectTimeoutException) {
+            return DeliveryResult.failure(FailureReason.TIMEOUT, "connecting to " + host + " timed out");
+        }
+        if (e instanceof HttpTimeoutException) {
+            return DeliveryResult.failure(FailureReason.TIMEOUT, "no answer from " + url + " in time");
+        }
+        for (Throwable t = e; t != null; t = t.getCause()) {
+            if (t instanceof UnresolvedAddressException || t instanceof UnknownHostException) {
+                return DeliveryResult.failure(FailureReason.DNS, "cannot resolve host '" + url.getHost() + "' (DNS)");
+            }
+            if (t instanceof SSLException) {
+                return DeliveryResult.failure(FailureReason.TLS, "TLS with " + host + " failed: " + t.getMessage());
+            }
+        }
+        if (e instanceof ConnectException) {
+            return DeliveryResult.failure(FailureReason.REFUSED, "connection to " + host + " refused or unreachable"
+                    + (e.getMessage() == null ? "" : " (" + e.getMessage() + ")"));
+        }
+        return DeliveryResult.failure(FailureReason.IO, "posting to " + url + " failed: " + e.getClass().getSimpleName()
+                + (e.getMessage() == null ? "" : ": " + e.getMessage()));
+    }
+}
