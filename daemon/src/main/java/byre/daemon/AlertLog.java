@@ -1,31 +1,49 @@
 package byre.daemon;
 
-import byre.json.JsonWriter;
+import byre.alerts.AlertEvent;
+import byre.alerts.AlertPolicy;
+import byre.alerts.NightDigest;
+import byre.alerts.WatchOutcome;
 import byre.mqtt.MqttLink;
+import byre.notify.AlertService;
 import byre.rules.Watch;
 import byre.rules.eval.Transition;
+import java.time.Duration;
+import java.time.Instant;
+import java.time.ZoneId;
+import java.time.format.DateTimeFormatter;
+import java.util.ArrayDeque;
+import java.util.ArrayList;
+import java.util.Deque;
+import java.util.List;
+import java.util.Locale;
 import java.util.function.Consumer;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
 
 /**
- * Logs every watch transition and publishes the current alert state, retained, under
- * {@code <prefix>/<site>/alerts/<watch>/<zone>} (design section 7).
+ * Hands the watches' transitions to the alert service (incidents, outbox, channels), logs them,
+ * publishes each watch instance's current state retained under
+ * {@code <prefix>/<site>/alerts/<watch>/<zone>} (design section 7), and remembers the episodes of
+ * the last two days for the morning digest.
  */
 final class AlertLog implements WatchStage.Outcomes {
     private static final Logger LOG = LoggerFactory.getLogger("byre.alerts");
+    private static final DateTimeFormatter CLOCK = DateTimeFormatter.ofPattern("EEE HH:mm", Locale.ROOT);
 
+    private final AlertService alerts;
     private final MqttLink link;
-    private final String site;
     private final String base;
+    private final ZoneId zone;
     private final Consumer<String> console;
-    private final java.time.ZoneId zone;
+    private final Deque<NightDigest.IncidentSpan> episodes = new ArrayDeque<>();
+    private Instant nextTick = Instant.MIN;
 
-    AlertLog(MqttLink link, String prefix, String site, java.time.ZoneId zone, Consumer<String> console) {
-        this.zone = zone;
+    AlertLog(AlertService alerts, MqttLink link, String prefix, String site, ZoneId zone, Consumer<String> console) {
+        this.alerts = alerts;
         this.link = link;
-        this.site = site;
         this.base = prefix + "/" + site + "/alerts/";
+        this.zone = zone;
         this.console = console;
     }
 
@@ -37,14 +55,44 @@ final class AlertLog implements WatchStage.Outcomes {
         } else {
             LOG.info(line);
         }
-        if (console != null) {
-            console.accept(java.time.format.DateTimeFormatter.ofPattern("EEE HH:mm", java.util.Locale.ROOT)
-                    .format(t.at().atZone(zone)) + "  ALERT " + line);
+        if (console != null) console.accept(CLOCK.format(t.at().atZone(zone)) + "  ALERT " + line);
+        remember(t);
+        AlertPolicy policy = watch == null ? new AlertPolicy(List.of(), null, null, List.of())
+                : new AlertPolicy(watch.notifyChannels(), watch.remindEvery().orElse(null), watch.escalateAfter().orElse(null),
+                        watch.escalateTo());
+        WatchOutcome outcome = new WatchOutcome(t.kind() == Transition.Kind.RAISED ? WatchOutcome.Kind.RAISED : WatchOutcome.Kind.CLEARED,
+                t.watch(), t.zone(), t.level().id(), t.quantity(), t.value(), t.unit(), t.since(), t.at(), t.message(), policy);
+        for (AlertEvent e : alerts.accept(outcome)) {
+            if (e.watch() != null && e.zone() != null) link.publish(base + e.watch() + "/" + e.zone(), e.toJson(), 1, true);
         }
-        String json = new JsonWriter().field("event", t.kind().event()).field("site", site).field("watch", t.watch())
-                .field("zone", t.zone()).field("level", t.level().id()).field("quantity", t.quantity())
-                .field("value", t.value()).field("unit", t.unit()).field("since", t.since().toString())
-                .field("at", t.at().toString()).field("message", t.message()).toString();
-        link.publish(base + t.watch() + "/" + t.zone(), json, 1, true);
+    }
+
+    @Override
+    public void tick(Instant now) {
+        if (now.isBefore(nextTick) && !now.isBefore(nextTick.minusSeconds(60))) return;
+        nextTick = now.plusSeconds(5);
+        alerts.tick();
+    }
+
+    private synchronized void remember(Transition t) {
+        if (t.kind() == Transition.Kind.RAISED) {
+            episodes.addLast(new NightDigest.IncidentSpan(t.watch(), t.zone(), t.level().id(), t.since(), null));
+        } else {
+            List<NightDigest.IncidentSpan> copy = new ArrayList<>(episodes);
+            episodes.clear();
+            for (NightDigest.IncidentSpan s : copy) {
+                boolean match = s.end() == null && s.watch().equals(t.watch()) && s.zone().equals(t.zone());
+                episodes.addLast(match ? new NightDigest.IncidentSpan(s.watch(), s.zone(), s.level(), s.start(), t.at()) : s);
+            }
+        }
+        Instant horizon = t.at().minus(Duration.ofDays(2));
+        while (!episodes.isEmpty() && episodes.peekFirst().end() != null && episodes.peekFirst().end().isBefore(horizon)) {
+            episodes.removeFirst();
+        }
+    }
+
+    /** Episodes that overlap [from, to), for the digest. */
+    synchronized List<NightDigest.IncidentSpan> episodes(Instant from, Instant to) {
+        return episodes.stream().filter(s -> s.start().isBefore(to) && (s.end() == null || s.end().isAfter(from))).toList();
     }
 }

@@ -46,6 +46,7 @@ public final class Daemon implements AutoCloseable {
     private java.util.function.Consumer<String> alertConsole;
     private RuleLoader rules;
     private WatchStage watches;
+    private byre.notify.AlertService alerts;
     private volatile boolean reloadRequested;
 
     private Daemon(ByreConfig config, Clock clock, MeterRegistry registry) {
@@ -107,9 +108,18 @@ public final class Daemon implements AutoCloseable {
                     publisher.flush();
                 }
             });
-            watches = new WatchStage(ruleSet, store, config.timezone(),
-                    new AlertLog(link, config.mqtt().publishPrefix(), config.site(), config.timezone(), alertConsole), clock.instant());
+            alerts = byre.notify.AlertServices.create(config, store, link, registry, clock);
+            link.subscribe(alerts.ackTopic(), alerts::onAckMessage);
+            AlertLog alertLog = new AlertLog(alerts, link, config.mqtt().publishPrefix(), config.site(), config.timezone(), alertConsole);
+            if (config.alerts().digestAt() != null) {
+                String last = store.loadState(byre.notify.AlertService.DIGEST_KEY).get(byre.notify.AlertService.DIGEST_KEY);
+                alerts.scheduleDigest(config.alerts().digestAt(), config.timezone(), config.alerts().digestNotify(), config.site(),
+                        byre.alerts.IdSource.random(), (from, to) -> NightDigestReader.read(store, config, from, to, alertLog::episodes),
+                        last == null ? null : java.time.Instant.parse(last));
+            }
+            watches = new WatchStage(ruleSet, store, config.timezone(), alertLog, clock.instant());
             pipeline.addListener(watches);
+            pipeline.addListener(new SelfWatch(writer, alerts));
             pipeline.addListener(new Pipeline.ZoneListener() {
                 private java.time.Instant nextCheck = java.time.Instant.MIN;
 
@@ -137,6 +147,7 @@ public final class Daemon implements AutoCloseable {
             link.onConnect(publisher::republishAll);
             link.onConnecting(ingest::connected);
             pipeline.start();
+            alerts.start();
             link.start();
             LOG.info("byre started for site {}: {} sensors in {} zones, history {}", config.site(), config.sensors().size(),
                     config.zones().size(), db);
@@ -162,6 +173,11 @@ public final class Daemon implements AutoCloseable {
     /** Asks for the rule files to be read again (SIGHUP); done on the pipeline thread within a second. */
     public void reload() {
         reloadRequested = true;
+    }
+
+    /** Incidents, outbox and channels; also the acknowledgement service of the admin API. */
+    public byre.notify.AlertService alerts() {
+        return alerts;
     }
 
     public WatchStage watches() {
@@ -218,6 +234,7 @@ public final class Daemon implements AutoCloseable {
     public void close() {
         if (link != null) link.close();
         if (pipeline != null) pipeline.close();
+        if (alerts != null) alerts.close();
         if (writer != null) writer.close();
         if (store != null) store.close();
         if (broker != null) broker.close();
