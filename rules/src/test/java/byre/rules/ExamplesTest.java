@@ -58,6 +58,7 @@ class ExamplesTest {
                 ts.addAll(e.accept(new ZoneReading(t, z, Quantity.DRY_BULB, 25 + m * 0.001)));
                 ts.addAll(e.accept(new ZoneReading(t, z, Quantity.WET_BULB, 20 + m * 0.001)));
                 ts.addAll(e.accept(new ZoneReading(t, z, Quantity.RH, 60)));
+                ts.addAll(e.accept(new ZoneReading(t, z, Quantity.AIR_SPEED, 0.5 + (m % 7) * 0.01)));
             }
             ts.addAll(e.accept(new ZoneReading(t, "cow-shed", Quantity.THI, thi)));
             for (Transition tr : ts) {

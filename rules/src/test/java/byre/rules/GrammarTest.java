@@ -218,7 +218,7 @@ class GrammarTest {
         assertEquals(List.of("barn.rules:3:32: unit 'm/s' is a speed, but 'wind-chill' is a temperature: use C, F or K"),
                 inWatch("raise when cows.wind-chill < 5 m/s", "clear when cows.wind-chill > 7 C"));
         assertEquals(List.of("barn.rules:3:26: 'thi' is an index without a unit: write the bare number"), inWatch("raise when cows.thi > 72 C"));
-        assertEquals(List.of("barn.rules:3:31: unknown unit 'Celsius'"), inWatch("raise when cows.dry-bulb > 30 Celsius", "clear when cows.dry-bulb < 28 C"));
+        assertEquals(List.of("barn.rules:3:31: unknown unit 'Celsius' (did you mean 'C'?)"), inWatch("raise when cows.dry-bulb > 30 Celsius", "clear when cows.dry-bulb < 28 C"));
         assertEquals(List.of("barn.rules:3:31: unknown unit 'mps' (did you mean 'm/s'?)"), inWatch("raise when cows.air-speed < 1 mps", "clear when cows.air-speed > 2 m/s"));
         assertEquals(List.of("barn.rules:3:12: this comparison has no stream on either side"), inWatch("raise when 1 < 2"));
         assertEquals(List.of("barn.rules:3:23: cannot compare 'cows.thi' with 'cows.rh': index vs relative humidity"), inWatch("raise when cows.thi > cows.rh"));
