@@ -81,20 +81,26 @@ public final class IncidentBook {
         for (Incident inc : open.values()) {
             if (inc.acknowledged()) continue;
             AlertPolicy p = inc.policy;
+            // Events carry their due time, not the time of the tick that noticed them, so that a
+            // replay (ticking every second) and the live daemon (every few seconds) agree exactly.
             if (p.escalateAfter() != null && !inc.escalated && !p.escalateTo().isEmpty()
                     && !now.isBefore(inc.raisedAt.plus(p.escalateAfter()))) {
                 inc.escalated = true;
-                String text = "Escalated: nobody acknowledged for " + human(Duration.between(inc.raisedAt, now)) + ". "
+                Instant due = inc.raisedAt.plus(p.escalateAfter());
+                String text = "Escalated: nobody acknowledged for " + human(Duration.between(inc.raisedAt, due)) + ". "
                         + nullToEmpty(inc.message) + " (ack " + inc.id + ")";
-                out.add(tell(inc, EventKind.ESCALATED, now, text, null, p.escalateTo()));
+                out.add(tell(inc, EventKind.ESCALATED, due, text, null, p.escalateTo()));
             }
             if (p.remindEvery() != null && !now.isBefore(inc.lastReminderAt.plus(p.remindEvery()))) {
-                inc.lastReminderAt = now;
+                Instant due = inc.lastReminderAt.plus(p.remindEvery());
+                // After a long outage of byre itself, one reminder now rather than a pile of them.
+                inc.lastReminderAt = now.isAfter(due.plus(p.remindEvery())) ? now : due;
+                Instant at = inc.lastReminderAt;
                 List<String> to = new ArrayList<>(p.channels());
                 if (inc.escalated) for (String c : p.escalateTo()) if (!to.contains(c)) to.add(c);
-                String text = "Still active after " + human(Duration.between(inc.since, now)) + ": "
+                String text = "Still active after " + human(Duration.between(inc.since, at)) + ": "
                         + nullToEmpty(inc.message) + " (ack " + inc.id + ")";
-                out.add(tell(inc, EventKind.REMINDER, now, text, null, to));
+                out.add(tell(inc, EventKind.REMINDER, at, text, null, to));
             }
         }
         return out;
