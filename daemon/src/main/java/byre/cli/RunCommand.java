@@ -1,19 +1,34 @@
 package byre.cli;
 
+import byre.admin.AdminServer;
+import byre.admin.HealthMonitor;
+import byre.admin.LiveValues;
+import byre.admin.SystemdWatchdog;
 import byre.config.ByreConfig;
 import byre.daemon.Daemon;
 import byre.zones.ClimateDeriver;
+import io.micrometer.core.instrument.binder.jvm.ClassLoaderMetrics;
+import io.micrometer.core.instrument.binder.jvm.JvmGcMetrics;
+import io.micrometer.core.instrument.binder.jvm.JvmMemoryMetrics;
+import io.micrometer.core.instrument.binder.jvm.JvmThreadMetrics;
+import io.micrometer.core.instrument.binder.system.FileDescriptorMetrics;
+import io.micrometer.core.instrument.binder.system.ProcessorMetrics;
+import io.micrometer.core.instrument.binder.system.UptimeMetrics;
 import io.micrometer.prometheusmetrics.PrometheusConfig;
 import io.micrometer.prometheusmetrics.PrometheusMeterRegistry;
 import java.time.Clock;
 import java.util.concurrent.Callable;
 import java.util.concurrent.CountDownLatch;
+import org.slf4j.Logger;
+import org.slf4j.LoggerFactory;
 import picocli.CommandLine.Command;
 import picocli.CommandLine.Mixin;
 
-/** {@code byre run}: the daemon, until SIGTERM or Ctrl-C. */
-@Command(name = "run", mixinStandardHelpOptions = true, description = "Run the daemon (until stopped by SIGTERM or Ctrl-C).")
+/** {@code byre run}: the daemon, until SIGTERM or Ctrl-C; SIGHUP asks for a reload. */
+@Command(name = "run", mixinStandardHelpOptions = true, description = "Run the daemon (until stopped by SIGTERM or Ctrl-C; SIGHUP reloads).")
 final class RunCommand implements Callable<Integer> {
+    private static final Logger LOG = LoggerFactory.getLogger(RunCommand.class);
+
     @Mixin
     ConfigOption config;
 
@@ -22,20 +37,77 @@ final class RunCommand implements Callable<Integer> {
         ByreConfig cfg = config.load(System.err);
         if (cfg == null) return Main.USAGE;
         PrometheusMeterRegistry registry = new PrometheusMeterRegistry(PrometheusConfig.DEFAULT);
+        bindJvmMetrics(registry);
+        LiveValues live = new LiveValues();
         Daemon daemon;
         try {
-            daemon = Daemon.create(cfg, Clock.systemUTC(), registry).start(new ClimateDeriver());
+            daemon = Daemon.create(cfg, Clock.systemUTC(), registry).listen(live).start(new ClimateDeriver());
         } catch (Exception e) {
             System.err.println("byre: cannot start: " + e.getMessage());
             return Main.FAILURE;
         }
+        HealthMonitor health = new HealthMonitor(daemon::health);
+        AdminServer admin = null;
+        if (cfg.admin().enabled()) {
+            try {
+                admin = AdminServer.start(cfg.admin().host(), cfg.admin().port(), cfg.admin().token(), registry::scrape, health, live,
+                        Clock.systemUTC(), cfg.site());
+                // The alert stage plugs in here: admin.setAlertSource(...); admin.setAckHandler(...).
+            } catch (java.io.IOException e) {
+                System.err.println("byre: cannot open the admin API on " + cfg.admin().host() + ":" + cfg.admin().port() + ": " + e.getMessage());
+                daemon.close();
+                return Main.FAILURE;
+            }
+        }
+        SystemdWatchdog watchdog = SystemdWatchdog.startIfRequested(System.getenv(), health);
+        onSighup(reloadAction(daemon));
+
         CountDownLatch stopped = new CountDownLatch(1);
+        AdminServer adminToClose = admin;
         Thread hook = new Thread(() -> {
+            watchdog.close();
+            if (adminToClose != null) adminToClose.close();
             daemon.close();
             stopped.countDown();
         }, "shutdown");
         Runtime.getRuntime().addShutdownHook(hook);
         stopped.await();
         return Main.OK;
+    }
+
+    /** JVM and process meters for /metrics: memory, GC, threads, classes, CPU, uptime, open files. */
+    static void bindJvmMetrics(PrometheusMeterRegistry registry) {
+        new ClassLoaderMetrics().bindTo(registry);
+        new JvmMemoryMetrics().bindTo(registry);
+        new JvmGcMetrics().bindTo(registry);
+        new JvmThreadMetrics().bindTo(registry);
+        new ProcessorMetrics().bindTo(registry);
+        new UptimeMetrics().bindTo(registry);
+        new FileDescriptorMetrics().bindTo(registry);
+    }
+
+    // ---- reload hook: SIGHUP (systemctl reload byre) runs this; rules and configuration reload plug in here ----
+
+    /** What SIGHUP does. For now it only logs; the rule engine replaces this with its reload. */
+    static Runnable reloadAction(Daemon daemon) {
+        return () -> LOG.info("reload requested (SIGHUP); configuration {}: nothing to reload in this version", daemon.config().file());
+    }
+
+    /** Runs {@code action} on every SIGHUP, on its own thread so a slow reload never blocks signal handling. */
+    static void onSighup(Runnable action) {
+        try {
+            sun.misc.Signal.handle(new sun.misc.Signal("HUP"), sig -> {
+                Thread t = new Thread(() -> {
+                    try {
+                        action.run();
+                    } catch (RuntimeException e) {
+                        LOG.error("reload failed; the running rules and configuration stay in force: {}", e.toString(), e);
+                    }
+                }, "reload");
+                t.start();
+            });
+        } catch (IllegalArgumentException e) {
+            LOG.warn("SIGHUP cannot be handled on this platform; reload needs a restart");
+        }
     }
 }
