@@ -12,8 +12,8 @@ import picocli.CommandLine.Command;
                 NotBuiltYet.Check.class,
                 CalcCommand.class,
                 NotBuiltYet.Replay.class,
-                NotBuiltYet.Status.class,
-                NotBuiltYet.History.class,
+                StatusCommand.class,
+                HistoryCommand.class,
                 NotBuiltYet.Ack.class,
                 NotBuiltYet.NotifyTest.class,
         })

@@ -1,0 +1,81 @@
+package byre.cli;
+
+import byre.admin.OpenAlert;
+import byre.config.AdminSettings;
+import byre.json.Json;
+import java.net.URI;
+import java.net.http.HttpClient;
+import java.net.http.HttpRequest;
+import java.net.http.HttpResponse;
+import java.time.Duration;
+import java.time.Instant;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Map;
+
+/** Asks a running daemon's admin API for its health and open alerts; gives up quickly when nobody answers. */
+final class AdminClient {
+    private final HttpClient http = HttpClient.newBuilder().connectTimeout(Duration.ofMillis(800)).build();
+    private final String base;
+
+    AdminClient(AdminSettings admin) {
+        String host = admin.host().equals("0.0.0.0") || admin.host().isEmpty() ? "127.0.0.1"
+                : admin.host().equals("::") ? "[::1]" : admin.host().contains(":") ? "[" + admin.host() + "]" : admin.host();
+        this.base = "http://" + host + ":" + admin.port();
+    }
+
+    /** Health as the daemon reports it, or {@link StatusData.Daemon#UNREACHABLE}. */
+    StatusData.Daemon health() {
+        try {
+            HttpResponse<String> r = get("/health");
+            if (r.statusCode() != 200 && r.statusCode() != 503) return StatusData.Daemon.UNREACHABLE;
+            List<String> problems = new ArrayList<>();
+            if (Json.parse(r.body()) instanceof Map<?, ?> m && m.get("problems") instanceof List<?> l) {
+                for (Object o : l) problems.add(String.valueOf(o));
+            }
+            return new StatusData.Daemon(true, r.statusCode() == 200, problems);
+        } catch (Exception e) {
+            return StatusData.Daemon.UNREACHABLE;
+        }
+    }
+
+    /** The daemon's open alerts, or null when it does not know them (no alert stage yet, or not answering). */
+    List<OpenAlert> openAlerts() {
+        try {
+            HttpResponse<String> r = get("/status");
+            if (r.statusCode() != 200) return null;
+            if (!(Json.parse(r.body()) instanceof Map<?, ?> m) || !(m.get("alerts") instanceof List<?> l)) return null;
+            List<OpenAlert> out = new ArrayList<>();
+            for (Object o : l) {
+                if (o instanceof Map<?, ?> a) out.add(alert(a));
+            }
+            return out;
+        } catch (Exception e) {
+            return null;
+        }
+    }
+
+    /** Reads one alert object (the /status form, which is also the event JSON of design section 6 plus acknowledgement). */
+    static OpenAlert alert(Map<?, ?> a) {
+        return new OpenAlert(str(a.get("incident")), str(a.get("watch")), str(a.get("zone")), str(a.get("level")),
+                str(a.get("quantity")), a.get("value") instanceof Double d ? d : Double.NaN, time(a.get("since")),
+                str(a.get("acknowledged-by")), time(a.get("acknowledged-at")));
+    }
+
+    private static String str(Object o) {
+        return o instanceof String s ? s : null;
+    }
+
+    private static Instant time(Object o) {
+        try {
+            return o instanceof String s ? Instant.parse(s) : null;
+        } catch (RuntimeException e) {
+            return null;
+        }
+    }
+
+    private HttpResponse<String> get(String path) throws Exception {
+        HttpRequest req = HttpRequest.newBuilder(URI.create(base + path)).timeout(Duration.ofSeconds(2)).GET().build();
+        return http.send(req, HttpResponse.BodyHandlers.ofString());
+    }
+}
