@@ -8,8 +8,8 @@ import picocli.CommandLine.Command;
         description = "Barn-climate ingest and alerting daemon.",
         subcommands = {
                 RunCommand.class,
-                NotBuiltYet.Demo.class,
-                NotBuiltYet.Check.class,
+                DemoCommand.class,
+                CheckCommand.class,
                 CalcCommand.class,
                 NotBuiltYet.Replay.class,
                 StatusCommand.class,

@@ -15,8 +15,6 @@ final class NotBuiltYet {
         }
     }
 
-    @Command(name = "demo", mixinStandardHelpOptions = true, description = "Embedded broker, simulated barn and daemon, no set-up.") static final class Demo extends Stub {}
-    @Command(name = "check", mixinStandardHelpOptions = true, description = "Validate configuration and rule files.") static final class Check extends Stub {}
     @Command(name = "replay", mixinStandardHelpOptions = true, description = "Run watches over a CSV or the history and print the events.") static final class Replay extends Stub {}
     @Command(name = "ack", mixinStandardHelpOptions = true, description = "Acknowledge an open alert.") static final class Ack extends Stub {}
     @Command(name = "notify-test", mixinStandardHelpOptions = true, description = "Send a test event through one channel.") static final class NotifyTest extends Stub {}

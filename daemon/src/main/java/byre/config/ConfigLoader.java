@@ -372,10 +372,12 @@ public final class ConfigLoader {
     private HistorySettings history(Node node) {
         Map<String, Node> m = node == null ? Map.of() : mapping(node, HISTORY_KEYS, "history");
         Path path = resolve(string(m.get("path"), "history.path", "/var/lib/byre/history.db"));
-        return new HistorySettings(path,
-                duration(m.get("keep-raw"), "history.keep-raw", Duration.ofDays(14)),
-                duration(m.get("keep-minute"), "history.keep-minute", Duration.ofDays(90)),
-                duration(m.get("keep-hour"), "history.keep-hour", Duration.ofDays(5 * 365)));
+        Duration raw = duration(m.get("keep-raw"), "history.keep-raw", Duration.ofDays(14));
+        Duration minute = duration(m.get("keep-minute"), "history.keep-minute", Duration.ofDays(90));
+        Duration hour = duration(m.get("keep-hour"), "history.keep-hour", Duration.ofDays(5 * 365 + 1));
+        if (raw.compareTo(minute) > 0) problem(m.get("keep-raw"), "history.keep-raw must not be longer than keep-minute");
+        if (minute.compareTo(hour) > 0) problem(m.get("keep-minute"), "history.keep-minute must not be longer than keep-hour");
+        return new HistorySettings(path, raw, minute, hour);
     }
 
     private AdminSettings admin(Node node) {

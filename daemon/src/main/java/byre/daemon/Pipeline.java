@@ -25,6 +25,12 @@ import org.slf4j.LoggerFactory;
  */
 public final class Pipeline implements AutoCloseable {
     private static final Logger LOG = LoggerFactory.getLogger(Pipeline.class);
+    /**
+     * Zone streams are stored at most this often: every raw sensor reading is kept, and a zone's
+     * derived values can always be recomputed from them; a row a minute per stream keeps the
+     * history small on an SD card while rules and MQTT still see every derivation.
+     */
+    static final java.time.Duration ZONE_STREAM_STORE_EVERY = java.time.Duration.ofMinutes(1);
     private static final Reading STOP = new Reading("", byre.units.Quantity.DRY_BULB, 0, Instant.EPOCH);
 
     /** A stage that consumes zone streams and may also act on the passing of time. */
@@ -40,6 +46,7 @@ public final class Pipeline implements AutoCloseable {
     private final Clock clock;
     private final List<ZoneListener> listeners = new CopyOnWriteArrayList<>();
     private final Thread thread;
+    private final StoreThinning thinning = new StoreThinning(ZONE_STREAM_STORE_EVERY);
     private final AtomicLong processed = new AtomicLong();
     private volatile long lastProgressNanos = System.nanoTime();
 
@@ -84,7 +91,8 @@ public final class Pipeline implements AutoCloseable {
     private void loop() {
         Instant lastTick = Instant.MIN;
         Consumer<ZoneReading> fanOut = zr -> {
-            history.append(StreamKey.zone(zr.zone(), zr.quantity()), zr.at(), zr.value());
+            StreamKey key = StreamKey.zone(zr.zone(), zr.quantity());
+            if (thinning.due(key, zr.at())) history.append(key, zr.at(), zr.value());
             for (ZoneListener l : listeners) {
                 try {
                     l.accept(zr);

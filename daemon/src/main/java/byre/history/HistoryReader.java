@@ -85,7 +85,7 @@ public final class HistoryReader implements AutoCloseable {
     /** Every stream ever written, sensors first, each ordered by name. */
     public List<StreamKey> streams() {
         List<StreamKey> out = new ArrayList<>();
-        query("list streams", "SELECT kind, key FROM stream ORDER BY kind DESC, key", ps -> { }, rs -> {
+        query("list streams", "SELECT kind, key FROM stream ORDER BY kind, key", ps -> { }, rs -> {
             toKey(rs.getString(1), rs.getString(2)).ifPresent(out::add);
         });
         return out;
@@ -96,7 +96,7 @@ public final class HistoryReader implements AutoCloseable {
         List<HistoryRow> out = new ArrayList<>();
         query("latest values", "SELECT s.kind, s.key, r.ts, r.value FROM stream s "
                 + "JOIN reading r ON r.stream = s.id AND r.ts = (SELECT max(ts) FROM reading WHERE stream = s.id) "
-                + "ORDER BY s.kind DESC, s.key", ps -> { },
+                + "ORDER BY s.kind, s.key", ps -> { },
             rs -> {
                 Optional<StreamKey> k = toKey(rs.getString(1), rs.getString(2));
                 if (k.isPresent()) out.add(new HistoryRow(k.get(), Instant.ofEpochMilli(rs.getLong(3)), rs.getDouble(4)));

@@ -425,6 +425,9 @@ public final class HistoryWriter implements AutoCloseable {
         try {
             WriterTx.begin(conn);
             RollupAccumulator acc = new RollupAccumulator();
+            Row[] batch = new Row[n];
+            int[] ids = new int[n];
+            int queued = 0;
             try (PreparedStatement ins = conn.prepareStatement("INSERT OR IGNORE INTO reading(stream, ts, value) VALUES (?, ?, ?)")) {
                 Iterator<Row> it = backlog.iterator();
                 for (int i = 0; i < n; i++) {
@@ -437,11 +440,21 @@ public final class HistoryWriter implements AutoCloseable {
                     ins.setInt(1, id);
                     ins.setLong(2, r.tsMs);
                     ins.setDouble(3, r.value);
-                    if (ins.executeUpdate() == 1) {
+                    ins.addBatch();
+                    batch[queued] = r;
+                    ids[queued++] = id;
+                }
+                // sqlite-jdbc reports the change count of each statement: 0 means the row was already stored.
+                int[] changes = queued == 0 ? new int[0] : ins.executeBatch();
+                if (changes.length != queued) throw new SQLException("batch insert reported " + changes.length + " results for " + queued + " rows");
+                for (int i = 0; i < queued; i++) {
+                    if (changes[i] == 1) {
                         inserted++;
-                        acc.add(id, r.tsMs, r.value);
-                    } else {
+                        acc.add(ids[i], batch[i].tsMs, batch[i].value);
+                    } else if (changes[i] == 0) {
                         duplicate++;
+                    } else {
+                        throw new SQLException("batch insert gave no row count (" + changes[i] + "); cannot keep rollups exact");
                     }
                 }
             }

@@ -1,0 +1,94 @@
+package byre.cli;
+
+import byre.climate.ThiScale;
+import byre.config.ByreConfig;
+import byre.daemon.Pipeline;
+import byre.rules.ZoneReading;
+import byre.units.Quantity;
+import byre.units.Unit;
+import java.io.PrintStream;
+import java.time.Duration;
+import java.time.Instant;
+import java.time.ZoneId;
+import java.time.format.DateTimeFormatter;
+import java.util.EnumMap;
+import java.util.LinkedHashMap;
+import java.util.Locale;
+import java.util.Map;
+
+/**
+ * One live line per zone on the console (the demo): the zone's current values in the site's units,
+ * printed every {@code every} of (possibly simulated) time.
+ */
+final class ZoneLines implements Pipeline.ZoneListener {
+    private static final Quantity[] SHOWN = {Quantity.DRY_BULB, Quantity.RH, Quantity.AIR_SPEED, Quantity.DEW_POINT,
+            Quantity.WIND_CHILL, Quantity.HEAT_INDEX, Quantity.THI};
+    private static final DateTimeFormatter CLOCK = DateTimeFormatter.ofPattern("EEE HH:mm", Locale.ROOT);
+
+    private final PrintStream out;
+    private final Duration every;
+    private final ZoneId zone;
+    private final boolean us;
+    private final Map<String, Map<Quantity, Double>> latest = new LinkedHashMap<>();
+    private Instant nextPrint;
+
+    ZoneLines(ByreConfig config, PrintStream out, Duration every) {
+        this.out = out;
+        this.every = every;
+        this.zone = config.timezone();
+        this.us = config.units() == ByreConfig.DisplayUnits.US;
+        for (String z : config.zones().keySet()) latest.put(z, new EnumMap<>(Quantity.class));
+    }
+
+    @Override
+    public void accept(ZoneReading r) {
+        Map<Quantity, Double> m = latest.get(r.zone());
+        if (m != null) m.put(r.quantity(), r.value());
+    }
+
+    @Override
+    public void tick(Instant now) {
+        if (nextPrint == null) nextPrint = now.plus(every);
+        if (now.isBefore(nextPrint)) return;
+        nextPrint = now.plus(every);
+        for (Map.Entry<String, Map<Quantity, Double>> e : latest.entrySet()) {
+            if (e.getValue().isEmpty()) continue;
+            out.println(line(CLOCK.format(now.atZone(zone)), e.getKey(), e.getValue()));
+        }
+        out.flush();
+    }
+
+    String line(String time, String zoneId, Map<Quantity, Double> values) {
+        StringBuilder sb = new StringBuilder(String.format(Locale.ROOT, "%s  %-11s", time, zoneId));
+        for (Quantity q : SHOWN) {
+            Double v = values.get(q);
+            if (v == null) continue;
+            Unit u = displayUnit(q);
+            sb.append(String.format(Locale.ROOT, "  %s %.1f%s", label(q), u.fromCanonical(v), u.symbol().isEmpty() ? "" : " " + u.symbol()));
+            if (q == Quantity.THI) sb.append(" (").append(ThiScale.LWSI.category(v)).append(')');
+        }
+        return sb.toString();
+    }
+
+    private Unit displayUnit(Quantity q) {
+        if (!us) return q.canonicalUnit();
+        switch (q.dimension()) {
+            case TEMPERATURE: return Unit.F;
+            case SPEED: return Unit.MPH;
+            case PRESSURE: return Unit.INHG;
+            default: return q.canonicalUnit();
+        }
+    }
+
+    private static String label(Quantity q) {
+        switch (q) {
+            case DRY_BULB: return "air";
+            case AIR_SPEED: return "wind";
+            case DEW_POINT: return "dew";
+            case WIND_CHILL: return "chill";
+            case HEAT_INDEX: return "heat-index";
+            case THI: return "THI";
+            default: return q.id();
+        }
+    }
+}

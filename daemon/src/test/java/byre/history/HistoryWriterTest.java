@@ -1,0 +1,198 @@
+package byre.history;
+
+import static org.awaitility.Awaitility.await;
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import byre.rules.ZoneReading;
+import byre.units.Quantity;
+import java.nio.file.Path;
+import java.time.Duration;
+import java.time.Instant;
+import java.util.List;
+import org.junit.jupiter.api.AfterEach;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+
+class HistoryWriterTest {
+
+    static final Instant T0 = Instant.parse("2025-07-14T13:00:00Z");
+    static final StreamKey PEN1_DRY = StreamKey.sensor("pen1-dry");
+    static final StreamKey COWS_THI = StreamKey.zone("cows", Quantity.byId("thi").orElseThrow());
+
+    @TempDir Path dir;
+    TestClock clock = new TestClock(T0.plus(Duration.ofHours(1)));
+    HistoryStore store;
+    HistoryWriter writer;
+
+    HistoryWriter start(HistoryWriter.Settings settings) {
+        store = HistoryStore.open(dir.resolve("history.db"), clock);
+        writer = HistoryWriter.start(store, Retention.DEFAULT, clock, settings);
+        return writer;
+    }
+
+    @AfterEach
+    void tearDown() {
+        if (writer != null) writer.close();
+        if (store != null) store.close();
+        if (store != null) assertEquals("ok", Sql.text(store.path(), "PRAGMA integrity_check"));
+    }
+
+    @Test
+    void writesAndReadsBack() {
+        start(HistoryWriter.Settings.DEFAULT);
+        assertTrue(writer.append(PEN1_DRY, T0, 21.5));
+        assertTrue(writer.append(PEN1_DRY, T0.plusSeconds(10), 21.75));
+        assertTrue(writer.append(new ZoneReading(T0.plusSeconds(10), "cows", COWS_THI.quantity().orElseThrow(), 71.2)));
+        assertTrue(writer.flush());
+        assertEquals("wal", Sql.text(store.path(), "PRAGMA journal_mode"));
+        try (HistoryReader r = store.openReader()) {
+            assertEquals(List.of(new HistoryRow(PEN1_DRY, T0, 21.5), new HistoryRow(PEN1_DRY, T0.plusSeconds(10), 21.75)),
+                r.raw(PEN1_DRY, T0, T0.plusSeconds(60)));
+            assertEquals(List.of(new HistoryRow(PEN1_DRY, T0, 21.5)), r.raw(PEN1_DRY, T0, T0.plusSeconds(10)), "to is exclusive");
+            assertEquals(List.of(PEN1_DRY, COWS_THI), r.streams());
+            assertEquals("zone:cows.thi", r.streams().get(1).toString());
+        }
+        assertEquals(3, writer.rowsWritten());
+        assertEquals(1, writer.batches());
+        assertEquals(3, writer.lastBatchRows());
+        assertTrue(writer.databaseSizeBytes() > 0);
+    }
+
+    @Test
+    void commitsABatchWhenItHoldsBatchRows() {
+        // A 1-hour delay: only the row count can trigger these commits.
+        start(HistoryWriter.Settings.DEFAULT.withBatch(100, Duration.ofHours(1)));
+        for (int i = 0; i < 250; i++) writer.append(PEN1_DRY, T0.plusSeconds(i), i);
+        await().atMost(Duration.ofSeconds(10)).until(() -> writer.batches() == 2);
+        assertEquals(200, writer.rowsWritten());
+        assertEquals(100, writer.lastBatchRows());
+        assertEquals(50, writer.backlogRows(), "the rest waits for the next trigger");
+        assertEquals(200, Sql.number(store.path(), "SELECT count(*) FROM reading"));
+        assertTrue(writer.flush());
+        assertEquals(250, writer.rowsWritten());
+    }
+
+    @Test
+    void commitsAPartialBatchWhenTheOldestRowHasWaitedLongEnough() {
+        // 1000 rows would never be reached: only the delay can trigger this commit.
+        start(HistoryWriter.Settings.DEFAULT.withBatch(1000, Duration.ofMillis(300)));
+        for (int i = 0; i < 5; i++) writer.append(PEN1_DRY, T0.plusSeconds(i), i);
+        await().atMost(Duration.ofSeconds(10)).until(() -> writer.rowsWritten() == 5);
+        assertEquals(1, writer.batches());
+        assertEquals(5, Sql.number(store.path(), "SELECT count(*) FROM reading"));
+    }
+
+    @Test
+    void redeliveredReadingsAreStoredOnceAndCountedOnceInTheRollups() {
+        start(HistoryWriter.Settings.DEFAULT.withBatch(3, Duration.ofHours(1)));
+        writer.append(PEN1_DRY, T0, 10.0);
+        writer.append(PEN1_DRY, T0.plusSeconds(10), 20.0);
+        writer.append(PEN1_DRY, T0.plusSeconds(10), 99.0); // duplicate inside the same batch
+        assertTrue(writer.flush());
+        writer.append(PEN1_DRY, T0, 50.0);                  // redelivery in a later batch
+        writer.append(PEN1_DRY, T0.plusSeconds(20), 30.0);
+        assertTrue(writer.flush());
+        assertEquals(3, writer.rowsWritten());
+        assertEquals(2, writer.rowsDuplicate());
+        try (HistoryReader r = store.openReader()) {
+            assertEquals(List.of(10.0, 20.0, 30.0), r.raw(PEN1_DRY, null, null).stream().map(HistoryRow::value).toList(),
+                "the first value of a (stream, time) is kept");
+            // Mean of 10, 20, 30 is 20 (arithmetic).
+            assertEquals(List.of(new RollupRow(PEN1_DRY, T0, Duration.ofMinutes(1), 10.0, 30.0, 20.0, 3)),
+                r.rollups(PEN1_DRY, Resolution.MINUTE, null, null));
+            assertEquals(List.of(new RollupRow(PEN1_DRY, T0, Duration.ofHours(1), 10.0, 30.0, 20.0, 3)),
+                r.rollups(PEN1_DRY, Resolution.HOUR, null, null));
+        }
+    }
+
+    @Test
+    void rejectsValuesThatAreNotFiniteAndReadingsOlderThanKeepRaw() {
+        start(HistoryWriter.Settings.DEFAULT);
+        assertFalse(writer.append(PEN1_DRY, T0, Double.NaN));
+        assertFalse(writer.append(PEN1_DRY, T0, Double.POSITIVE_INFINITY));
+        assertFalse(writer.append(null, T0, 1.0));
+        assertEquals(3, writer.rowsRejected());
+        writer.append(PEN1_DRY, clock.instant().minus(Duration.ofDays(15)), 1.0);
+        writer.append(PEN1_DRY, clock.instant().minus(Duration.ofDays(13)), 2.0);
+        assertTrue(writer.flush());
+        assertEquals(1, writer.rowsTooOld());
+        assertEquals(1, writer.rowsWritten());
+        assertTrue(writer.isHealthy());
+    }
+
+    @Test
+    void appendAfterCloseIsRejectedAndCloseFlushes() {
+        start(HistoryWriter.Settings.DEFAULT.withBatch(1000, Duration.ofHours(1)));
+        writer.append(PEN1_DRY, T0, 1.0);
+        writer.close();
+        assertEquals(1, Sql.number(store.path(), "SELECT count(*) FROM reading"));
+        assertFalse(writer.append(PEN1_DRY, T0.plusSeconds(1), 2.0));
+        assertEquals(1, writer.rowsRejected());
+    }
+
+    @Test
+    void aFullDiskMakesTheWriterUnhealthyKeepsTheRowsAndWritesThemWhenSpaceReturns() throws Exception {
+        start(HistoryWriter.Settings.DEFAULT.withBatch(500, Duration.ofMillis(50)).withMaxRetryDelay(Duration.ofMillis(200)));
+        writer.append(PEN1_DRY, T0, 0.0);
+        assertTrue(writer.flush());
+        // Cap the file at its current size: the next pages cannot be allocated (SQLITE_FULL).
+        writer.runOnWriter(c -> {
+            try (var st = c.createStatement(); var rs = st.executeQuery("PRAGMA page_count")) {
+                rs.next();
+                st.execute("PRAGMA max_page_count = " + rs.getLong(1));
+            }
+        }).get();
+        int rows = 20_000;
+        for (int i = 1; i <= rows; i++) assertTrue(writer.append(PEN1_DRY, T0.plusSeconds(i), i));
+        await().atMost(Duration.ofSeconds(20)).until(() -> !writer.isHealthy());
+        assertTrue(writer.lastError().orElseThrow().contains("full"), writer.lastError().orElseThrow());
+        assertTrue(writer.writeErrors() >= 1);
+        await().atMost(Duration.ofSeconds(20)).until(() -> writer.queueDepth() == 0);
+        assertTrue(writer.backlogRows() > 0, "rows are kept in memory");
+        long storedWhileFull = Sql.number(store.path(), "SELECT count(*) FROM reading");
+        assertTrue(storedWhileFull < rows + 1);
+        assertEquals(0, writer.rowsDropped());
+
+        writer.runOnWriter(c -> {
+            try (var st = c.createStatement()) {
+                st.execute("PRAGMA max_page_count = 1073741823");
+            }
+        }).get();
+        await().atMost(Duration.ofSeconds(20)).until(writer::isHealthy);
+        assertTrue(writer.flush());
+        assertEquals(rows + 1, Sql.number(store.path(), "SELECT count(*) FROM reading"));
+        assertEquals(rows + 1, Sql.number(store.path(), "SELECT sum(n) FROM rollup_minute"), "no batch counted twice by the retries");
+        assertEquals(0, writer.backlogRows());
+    }
+
+    @Test
+    void aBacklogBeyondItsBoundDropsTheOldestRowsAndCountsThem() throws Exception {
+        start(HistoryWriter.Settings.DEFAULT.withBatch(100, Duration.ofMillis(50)).withBacklogLimit(1000)
+            .withMaxRetryDelay(Duration.ofMillis(200)));
+        writer.append(PEN1_DRY, T0, 0.0);
+        assertTrue(writer.flush());
+        writer.runOnWriter(c -> {
+            try (var st = c.createStatement(); var rs = st.executeQuery("PRAGMA page_count")) {
+                rs.next();
+                st.execute("PRAGMA max_page_count = " + rs.getLong(1));
+            }
+        }).get();
+        // Enough rows that a batch needs new pages, then more than the backlog holds.
+        for (int i = 1; i <= 3000; i++) writer.append(PEN1_DRY, T0.plusSeconds(i), i);
+        await().atMost(Duration.ofSeconds(20)).until(() -> writer.queueDepth() == 0 && writer.rowsDropped() > 0);
+        assertFalse(writer.isHealthy());
+        assertTrue(writer.backlogRows() <= 1000);
+        writer.runOnWriter(c -> {
+            try (var st = c.createStatement()) {
+                st.execute("PRAGMA max_page_count = 1073741823");
+            }
+        }).get();
+        assertTrue(writer.flush(Duration.ofSeconds(20)));
+        long stored = Sql.number(store.path(), "SELECT count(*) FROM reading");
+        assertEquals(3001, stored + writer.rowsDropped(), "every row is either stored or counted as dropped");
+        // The newest rows survive: it is the oldest that are dropped.
+        assertEquals(T0.plusSeconds(3000).toEpochMilli(), Sql.number(store.path(), "SELECT max(ts) FROM reading"));
+    }
+}

@@ -1,0 +1,35 @@
+package byre.rules;
+
+import byre.units.Quantity;
+import java.time.Duration;
+import java.util.EnumSet;
+import java.util.Map;
+import java.util.Optional;
+import java.util.Set;
+
+/**
+ * What the checker resolves rule files against; the daemon implements it from its configuration,
+ * {@link SimpleRuleContext} is a plain implementation for replay and tests.
+ */
+public interface RuleContext {
+    /** Zone ids of the site. */
+    Set<String> zones();
+
+    /** Group name (without '@') to the zone ids in it. */
+    Map<String, Set<String>> groups();
+
+    /** Names of the configured notification channels. */
+    Set<String> channels();
+
+    /** How often a zone's stream is expected to report, if known (for the hold-time warning). */
+    default Optional<Duration> reportingInterval(String zone, Quantity quantity) { return Optional.empty(); }
+
+    /** A reading older than this is not fresh; {@code silent()} turns true after it. */
+    default Duration maxAge(String zone) { return Duration.ofMinutes(5); }
+
+    /** Streams the zone provides (measured or derivable). A glob or group skips zones without the stream. */
+    default Set<Quantity> quantities(String zone) { return EnumSet.allOf(Quantity.class); }
+
+    /** Short site id for the {site} placeholder. */
+    default String site() { return ""; }
+}

@@ -1,0 +1,37 @@
+package byre.rules.eval;
+
+import byre.rules.TimeWindow;
+import byre.rules.Watch;
+
+/** The state machine of one (watch, zone). Times are engine-internal milliseconds. */
+final class Instance {
+    static final long NONE = Long.MIN_VALUE;
+
+    final Watch watch;
+    final String zone;
+    final long raiseHold;
+    final long clearHold;
+    final TimeWindow only;
+    Nodes.Test raise;
+    Nodes.Test clear;
+    Nodes.Num probe;
+    Stream[] silentStreams = new Stream[0];
+
+    AlertState state = AlertState.CLEAR;
+    long since = NONE;
+    long holdStart = NONE;
+    long raisedAt = NONE;
+    double value = Double.NaN;
+    long due = NONE;
+    long dueStamp;
+
+    Instance(Watch watch, String zone) {
+        this.watch = watch;
+        this.zone = zone;
+        this.raiseHold = watch.raiseHold().toMillis();
+        this.clearHold = watch.clearHold().toMillis();
+        this.only = watch.onlyBetween().orElse(null);
+    }
+
+    String key() { return watch.name() + "/" + zone; }
+}

@@ -1,0 +1,74 @@
+package byre.rules.eval;
+
+import byre.units.Quantity;
+import java.util.ArrayList;
+import java.util.HashMap;
+import java.util.List;
+import java.util.Map;
+
+/** The live state of one (zone, quantity) stream: its latest reading, its constant run, its windows. */
+public final class Stream {
+    static final long NONE = Long.MIN_VALUE;
+
+    final String zone;
+    final Quantity quantity;
+    final long maxAgeMs;
+    double last = Double.NaN;
+    long lastAt = NONE;
+    long runStart = NONE;
+    private Agg[] aggs = new Agg[0];
+    private final Map<String, Agg> byKey = new HashMap<>();
+    Instance[] dependents = new Instance[0];
+
+    Stream(String zone, Quantity quantity, long maxAgeMs) {
+        this.zone = zone;
+        this.quantity = quantity;
+        this.maxAgeMs = maxAgeMs;
+    }
+
+    /** A reading; times never go backwards here (the engine clamps them). */
+    void push(long t, double v) {
+        if (lastAt != NONE && t < lastAt) t = lastAt;
+        if (lastAt == NONE || Double.compare(v, last) != 0) runStart = t;
+        last = v;
+        lastAt = t;
+        for (Agg a : aggs) a.push(t, v);
+    }
+
+    boolean fresh(long now) { return lastAt != NONE && now - lastAt < maxAgeMs; }
+
+    double latest(long now) { return fresh(now) ? last : Double.NaN; }
+
+    /** No reading within the freshness limit; before the first reading, counted from the engine's start. */
+    boolean silent(long now, long engineStart) {
+        long ref = lastAt != NONE ? lastAt : engineStart;
+        return now - ref >= maxAgeMs;
+    }
+
+    long silentAt(long engineStart) { return (lastAt != NONE ? lastAt : engineStart) + maxAgeMs; }
+
+    /** Unknown (-1) without a fresh reading, else 1 when the value has not changed for the window. */
+    int stuck(long now, long windowMs) {
+        if (!fresh(now)) return -1;
+        return now - runStart >= windowMs ? 1 : 0;
+    }
+
+    Agg agg(String key, java.util.function.Supplier<Agg> make) {
+        Agg a = byKey.get(key);
+        if (a == null) {
+            a = make.get();
+            byKey.put(key, a);
+            List<Agg> l = new ArrayList<>(List.of(aggs));
+            l.add(a);
+            aggs = l.toArray(new Agg[0]);
+        }
+        return a;
+    }
+
+    void addDependent(Instance i) {
+        for (Instance d : dependents) if (d == i) return;
+        Instance[] n = java.util.Arrays.copyOf(dependents, dependents.length + 1);
+        n[dependents.length] = i;
+        dependents = n;
+    }
+}

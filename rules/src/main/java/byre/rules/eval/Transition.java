@@ -1,0 +1,23 @@
+package byre.rules.eval;
+
+import byre.rules.Level;
+import java.time.Instant;
+
+/**
+ * An alert event the engine emits: a watch instance was raised or cleared.
+ *
+ * @param quantity id of the quantity of the first term of the raise condition ({@code thi})
+ * @param value    the value of the first value in the raise condition at {@code at}, canonical unit; NaN if none
+ * @param unit     canonical unit symbol of {@code quantity} ("" for indices)
+ * @param since    when the episode began: the raise condition first became true
+ * @param message  the watch's message with placeholders filled; a cleared event starts with "All clear: "
+ */
+public record Transition(Kind kind, String watch, String zone, Level level, String quantity, double value, String unit,
+                         Instant since, Instant at, String message) {
+    public enum Kind {
+        RAISED, CLEARED;
+
+        /** The event name of design section 6: {@code raised}, {@code cleared}. */
+        public String event() { return name().toLowerCase(); }
+    }
+}
