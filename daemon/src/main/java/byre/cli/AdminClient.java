@@ -9,7 +9,10 @@ import java.net.http.HttpRequest;
 import java.net.http.HttpResponse;
 import java.time.Duration;
 import java.time.Instant;
+import byre.units.Quantity;
 import java.util.ArrayList;
+import java.util.EnumMap;
+import java.util.HashMap;
 import java.util.List;
 import java.util.Map;
 
@@ -39,18 +42,46 @@ final class AdminClient {
         }
     }
 
-    /** The daemon's open alerts, or null when it does not know them (no alert stage yet, or not answering). */
-    List<OpenAlert> openAlerts() {
+    /** The daemon's {@code /status} answer: live zone values and open alerts; null when it does not answer. */
+    Live status() {
         try {
             HttpResponse<String> r = get("/status");
-            if (r.statusCode() != 200) return null;
-            if (!(Json.parse(r.body()) instanceof Map<?, ?> m) || !(m.get("alerts") instanceof List<?> l)) return null;
+            if (r.statusCode() != 200 || !(Json.parse(r.body()) instanceof Map<?, ?> m)) return null;
+            return new Live(values(m.get("zones")), alerts(m.get("alerts")));
+        } catch (Exception e) {
+            return null;
+        }
+    }
+
+    /** Live zone values (canonical units) by zone, and the open alerts (null when the daemon has no alert stage). */
+    record Live(Map<String, Map<Quantity, StatusData.Value>> values, List<OpenAlert> alerts) {}
+
+    private static Map<String, Map<Quantity, StatusData.Value>> values(Object zones) {
+        Map<String, Map<Quantity, StatusData.Value>> out = new HashMap<>();
+        if (!(zones instanceof Map<?, ?> zm)) return out;
+        for (Map.Entry<?, ?> z : zm.entrySet()) {
+            if (!(z.getValue() instanceof Map<?, ?> qm)) continue;
+            Map<Quantity, StatusData.Value> values = new EnumMap<>(Quantity.class);
+            for (Map.Entry<?, ?> q : qm.entrySet()) {
+                Quantity quantity = Quantity.byId(String.valueOf(q.getKey())).orElse(null);
+                if (quantity == null || !(q.getValue() instanceof Map<?, ?> v) || !(v.get("value") instanceof Double d)) continue;
+                Instant at = time(v.get("at"));
+                if (at != null) values.put(quantity, new StatusData.Value(d, at));
+            }
+            out.put(String.valueOf(z.getKey()), values);
+        }
+        return out;
+    }
+
+    private static List<OpenAlert> alerts(Object alerts) {
+        try {
+            if (!(alerts instanceof List<?> l)) return null;
             List<OpenAlert> out = new ArrayList<>();
             for (Object o : l) {
                 if (o instanceof Map<?, ?> a) out.add(alert(a));
             }
             return out;
-        } catch (Exception e) {
+        } catch (RuntimeException e) {
             return null;
         }
     }

@@ -49,15 +49,15 @@ final class StatusCommand implements Callable<Integer> {
         if (cfg == null) return Main.USAGE;
         Instant now = Clock.systemUTC().instant();
         StatusData.Daemon daemon = StatusData.Daemon.UNREACHABLE;
-        List<OpenAlert> liveAlerts = null;
+        AdminClient.Live live = null;
         if (cfg.admin().enabled()) {
             AdminClient client = new AdminClient(cfg.admin());
             daemon = client.health();
-            if (daemon.reachable()) liveAlerts = client.openAlerts();
+            if (daemon.reachable()) live = client.status();
         }
         StatusData data;
         try (HistoryReader r = HistoryReader.openReadOnly(cfg.history().path())) {
-            data = gather(cfg, r, now, daemon, liveAlerts);
+            data = gather(cfg, r, now, daemon, live);
         } catch (HistoryException e) {
             System.err.println("byre: " + e.getMessage());
             return Main.FAILURE;
@@ -66,8 +66,12 @@ final class StatusCommand implements Callable<Integer> {
         return Main.OK;
     }
 
-    /** Collects what the screen shows; {@code liveAlerts} null means "read them from the state table". */
-    static StatusData gather(ByreConfig cfg, HistoryReader r, Instant now, StatusData.Daemon daemon, List<OpenAlert> liveAlerts) {
+    /**
+     * Collects what the screen shows. {@code live} is the daemon's answer (null when it did not answer): its values
+     * are newer than the database's (zone streams are stored once a minute), and its alerts replace the state table's.
+     */
+    static StatusData gather(ByreConfig cfg, HistoryReader r, Instant now, StatusData.Daemon daemon, AdminClient.Live live) {
+        List<OpenAlert> liveAlerts = live == null ? null : live.alerts();
         Map<String, HistoryRow> latest = new HashMap<>();
         for (HistoryRow row : r.latest()) latest.put(row.stream().toString(), row);
 
@@ -90,6 +94,9 @@ final class StatusCommand implements Callable<Integer> {
                     }
                     trends.put(q, cells);
                 }
+            }
+            if (live != null && live.values().containsKey(z.id())) {
+                live.values().get(z.id()).forEach((q, v) -> values.merge(q, v, (db, lv) -> lv.at().isBefore(db.at()) ? db : lv));
             }
             zones.add(new StatusData.Zone(z.id(), z.groups(), z.maxAge() == null ? DEFAULT_MAX_AGE : z.maxAge(), values, trends));
         }
