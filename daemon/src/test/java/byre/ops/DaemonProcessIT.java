@@ -96,12 +96,16 @@ class DaemonProcessIT {
     }
 
     static String run(Path dir, List<String> cmd) throws Exception {
-        Process p = new ProcessBuilder(cmd).redirectErrorStream(true).redirectInput(ProcessBuilder.Redirect.from(new java.io.File("/dev/null")))
-                .directory(dir.toFile()).start();
-        String out = new String(p.getInputStream().readAllBytes(), StandardCharsets.UTF_8);
-        assertTrue(p.waitFor(60, TimeUnit.SECONDS), "command did not finish: " + cmd);
-        assertEquals(0, p.exitValue(), "exit code of " + cmd + "\n" + out);
-        return out;
+        Path out = Files.createTempFile(dir, "cli", ".out");
+        Process p = new ProcessBuilder(cmd).redirectErrorStream(true).redirectOutput(out.toFile())
+                .redirectInput(ProcessBuilder.Redirect.from(new java.io.File("/dev/null"))).directory(dir.toFile()).start();
+        if (!p.waitFor(90, TimeUnit.SECONDS)) {
+            p.destroyForcibly().waitFor(10, TimeUnit.SECONDS);
+            throw new AssertionError("command did not finish in 90 s: " + cmd + "\n" + Files.readString(out));
+        }
+        String text = Files.readString(out, StandardCharsets.UTF_8);
+        assertEquals(0, p.exitValue(), "exit code of " + cmd + "\n" + text);
+        return text;
     }
 
     @AfterEach
@@ -150,7 +154,7 @@ class DaemonProcessIT {
         assertEquals(401, ack.statusCode());
 
         // The writer commits in batches of at most two seconds; then the CLI sees the rows while the daemon runs.
-        await().atMost(Duration.ofSeconds(20)).pollInterval(Duration.ofMillis(500)).until(() ->
+        await().atMost(Duration.ofSeconds(120)).pollInterval(Duration.ofMillis(500)).until(() ->
                 run(dir, java("history", "--config", cfg.toString(), "--sensor", "pen1-dry", "--csv")).lines().count() >= 6);
         String csv = run(dir, java("history", "--config", cfg.toString(), "--zone", "calf-pen-1", "--quantity", "dry-bulb", "--csv"));
         assertTrue(csv.startsWith("time,dry-bulb (degC)\r\n"), csv);
