@@ -11,9 +11,9 @@ import picocli.CommandLine.Command;
                 DemoCommand.class,
                 CheckCommand.class,
                 CalcCommand.class,
-                NotBuiltYet.Replay.class,
-                NotBuiltYet.Status.class,
-                NotBuiltYet.History.class,
+                ReplayCommand.class,
+                StatusCommand.class,
+                HistoryCommand.class,
                 AckCommand.class,
                 NotifyTestCommand.class,
         })

@@ -21,6 +21,16 @@ public final class Secret {
     }
 
     @Override
+    public boolean equals(Object o) {
+        return o instanceof Secret other && other.value.equals(value) && other.origin.equals(origin);
+    }
+
+    @Override
+    public int hashCode() {
+        return origin.hashCode();
+    }
+
+    @Override
     public String toString() {
         return "<secret from " + origin + ">";
     }

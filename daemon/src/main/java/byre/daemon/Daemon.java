@@ -216,6 +216,19 @@ public final class Daemon implements AutoCloseable {
         return pipeline == null ? 0 : pipeline.processed();
     }
 
+    // ---- hook for the admin API and the watchdog (byre.admin): a read-only snapshot, no side effects ----
+
+    /** The parts' health now; safe to call from any thread, also before start (then everything reads unhealthy). */
+    public HealthSnapshot health() {
+        MqttLink l = link;
+        HistoryWriter w = writer;
+        Pipeline p = pipeline;
+        return new HealthSnapshot(l != null && l.isConnected(), l == null ? "not started" : l.lastError(),
+                w != null && w.isHealthy(), w == null ? "not started" : w.lastError().orElse(""),
+                p == null ? Long.MAX_VALUE : (System.nanoTime() - p.lastProgressNanos()) / 1_000_000L,
+                p == null ? 0 : p.depth(), processed(), w == null ? 0 : w.queueDepth());
+    }
+
     /** Waits until everything received so far is committed to the history. */
     public boolean flush() {
         long deadline = System.nanoTime() + 10_000_000_000L;

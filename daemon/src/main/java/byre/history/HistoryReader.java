@@ -31,6 +31,57 @@ public final class HistoryReader implements AutoCloseable {
         this.conn = conn;
     }
 
+    /**
+     * Opens an existing history for reading only, without creating, migrating or writing anything (for
+     * {@code byre status} and {@code byre history} while the daemon runs, possibly as another user).
+     *
+     * @throws HistoryException when the file is missing, not readable, or not a byre history this build can read
+     */
+    public static HistoryReader openReadOnly(java.nio.file.Path file) {
+        java.nio.file.Path abs = file.toAbsolutePath();
+        if (!java.nio.file.Files.isRegularFile(abs)) {
+            throw new HistoryException("history " + abs + " does not exist yet (the daemon creates it on its first start)");
+        }
+        if (!java.nio.file.Files.isReadable(abs)) {
+            throw new HistoryException("history " + abs + " is not readable by this user; run as root or as a member of its group");
+        }
+        Connection c = null;
+        try {
+            c = HistoryStore.connect(abs, true, false);
+            int version;
+            int appId;
+            try (java.sql.Statement st = c.createStatement()) {
+                try (ResultSet rs = st.executeQuery("PRAGMA user_version")) { version = rs.next() ? rs.getInt(1) : 0; }
+                try (ResultSet rs = st.executeQuery("PRAGMA application_id")) { appId = rs.next() ? rs.getInt(1) : 0; }
+            }
+            if (appId != Migrations.APPLICATION_ID || version < 1) {
+                throw new HistoryException("history " + abs + " is not a byre history");
+            }
+            if (version > Migrations.latestVersion()) {
+                throw new HistoryException("history " + abs + " has schema version " + version + ", newer than this byre knows ("
+                    + Migrations.latestVersion() + "); use the byre that wrote it");
+            }
+            return new HistoryReader(c);
+        } catch (SQLException e) {
+            HistoryStore.closeQuietly(c);
+            throw new HistoryException("history " + abs + ": cannot open for reading: " + e.getMessage(), e);
+        } catch (RuntimeException e) {
+            HistoryStore.closeQuietly(c);
+            throw e;
+        }
+    }
+
+    /** Entries of the durable state table whose key starts with {@code prefix}, ordered by key. */
+    public java.util.Map<String, String> state(String prefix) {
+        String p = prefix == null ? "" : prefix;
+        java.util.Map<String, String> out = new java.util.LinkedHashMap<>();
+        query("state " + p + "*", "SELECT key, value FROM state WHERE substr(key, 1, ?) = ? ORDER BY key", ps -> {
+            ps.setInt(1, p.length());
+            ps.setString(2, p);
+        }, rs -> out.put(rs.getString(1), rs.getString(2)));
+        return out;
+    }
+
     /** Every stream ever written, sensors first, each ordered by name. */
     public List<StreamKey> streams() {
         List<StreamKey> out = new ArrayList<>();

@@ -1,0 +1,275 @@
+package byre.admin;
+
+import byre.config.Secret;
+import byre.json.Json;
+import byre.json.JsonWriter;
+import byre.rules.ZoneReading;
+import com.sun.net.httpserver.HttpExchange;
+import com.sun.net.httpserver.HttpServer;
+import java.io.IOException;
+import java.io.InputStream;
+import java.io.OutputStream;
+import java.net.InetSocketAddress;
+import java.nio.charset.StandardCharsets;
+import java.security.MessageDigest;
+import java.time.Clock;
+import java.time.Duration;
+import java.time.Instant;
+import java.util.Map;
+import java.util.concurrent.ExecutorService;
+import java.util.concurrent.Executors;
+import java.util.concurrent.atomic.AtomicInteger;
+import java.util.function.Supplier;
+import org.slf4j.Logger;
+import org.slf4j.LoggerFactory;
+
+/**
+ * The admin HTTP listener (loopback by default) on the JDK's own server:
+ * <ul>
+ * <li>{@code GET /metrics}: Prometheus text format;</li>
+ * <li>{@code GET /health}: 200 when healthy, else 503; JSON body listing what is not;</li>
+ * <li>{@code GET /status}: current zone values with their age, and open alerts when an {@link AlertSource} is set;</li>
+ * <li>{@code POST /ack}: body {@code {"incident":"…","by":"…"}}, needs {@code Authorization: Bearer <token>};
+ *     401 without it, 404 when no {@link AckHandler} is set or the incident is unknown.</li>
+ * </ul>
+ * Two worker threads and small request limits: it serves one operator and one scraper, never the internet.
+ * The token is compared in constant time and never logged.
+ */
+public final class AdminServer implements AutoCloseable {
+    private static final Logger LOG = LoggerFactory.getLogger(AdminServer.class);
+    /** Largest request body accepted ({@code /ack} needs a few dozen bytes). */
+    static final int MAX_BODY_BYTES = 4096;
+    static final String PROMETHEUS_TYPE = "text/plain; version=0.0.4; charset=utf-8";
+
+    private final HttpServer server;
+    private final ExecutorService pool;
+    private final byte[] token;
+    private final Supplier<String> metrics;
+    private final HealthMonitor health;
+    private final LiveValues values;
+    private final Clock clock;
+    private final String site;
+    private volatile AlertSource alerts;
+    private volatile AckHandler ack;
+
+    private AdminServer(HttpServer server, ExecutorService pool, Secret token, Supplier<String> metrics, HealthMonitor health,
+                        LiveValues values, Clock clock, String site) {
+        this.server = server;
+        this.pool = pool;
+        this.token = token == null ? null : token.reveal().strip().getBytes(StandardCharsets.UTF_8);
+        this.metrics = metrics;
+        this.health = health;
+        this.values = values;
+        this.clock = clock;
+        this.site = site;
+    }
+
+    /**
+     * Binds and starts the listener.
+     *
+     * @param token   the bearer token for {@code POST /ack}, or null (then every acknowledgement gets 401)
+     * @param metrics the Prometheus scrape, e.g. {@code registry::scrape}
+     * @throws IOException when the address cannot be bound (in use, not local)
+     */
+    public static AdminServer start(String host, int port, Secret token, Supplier<String> metrics, HealthMonitor health,
+                                    LiveValues values, Clock clock, String site) throws IOException {
+        // Bound the time a slow or idle client may hold one of the two workers (JDK server properties, seconds).
+        System.setProperty("sun.net.httpserver.maxReqTime", System.getProperty("sun.net.httpserver.maxReqTime", "10"));
+        System.setProperty("sun.net.httpserver.maxRspTime", System.getProperty("sun.net.httpserver.maxRspTime", "30"));
+        System.setProperty("sun.net.httpserver.maxReqHeaders", System.getProperty("sun.net.httpserver.maxReqHeaders", "40"));
+        HttpServer http = HttpServer.create(new InetSocketAddress(host, port), 16);
+        AtomicInteger n = new AtomicInteger();
+        ExecutorService pool = Executors.newFixedThreadPool(2, r -> {
+            Thread t = new Thread(r, "admin-http-" + n.incrementAndGet());
+            t.setDaemon(true);
+            return t;
+        });
+        AdminServer a = new AdminServer(http, pool, token, metrics, health, values, clock, site);
+        http.setExecutor(pool);
+        http.createContext("/", a::handle);
+        http.start();
+        LOG.info("admin API on http://{}:{}/ (metrics, health, status{})", host, a.port(), token == null ? "; no token-file: /ack disabled" : ", ack");
+        return a;
+    }
+
+    /** The bound port (useful when started on port 0 in tests). */
+    public int port() {
+        return server.getAddress().getPort();
+    }
+
+    /** Plugs in the open alerts for {@code /status}; null for none. */
+    public void setAlertSource(AlertSource source) {
+        this.alerts = source;
+    }
+
+    /** Plugs in acknowledgements for {@code POST /ack}; null answers 404. */
+    public void setAckHandler(AckHandler handler) {
+        this.ack = handler;
+    }
+
+    private void handle(HttpExchange ex) throws IOException {
+        try (ex) {
+            String path = ex.getRequestURI().getPath();
+            String method = ex.getRequestMethod();
+            switch (path) {
+                case "/metrics" -> {
+                    if (requireGet(ex, method)) send(ex, 200, PROMETHEUS_TYPE, metrics.get());
+                }
+                case "/health" -> {
+                    if (requireGet(ex, method)) {
+                        Health h = health.check();
+                        send(ex, h.healthy() ? 200 : 503, "application/json", h.toJson());
+                    }
+                }
+                case "/status" -> {
+                    if (requireGet(ex, method)) send(ex, 200, "application/json", statusJson());
+                }
+                case "/ack" -> ack(ex, method);
+                default -> send(ex, 404, "application/json", error("no such endpoint; try /metrics, /health, /status or POST /ack"));
+            }
+        } catch (RuntimeException e) {
+            LOG.warn("admin API {} {} failed: {}", ex.getRequestMethod(), ex.getRequestURI().getPath(), e.toString());
+            try {
+                send(ex, 500, "application/json", error("internal error: " + e.getClass().getSimpleName()));
+            } catch (IOException | RuntimeException ignored) {
+                // the response may already have started
+            }
+        }
+    }
+
+    private static boolean requireGet(HttpExchange ex, String method) throws IOException {
+        if (method.equals("GET") || method.equals("HEAD")) return true;
+        ex.getResponseHeaders().set("Allow", "GET, HEAD");
+        send(ex, 405, "application/json", error("use GET"));
+        return false;
+    }
+
+    private void ack(HttpExchange ex, String method) throws IOException {
+        if (!method.equals("POST")) {
+            ex.getResponseHeaders().set("Allow", "POST");
+            send(ex, 405, "application/json", error("use POST"));
+            return;
+        }
+        if (!authorised(ex.getRequestHeaders().getFirst("Authorization"))) {
+            ex.getResponseHeaders().set("WWW-Authenticate", "Bearer");
+            send(ex, 401, "application/json", error(token == null
+                    ? "acknowledgement over HTTP is off: set admin.token-file"
+                    : "missing or wrong bearer token (see admin.token-file)"));
+            return;
+        }
+        byte[] body = readLimited(ex.getRequestBody());
+        if (body == null) {
+            send(ex, 413, "application/json", error("request body over " + MAX_BODY_BYTES + " bytes"));
+            return;
+        }
+        AckHandler h = ack;
+        if (h == null) {
+            send(ex, 404, "application/json", error("acknowledgements are not available in this version"));
+            return;
+        }
+        String incident;
+        String by;
+        try {
+            Object o = Json.parse(new String(body, StandardCharsets.UTF_8));
+            if (!(o instanceof Map<?, ?> m) || !(m.get("incident") instanceof String i) || i.isBlank()) {
+                send(ex, 400, "application/json", error("body must be {\"incident\":\"...\",\"by\":\"...\"}"));
+                return;
+            }
+            incident = i.strip();
+            by = m.get("by") instanceof String b && !b.isBlank() ? b.strip() : "admin-api";
+        } catch (Json.JsonException e) {
+            send(ex, 400, "application/json", error("body is not JSON: " + e.getMessage()));
+            return;
+        }
+        if (incident.length() > 200 || by.length() > 200) {
+            send(ex, 400, "application/json", error("incident and by are limited to 200 characters"));
+            return;
+        }
+        AckHandler.Result r = h.acknowledge(incident, by);
+        int code = switch (r.outcome()) {
+            case ACKNOWLEDGED, ALREADY_ACKNOWLEDGED -> 200;
+            case UNKNOWN_INCIDENT -> 404;
+            case FAILED -> 503;
+        };
+        LOG.info("acknowledgement of {} by {} over HTTP: {}", incident, by, r.outcome());
+        send(ex, code, "application/json", new JsonWriter().field("outcome", r.outcome().name().toLowerCase().replace('_', '-'))
+                .field("message", r.message()) + "\n");
+    }
+
+    private boolean authorised(String header) {
+        if (token == null || token.length == 0 || header == null || !header.startsWith("Bearer ")) return false;
+        byte[] given = header.substring("Bearer ".length()).strip().getBytes(StandardCharsets.UTF_8);
+        return MessageDigest.isEqual(given, token);
+    }
+
+    /** The body, or null when it is longer than {@link #MAX_BODY_BYTES}. */
+    private static byte[] readLimited(InputStream in) throws IOException {
+        byte[] all = in.readNBytes(MAX_BODY_BYTES + 1);
+        return all.length > MAX_BODY_BYTES ? null : all;
+    }
+
+    /** {@code {"site":…,"at":…,"zones":{zone:{quantity:{value,unit,at,age}}},"alerts":[…]|null}}; age in seconds. */
+    String statusJson() {
+        Instant now = clock.instant();
+        StringBuilder zones = new StringBuilder("{");
+        String current = null;
+        for (ZoneReading r : values.snapshot()) {
+            if (!r.zone().equals(current)) {
+                if (current != null) zones.append("},");
+                current = r.zone();
+                JsonWriter.quote(zones, current);
+                zones.append(":{");
+            } else {
+                zones.append(',');
+            }
+            JsonWriter.quote(zones, r.quantity().id());
+            zones.append(':').append(new JsonWriter().field("value", r.value()).field("unit", r.quantity().canonicalUnit().symbol())
+                    .field("at", r.at().toString()).field("age", Math.max(0, Duration.between(r.at(), now).toSeconds())));
+        }
+        if (current != null) zones.append('}');
+        zones.append('}');
+        AlertSource a = alerts;
+        String alertJson = "null";
+        if (a != null) {
+            StringBuilder arr = new StringBuilder("[");
+            for (OpenAlert o : a.openAlerts()) {
+                if (arr.length() > 1) arr.append(',');
+                arr.append(alertJson(o));
+            }
+            alertJson = arr.append(']').toString();
+        }
+        return new JsonWriter().field("site", site).field("at", now.toString()).raw("zones", zones.toString())
+                .raw("alerts", alertJson) + "\n";
+    }
+
+    static String alertJson(OpenAlert o) {
+        return new JsonWriter().field("incident", o.incident()).field("watch", o.watch()).field("zone", o.zone())
+                .field("level", o.level()).field("quantity", o.quantity()).field("value", o.value())
+                .field("since", o.since() == null ? null : o.since().toString())
+                .field("acknowledged-by", o.acknowledgedBy())
+                .field("acknowledged-at", o.acknowledgedAt() == null ? null : o.acknowledgedAt().toString()).toString();
+    }
+
+    private static String error(String message) {
+        return new JsonWriter().field("error", message) + "\n";
+    }
+
+    private static void send(HttpExchange ex, int code, String type, String body) throws IOException {
+        byte[] bytes = body.getBytes(StandardCharsets.UTF_8);
+        ex.getResponseHeaders().set("Content-Type", type);
+        ex.getResponseHeaders().set("Cache-Control", "no-store");
+        boolean head = ex.getRequestMethod().equals("HEAD");
+        ex.sendResponseHeaders(code, head ? -1 : bytes.length);
+        if (!head) {
+            try (OutputStream os = ex.getResponseBody()) {
+                os.write(bytes);
+            }
+        }
+    }
+
+    @Override
+    public void close() {
+        server.stop(1);
+        pool.shutdownNow();
+    }
+}

@@ -1,0 +1,21 @@
+package byre.admin;
+
+import byre.json.JsonWriter;
+import java.util.List;
+
+/** The verdict of {@link HealthMonitor}: healthy, or the list of what is not, in words an operator can act on. */
+public record Health(boolean healthy, List<String> problems) {
+    public Health {
+        problems = List.copyOf(problems);
+    }
+
+    /** {@code {"healthy":false,"problems":["..."]}}. */
+    public String toJson() {
+        StringBuilder arr = new StringBuilder("[");
+        for (String p : problems) {
+            if (arr.length() > 1) arr.append(',');
+            JsonWriter.quote(arr, p);
+        }
+        return new JsonWriter().field("healthy", healthy).raw("problems", arr.append(']').toString()) + "\n";
+    }
+}

@@ -1,0 +1,30 @@
+package byre.cli;
+
+/** Draws a series as one line of Unicode block characters, lowest value ▁, highest █; a gap (NaN) is a space. */
+final class Sparkline {
+    static final String BLOCKS = "▁▂▃▄▅▆▇█";
+
+    private Sparkline() {}
+
+    static String draw(double[] values) {
+        double lo = Double.POSITIVE_INFINITY;
+        double hi = Double.NEGATIVE_INFINITY;
+        for (double v : values) {
+            if (Double.isNaN(v)) continue;
+            lo = Math.min(lo, v);
+            hi = Math.max(hi, v);
+        }
+        StringBuilder sb = new StringBuilder(values.length);
+        for (double v : values) {
+            if (Double.isNaN(v)) {
+                sb.append(' ');
+            } else if (hi - lo < 1e-9) {
+                sb.append(BLOCKS.charAt(3)); // a flat line sits mid-height
+            } else {
+                int i = (int) Math.round((v - lo) / (hi - lo) * (BLOCKS.length() - 1));
+                sb.append(BLOCKS.charAt(i));
+            }
+        }
+        return sb.toString();
+    }
+}
