@@ -1,0 +1,96 @@
+package byre.cli;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import java.io.ByteArrayOutputStream;
+import java.io.PrintStream;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.time.Instant;
+import java.util.List;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+
+/** {@code byre replay} as an operator uses it: rules + a readings CSV in, events out, in order with times. */
+class ReplayCommandTest {
+    @TempDir
+    Path dir;
+
+    static final String HEAT = """
+            watch heat-stress
+              raise when cows.thi >= 72 for 30m
+              clear when cows.thi <= 70 for 20m
+              level warning
+              notify night-phone
+              remind every 2h
+              escalate after 45m to office
+              message "Heat stress in {zone}: THI {value}. Check fans and water."
+            """;
+
+    record Run(int code, String out, String err) {}
+
+    Run run(String... args) {
+        PrintStream oldOut = System.out;
+        PrintStream oldErr = System.err;
+        ByteArrayOutputStream out = new ByteArrayOutputStream();
+        ByteArrayOutputStream err = new ByteArrayOutputStream();
+        System.setOut(new PrintStream(out, true, StandardCharsets.UTF_8));
+        System.setErr(new PrintStream(err, true, StandardCharsets.UTF_8));
+        try {
+            int code = Main.execute(args);
+            return new Run(code, out.toString(StandardCharsets.UTF_8), err.toString(StandardCharsets.UTF_8));
+        } finally {
+            System.setOut(oldOut);
+            System.setErr(oldErr);
+        }
+    }
+
+    /** THI 65 rising to 75 by 13:00 UTC, holding until 16:00, falling to 65 by 18:00; a reading a minute. */
+    Path afternoon() throws Exception {
+        StringBuilder sb = new StringBuilder("time,zone,quantity,value,unit\n");
+        Instant t0 = Instant.parse("2026-07-14T10:00:00Z");
+        for (int m = 0; m <= 8 * 60; m++) {
+            double thi = m < 180 ? 65 + m * 10.0 / 180 : m < 360 ? 75 : 75 - (m - 360) * 10.0 / 120;
+            sb.append(t0.plusSeconds(60L * m)).append(",cows,thi,").append(String.format(java.util.Locale.ROOT, "%.2f", thi)).append(",\n");
+        }
+        Path csv = dir.resolve("july.csv");
+        Files.writeString(csv, sb.toString());
+        return csv;
+    }
+
+    @Test
+    void printsTheEventsInOrderWithTheirTimes() throws Exception {
+        Path rules = Files.writeString(dir.resolve("heat.rules"), HEAT);
+        Run r = run("replay", "--rules", rules.toString(), "--readings", afternoon().toString(), "--json");
+        assertEquals(0, r.code(), r.err());
+        List<String> lines = r.out().lines().toList();
+        // THI reaches 72 at 12:06 (65 + 126 * 10/180 = 72.0): raised 30 min later at 12:36.
+        assertTrue(lines.get(0).contains("\"event\":\"raised\"") && lines.get(0).contains("\"at\":\"2026-07-14T12:36:00Z\""), lines.get(0));
+        // Nobody acknowledges: escalated to the office 45 min after raising.
+        assertTrue(lines.get(1).contains("\"event\":\"escalated\"") && lines.get(1).contains("\"at\":\"2026-07-14T13:21:00Z\""), lines.get(1));
+        // Reminder every 2 h after the raise.
+        assertTrue(lines.get(2).contains("\"event\":\"reminder\"") && lines.get(2).contains("\"at\":\"2026-07-14T14:36:00Z\""), lines.get(2));
+        // THI falls to 70 at 16:30 (75 - 30 * 10/120 = 72.5 ... 70 at 17:00): cleared 20 min later.
+        String last = lines.get(lines.size() - 1);
+        assertTrue(last.contains("\"event\":\"cleared\"") && last.contains("\"at\":\"2026-07-14T17:20:00Z\""), last);
+    }
+
+    @Test
+    void badReadingsAndRulesAreUsageErrorsWithPositions() throws Exception {
+        Path rules = Files.writeString(dir.resolve("heat.rules"), HEAT);
+        Path csv = Files.writeString(dir.resolve("bad.csv"), "time,zone,quantity,value,unit\n2026-07-14T10:00:00Z,cows,thj,70,\nyesterday,cows,thi,70,\n");
+        Run r = run("replay", "--rules", rules.toString(), "--readings", csv.toString());
+        assertEquals(Main.USAGE, r.code());
+        assertTrue(r.err().contains(csv + ":2:27: unknown quantity 'thj' (did you mean 'thi'?)"), r.err());
+        assertTrue(r.err().contains(csv + ":3:1: not a time: 'yesterday'"), r.err());
+
+        Path badRules = Files.writeString(dir.resolve("bad.rules"), "watch w\n  raise when cows.thi >= 72 fr 30m\n");
+        Run r2 = run("replay", "--rules", badRules.toString(), "--readings", afternoon().toString());
+        assertEquals(Main.USAGE, r2.code());
+        assertTrue(r2.err().contains("bad.rules:2:"), r2.err());
+
+        assertEquals(Main.USAGE, run("replay", "--rules", rules.toString()).code(), "neither --readings nor --from");
+    }
+}
