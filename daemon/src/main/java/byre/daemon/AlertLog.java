@@ -39,7 +39,11 @@ final class AlertLog implements WatchStage.Outcomes {
     private final Deque<NightDigest.IncidentSpan> episodes = new ArrayDeque<>();
     private Instant nextTick = Instant.MIN;
 
-    AlertLog(AlertService alerts, MqttLink link, String prefix, String site, ZoneId zone, Consumer<String> console) {
+    private final io.micrometer.core.instrument.MeterRegistry registry;
+
+    AlertLog(AlertService alerts, MqttLink link, String prefix, String site, ZoneId zone, Consumer<String> console,
+             io.micrometer.core.instrument.MeterRegistry registry) {
+        this.registry = registry;
         this.alerts = alerts;
         this.link = link;
         this.base = prefix + "/" + site + "/alerts/";
@@ -62,6 +66,7 @@ final class AlertLog implements WatchStage.Outcomes {
                         watch.escalateTo());
         WatchOutcome outcome = new WatchOutcome(t.kind() == Transition.Kind.RAISED ? WatchOutcome.Kind.RAISED : WatchOutcome.Kind.CLEARED,
                 t.watch(), t.zone(), t.level().id(), t.quantity(), t.value(), t.unit(), t.since(), t.at(), t.message(), policy);
+        registry.counter("byre.watch.transitions", "kind", t.kind().event()).increment();
         for (AlertEvent e : alerts.accept(outcome)) {
             if (e.watch() != null && e.zone() != null) link.publish(base + e.watch() + "/" + e.zone(), e.toJson(), 1, true);
         }

@@ -110,7 +110,7 @@ public final class Daemon implements AutoCloseable {
             });
             alerts = byre.notify.AlertServices.create(config, store, link, registry, clock);
             link.subscribe(alerts.ackTopic(), alerts::onAckMessage);
-            AlertLog alertLog = new AlertLog(alerts, link, config.mqtt().publishPrefix(), config.site(), config.timezone(), alertConsole);
+            AlertLog alertLog = new AlertLog(alerts, link, config.mqtt().publishPrefix(), config.site(), config.timezone(), alertConsole, registry);
             if (config.alerts().digestAt() != null) {
                 String last = store.loadState(byre.notify.AlertService.DIGEST_KEY).get(byre.notify.AlertService.DIGEST_KEY);
                 alerts.scheduleDigest(config.alerts().digestAt(), config.timezone(), config.alerts().digestNotify(), config.site(),
@@ -119,6 +119,11 @@ public final class Daemon implements AutoCloseable {
             }
             watches = new WatchStage(ruleSet, store, config.timezone(), alertLog, clock.instant());
             pipeline.addListener(watches);
+            for (byre.rules.eval.AlertState st : byre.rules.eval.AlertState.values()) {
+                if (st == byre.rules.eval.AlertState.CLEAR) continue;
+                Gauge.builder("byre.watches", watches, w -> w.openCount(st)).tag("state", st.name().toLowerCase())
+                        .description("Watch instances by state (clear ones are not counted)").register(registry);
+            }
             pipeline.addListener(new SelfWatch(writer, alerts));
             pipeline.addListener(new Pipeline.ZoneListener() {
                 private java.time.Instant nextCheck = java.time.Instant.MIN;

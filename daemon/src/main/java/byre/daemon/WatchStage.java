@@ -43,6 +43,7 @@ public final class WatchStage implements Pipeline.ZoneListener {
     private WatchEngine engine;
     private Map<String, String> lastSaved = Map.of();
     private Instant lastSave = Instant.MIN;
+    private volatile int[] openCounts = new int[byre.rules.eval.AlertState.values().length];
 
     public WatchStage(RuleSet rules, HistoryStore store, ZoneId siteZone, Outcomes outcomes, Instant now) {
         this.store = store;
@@ -79,6 +80,11 @@ public final class WatchStage implements Pipeline.ZoneListener {
         LOG.info("rules reloaded: {} watches", rules.watches().size());
     }
 
+    /** Instances in a state, for the metrics; read on other threads, so a small race is harmless. */
+    public int openCount(byre.rules.eval.AlertState state) {
+        return openCounts[state.ordinal()];
+    }
+
     public WatchEngine engine() {
         return engine;
     }
@@ -106,9 +112,16 @@ public final class WatchStage implements Pipeline.ZoneListener {
         save(now, !transitions.isEmpty());
     }
 
+    private void countStates() {
+        int[] c = new int[byre.rules.eval.AlertState.values().length];
+        for (byre.rules.eval.InstanceState i : engine.openInstances()) c[i.state().ordinal()]++;
+        openCounts = c;
+    }
+
     /** Stores the state when an alert changed, and at most once a minute for running holds. */
     private void save(Instant now, boolean force) {
         if (!force && now.isBefore(lastSave.plusSeconds(60)) && !now.isBefore(lastSave)) return;
+        countStates();
         Map<String, String> snap = engine.snapshot();
         if (!force && Objects.equals(snap, lastSaved)) return;
         StringBuilder sb = new StringBuilder();
