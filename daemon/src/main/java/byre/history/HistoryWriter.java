@@ -53,7 +53,8 @@ public final class HistoryWriter implements AutoCloseable {
 
     /** Tuning of the writer. {@link #DEFAULT} fits a barn (tens of sensors) with room for bursts. */
     public record Settings(int batchRows, Duration maxBatchDelay, int queueCapacity, Duration appendTimeout,
-                           int backlogLimit, Duration retentionEvery, int retentionStepRows, Duration maxRetryDelay) {
+                           int backlogLimit, Duration retentionEvery, int retentionStepRows, Duration maxRetryDelay,
+                           boolean firstBatchAtOnce) {
 
         /**
          * 1000 rows or 2 s per batch; a 20,000-row queue (about 20 s of a 1000 rows/s burst) with a 1 s append
@@ -61,7 +62,7 @@ public final class HistoryWriter implements AutoCloseable {
          * a retention round every 10 minutes in steps of 5000 rows; retries up to every 30 s.
          */
         public static final Settings DEFAULT = new Settings(1000, Duration.ofSeconds(2), 20_000, Duration.ofSeconds(1),
-            200_000, Duration.ofMinutes(10), 5000, Duration.ofSeconds(30));
+            200_000, Duration.ofMinutes(10), 5000, Duration.ofSeconds(30), true);
 
         public Settings {
             if (batchRows < 1) throw new IllegalArgumentException("history batch rows must be at least 1, got " + batchRows);
@@ -81,19 +82,19 @@ public final class HistoryWriter implements AutoCloseable {
         }
 
         public Settings withBatch(int rows, Duration maxDelay) {
-            return new Settings(rows, maxDelay, queueCapacity, appendTimeout, Math.max(backlogLimit, rows), retentionEvery, retentionStepRows, maxRetryDelay);
+            return new Settings(rows, maxDelay, queueCapacity, appendTimeout, Math.max(backlogLimit, rows), retentionEvery, retentionStepRows, maxRetryDelay, false);
         }
 
         public Settings withBacklogLimit(int rows) {
-            return new Settings(batchRows, maxBatchDelay, queueCapacity, appendTimeout, rows, retentionEvery, retentionStepRows, maxRetryDelay);
+            return new Settings(batchRows, maxBatchDelay, queueCapacity, appendTimeout, rows, retentionEvery, retentionStepRows, maxRetryDelay, firstBatchAtOnce);
         }
 
         public Settings withRetention(Duration every, int stepRows) {
-            return new Settings(batchRows, maxBatchDelay, queueCapacity, appendTimeout, backlogLimit, every, stepRows, maxRetryDelay);
+            return new Settings(batchRows, maxBatchDelay, queueCapacity, appendTimeout, backlogLimit, every, stepRows, maxRetryDelay, firstBatchAtOnce);
         }
 
         public Settings withMaxRetryDelay(Duration d) {
-            return new Settings(batchRows, maxBatchDelay, queueCapacity, appendTimeout, backlogLimit, retentionEvery, retentionStepRows, d);
+            return new Settings(batchRows, maxBatchDelay, queueCapacity, appendTimeout, backlogLimit, retentionEvery, retentionStepRows, d, firstBatchAtOnce);
         }
     }
 
@@ -358,8 +359,10 @@ public final class HistoryWriter implements AutoCloseable {
     private long waitNanos() {
         long now = System.nanoTime();
         if (!backlog.isEmpty()) {
+            // The very first batch goes at once: an installer watching the log sees the first stored
+            // reading within a second of start, not after a batch delay.
             long due = !healthy ? nextRetryNanos
-                : (!markers.isEmpty() || stop || backlog.size() >= settings.batchRows()) ? now
+                : (!markers.isEmpty() || stop || backlog.size() >= settings.batchRows() || firstBatchNow()) ? now
                 : firstPendingNanos + settings.maxBatchDelay().toNanos();
             return Math.max(0, due - now);
         }
@@ -367,9 +370,14 @@ public final class HistoryWriter implements AutoCloseable {
         return Math.max(0, Math.min(nextRetentionNanos - now, TimeUnit.SECONDS.toNanos(1)));
     }
 
+    /** DEFAULT commits the very first batch at once; explicit batching ({@code withBatch}) does not. */
+    private boolean firstBatchNow() {
+        return settings.firstBatchAtOnce() && batches == 0;
+    }
+
     private boolean commitDue(long now) {
         if (backlog.isEmpty() || now < nextRetryNanos) return false;
-        return backlog.size() >= settings.batchRows() || !markers.isEmpty() || stop
+        return backlog.size() >= settings.batchRows() || !markers.isEmpty() || stop || firstBatchNow()
             || now - firstPendingNanos >= settings.maxBatchDelay().toNanos();
     }
 

@@ -41,7 +41,7 @@ class HistoryWriterTest {
 
     @Test
     void writesAndReadsBack() {
-        start(HistoryWriter.Settings.DEFAULT);
+        start(HistoryWriter.Settings.DEFAULT.withBatch(1000, Duration.ofSeconds(2)));
         assertTrue(writer.append(PEN1_DRY, T0, 21.5));
         assertTrue(writer.append(PEN1_DRY, T0.plusSeconds(10), 21.75));
         assertTrue(writer.append(new ZoneReading(T0.plusSeconds(10), "cows", COWS_THI.quantity().orElseThrow(), 71.2)));
@@ -58,6 +58,14 @@ class HistoryWriterTest {
         assertEquals(1, writer.batches());
         assertEquals(3, writer.lastBatchRows());
         assertTrue(writer.databaseSizeBytes() > 0);
+    }
+
+    @Test
+    void theFirstBatchGoesAtOnceByDefault() {
+        start(HistoryWriter.Settings.DEFAULT);
+        writer.append(PEN1_DRY, T0, 1.0);
+        // No flush, no 2 s wait: the first stored reading shows at once after start.
+        await().atMost(Duration.ofMillis(1500)).until(() -> writer.rowsWritten() == 1);
     }
 
     @Test
