@@ -7,4 +7,4 @@ cd "$(dirname "$0")/../../../.."
 mvn -q -B -o -pl daemon -am test-compile dependency:build-classpath \
     -Dmdep.outputFile=target/bench.classpath -Dmdep.includeScope=test
 CP="daemon/target/test-classes:daemon/target/classes:$(cat daemon/target/bench.classpath)"
-exec java -Xmx512m -cp "$CP" byre.bench.IngestBench "$@"
+exec java -Xmx512m ${BENCH_JVM:+"-Dbyre.bench.jvm=$BENCH_JVM"} -cp "$CP" byre.bench.IngestBench "$@"

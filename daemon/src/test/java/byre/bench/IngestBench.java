@@ -71,7 +71,9 @@ public final class IngestBench {
                         LoadConfig.payload(0, 0, System.currentTimeMillis() - 10_000, ZONES).getBytes(StandardCharsets.UTF_8), 1, true);
                 c.disconnect();
             }
-            ByreProcess byre = ByreProcess.launch(config, List.of());
+            // -Dbyre.bench.jvm="-XX:StartFlightRecording=filename=/tmp/byre.jfr" profiles byre during the run
+            String extra = System.getProperty("byre.bench.jvm", "").trim();
+            ByreProcess byre = ByreProcess.launch(config, extra.isEmpty() ? List.of() : List.of(extra.split("\\s+")));
             try {
                 long connectedMs = -1, firstRowMs = -1;
                 long deadline = System.nanoTime() + Duration.ofSeconds(30).toNanos();
