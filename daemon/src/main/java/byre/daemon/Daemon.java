@@ -282,9 +282,13 @@ public final class Daemon implements AutoCloseable {
             warnings.warn("skip:" + zone + why, "zone " + zone + ": " + why);
         }
 
+        /** Looked up once per zone: derived() runs for every reading. */
+        private final java.util.Map<String, Counter> derivations = new java.util.concurrent.ConcurrentHashMap<>();
+
         @Override
         public void derived(String zone) {
-            Counter.builder("byre.derivations").tag("zone", zone).description("Zone derivations").register(registry).increment();
+            derivations.computeIfAbsent(zone, z -> Counter.builder("byre.derivations").tag("zone", z).description("Zone derivations")
+                    .register(registry)).increment();
         }
     }
 

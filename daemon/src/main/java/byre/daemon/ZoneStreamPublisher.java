@@ -3,6 +3,7 @@ package byre.daemon;
 import byre.json.JsonWriter;
 import byre.mqtt.MqttLink;
 import byre.rules.ZoneReading;
+import byre.units.Quantity;
 import java.util.Map;
 import java.util.concurrent.ConcurrentHashMap;
 
@@ -14,34 +15,47 @@ import java.util.concurrent.ConcurrentHashMap;
 final class ZoneStreamPublisher {
     private final MqttLink link;
     private final String base;
-    private final Map<String, String> pending = new ConcurrentHashMap<>();
+    private final Map<String, ZoneReading> pending = new ConcurrentHashMap<>();
     private final Map<String, String> lastSent = new ConcurrentHashMap<>();
+    /** Topic per zone and quantity, built once: offer runs for every derived value of every reading. */
+    private final Map<String, Map<Quantity, String>> topics = new ConcurrentHashMap<>();
 
     ZoneStreamPublisher(MqttLink link, String prefix, String site) {
         this.link = link;
         this.base = prefix + "/" + site + "/zones/";
     }
 
+    /** Keeps the newest value per stream; the JSON is made at flush, once per stream and second at most. */
     void offer(ZoneReading r) {
-        String json = new JsonWriter()
+        String topic = topics.computeIfAbsent(r.zone(), z -> new ConcurrentHashMap<>())
+                .computeIfAbsent(r.quantity(), q -> base + r.zone() + "/" + q.id());
+        pending.put(topic, r);
+    }
+
+    static String json(ZoneReading r) {
+        return new JsonWriter()
                 .field("value", Math.round(r.value() * 100.0) / 100.0)
                 .field("unit", r.quantity().canonicalUnit().symbol())
                 .field("at", r.at().toString())
                 .toString();
-        pending.put(base + r.zone() + "/" + r.quantity().id(), json);
     }
 
     /** Sends what changed since the last flush; on reconnect, {@link #republishAll()} sends everything. */
     void flush() {
         if (!link.isConnected()) return;
         for (String topic : pending.keySet()) {
-            String json = pending.remove(topic);
-            if (json != null && link.publish(topic, json, 1, true)) lastSent.put(topic, json);
+            ZoneReading r = pending.remove(topic);
+            if (r == null) continue;
+            String json = json(r);
+            if (link.publish(topic, json, 1, true)) lastSent.put(topic, json);
         }
     }
 
     void republishAll() {
-        lastSent.forEach((topic, json) -> pending.putIfAbsent(topic, json));
+        if (!link.isConnected()) return;
+        lastSent.forEach((topic, json) -> {
+            if (!pending.containsKey(topic)) link.publish(topic, json, 1, true);
+        });
         flush();
     }
 }

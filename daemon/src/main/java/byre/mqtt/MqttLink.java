@@ -44,6 +44,8 @@ public final class MqttLink implements AutoCloseable {
     private final MqttSettings settings;
     private final String statusTopic;
     private final Map<String, BiConsumer<String, byte[]>> subscriptions = new ConcurrentHashMap<>();
+    /** Filters with wildcards, split into levels once: matching a message must not split every filter again. */
+    private final List<Map.Entry<String[], BiConsumer<String, byte[]>>> wildcardFilters = new java.util.concurrent.CopyOnWriteArrayList<>();
     private final List<Runnable> onConnect = new ArrayList<>();
     private final List<Runnable> onConnecting = new ArrayList<>();
     private final MqttAsyncClient client;
@@ -70,6 +72,7 @@ public final class MqttLink implements AutoCloseable {
     /** Adds a subscription (before {@link #start()}); the handler runs on the client's callback thread. */
     public void subscribe(String filter, BiConsumer<String, byte[]> handler) {
         subscriptions.put(filter, handler);
+        if (filter.contains("+") || filter.contains("#")) wildcardFilters.add(Map.entry(filter.split("/", -1), handler));
     }
 
     /** Runs after every (re)connection, e.g. to republish retained state. */
@@ -287,15 +290,22 @@ public final class MqttLink implements AutoCloseable {
 
         @Override
         public void messageArrived(String topic, MqttMessage message) {
-            for (Map.Entry<String, BiConsumer<String, byte[]>> s : subscriptions.entrySet()) {
-                if (byre.ingest.TopicRouter.matches(s.getKey().split("/", -1), topic.split("/", -1))) {
-                    try {
-                        s.getValue().accept(topic, message.getPayload());
-                    } catch (RuntimeException e) {
-                        LOG.error("handler for {} failed on a message: {}", topic, e.toString(), e);
+            // A topic never holds a wildcard, so a filter equal to it is an exact subscription: one hash lookup.
+            BiConsumer<String, byte[]> handler = subscriptions.get(topic);
+            if (handler == null && !wildcardFilters.isEmpty()) {
+                String[] levels = topic.split("/", -1);
+                for (Map.Entry<String[], BiConsumer<String, byte[]>> f : wildcardFilters) {
+                    if (byre.ingest.TopicRouter.matches(f.getKey(), levels)) {
+                        handler = f.getValue();
+                        break;
                     }
-                    return;
                 }
+            }
+            if (handler == null) return;
+            try {
+                handler.accept(topic, message.getPayload());
+            } catch (RuntimeException e) {
+                LOG.error("handler for {} failed on a message: {}", topic, e.toString(), e);
             }
         }
 

@@ -31,12 +31,25 @@ public final class Mosquitto implements AutoCloseable {
 
     /** Starts on a given port (used to restart a broker on the same address). */
     public static Mosquitto start(int port) throws IOException, InterruptedException {
+        return start(port, null);
+    }
+
+    /**
+     * Starts on a given port; with a {@code stateDir}, the broker keeps sessions, queued messages and retained
+     * messages in a file there, saved after every change, so that they survive a crash and a restart with the
+     * same folder (the folder is not removed by {@link #close()}).
+     */
+    public static Mosquitto start(int port, Path stateDir) throws IOException, InterruptedException {
         Path dir = Files.createTempDirectory("byre-mosquitto");
         Path conf = dir.resolve("mosquitto.conf");
+        String persistence = stateDir == null ? "persistence false"
+                : "persistence true\npersistence_location " + stateDir.toAbsolutePath() + "/\nautosave_interval 1\nautosave_on_changes true"
+                // run as root, mosquitto would switch to user 'mosquitto', which cannot write the test's folder
+                + "\nuser " + System.getProperty("user.name");
         Files.writeString(conf, String.join("\n",
                 "listener " + port + " 127.0.0.1",
                 "allow_anonymous true",
-                "persistence false",
+                persistence,
                 "max_queued_messages 0",
                 "max_queued_bytes 0",
                 "max_inflight_messages 0",

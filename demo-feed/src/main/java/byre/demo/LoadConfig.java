@@ -9,7 +9,8 @@ import java.util.Locale;
  *
  * <p>Sensor {@code i} (0-based) of M is {@code s0001 ..} ({@link #sensorId}), lives in zone
  * {@code i % Z} ({@code z01 ..}), and publishes on {@code <prefix>/<zone>/<sensor>} a JSON
- * payload {@code {"v":21.37,"ts":1778583600}} read with {@code payload: "json:v"}. Within a zone
+ * payload {@code {"v":21.37,"ts":1778583600123}} (epoch milliseconds, distinct per sensor, so every reading
+ * is its own history row) read with {@code payload: "json:v"} and {@code time: "json:ts"}. Within a zone
  * the sensors cycle through dry-bulb (C), rh (%) and air-speed (m/s), so a zone with three
  * sensors derives the full set of indices that need no wet bulb; a zone with more than three
  * repeats those quantities.
@@ -38,7 +39,7 @@ public final class LoadConfig {
     }
 
     /** A plausible reading for sensor {@code index}, message number {@code n}: two decimals, varying slowly. */
-    public static String payload(int index, long n, long epochSecond, int zones) {
+    public static String payload(int index, long n, long epochMillis, int zones) {
         double wobble = Math.sin((n + index * 7L) / 50.0);
         double v;
         switch ((index / zones) % QUANTITIES.length) {
@@ -46,7 +47,7 @@ public final class LoadConfig {
             case 1: v = 60.0 + 8.0 * wobble; break;
             default: v = 1.0 + 0.4 * wobble; break;
         }
-        return "{\"v\":" + String.format(Locale.ROOT, "%.2f", v) + ",\"ts\":" + epochSecond + "}";
+        return "{\"v\":" + String.format(Locale.ROOT, "%.2f", v) + ",\"ts\":" + epochMillis + "}";
     }
 
     /** Configuration with defaults: topic prefix {@code load}, rules {@code rules.d}, history {@code load-history.db}. */
@@ -74,7 +75,7 @@ public final class LoadConfig {
             int q = (i / zones) % QUANTITIES.length;
             y.append("  ").append(sensorId(i, sensors)).append(": { topic: ").append(topic(topicPrefix, i, sensors, zones))
                     .append(", quantity: ").append(QUANTITIES[q]).append(", unit: ").append(UNITS[q])
-                    .append(", payload: \"json:v\" }\n");
+                    .append(", payload: \"json:v\", time: \"json:ts\" }\n");
         }
         y.append("\nzones:\n");
         for (int z = 0; z < zones; z++) {

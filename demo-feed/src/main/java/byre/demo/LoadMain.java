@@ -210,6 +210,9 @@ public final class LoadMain {
         long end = start + o.duration().toNanos();
         double nanosPerMessage = o.rate() > 0 ? 1e9 / o.rate() : 0;
         long sent = 0;
+        // Payload times: one millisecond apart per sensor from the start, so no two readings of a sensor share a
+        // time (the history keeps one row per sensor and time); ahead of the clock only beyond 1000 msg/s per sensor.
+        long firstMs = System.currentTimeMillis();
         outer:
         while (o.count() == 0 || sent < o.count()) {
             long now = System.nanoTime();
@@ -220,7 +223,7 @@ public final class LoadMain {
                 while ((now = System.nanoTime()) < due) LockSupport.parkNanos(due - now);
             }
             int i = (int) (sent % o.sensors());
-            MqttMessage m = new MqttMessage(LoadConfig.payload(i, sent, System.currentTimeMillis() / 1000, o.zones())
+            MqttMessage m = new MqttMessage(LoadConfig.payload(i, sent, firstMs + sent / o.sensors(), o.zones())
                     .getBytes(StandardCharsets.UTF_8));
             m.setQos(o.qos());
             try {

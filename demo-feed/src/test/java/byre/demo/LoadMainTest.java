@@ -44,7 +44,7 @@ class LoadMainTest {
             for (int i = 0; i < got.size(); i++) {
                 TinyBroker.Received m = got.get(i);
                 assertEquals(LoadConfig.topic("bench", i % 7, 7, 3), m.topic());
-                assertTrue(m.payload().matches("\\{\"v\":-?\\d+\\.\\d\\d,\"ts\":\\d{10}}"), m.payload());
+                assertTrue(m.payload().matches("\\{\"v\":-?\\d+\\.\\d\\d,\"ts\":\\d{13}}"), m.payload());
                 assertEquals(qos, m.qos());
                 perTopic.merge(m.topic(), 1, Integer::sum);
             }
@@ -66,7 +66,7 @@ class LoadMainTest {
     @Test
     void theConfigurationListsEverySensorOnceInItsZone() {
         String y = LoadConfig.yaml(10, 4, "tcp://127.0.0.1:1883", null, "load", Path.of("r"), Path.of("/tmp/h.db"));
-        Matcher s = Pattern.compile("(?m)^  (s\\d+): \\{ topic: (\\S+), quantity: ([a-z-]+), unit: (\\S+), payload: \"json:v\" }$").matcher(y);
+        Matcher s = Pattern.compile("(?m)^  (s\\d+): \\{ topic: (\\S+), quantity: ([a-z-]+), unit: (\\S+), payload: \"json:v\", time: \"json:ts\" }$").matcher(y);
         Map<String, String> topics = new HashMap<>();
         while (s.find()) topics.put(s.group(1), s.group(2));
         assertEquals(10, topics.size());

@@ -1,0 +1,283 @@
+package byre.bench;
+
+import byre.demo.LoadConfig;
+import byre.demo.LoadMain;
+import byre.testing.ByreProcess;
+import byre.testing.Mosquitto;
+import java.io.ByteArrayOutputStream;
+import java.io.PrintStream;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.sql.Connection;
+import java.sql.DriverManager;
+import java.sql.ResultSet;
+import java.sql.Statement;
+import java.time.Duration;
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.List;
+import java.util.Locale;
+import java.util.UUID;
+import java.util.concurrent.atomic.AtomicLong;
+import java.util.regex.Matcher;
+import java.util.regex.Pattern;
+import org.eclipse.paho.client.mqttv3.MqttClient;
+import org.eclipse.paho.client.mqttv3.MqttConnectOptions;
+import org.eclipse.paho.client.mqttv3.persist.MemoryPersistence;
+
+/**
+ * End-to-end ingest benchmark (a main, not a test), one command, one table:
+ * Debian mosquitto on loopback (unbounded queues, so QoS 1 loses nothing to a slow subscriber), the demo-feed
+ * load generator publishing small JSON readings for 200 sensors in 50 zones flat out, and, in interleaved
+ * rounds, (a) a bare Paho subscriber that only counts and (b) byre as its own JVM with the service's heap
+ * options ({@code -Xmx64m -XX:+UseSerialGC}) storing every reading in its history. The two use different topic
+ * prefixes so that each round has the broker to itself. Rates are measured from the publisher's start: the bare
+ * subscriber's last arrival, and byre's history holding all but the last batch (1000 rows) of the run's readings.
+ * Also: byre's start-up (launch to connected; launch to the first committed row), resident memory, heap after a
+ * full GC, database bytes per reading, and the zone derivation rate ({@link DerivationBench}).
+ * TODO when the rules module lands: 50 watches in the configuration, replay throughput, alert latency p50/p99.
+ *
+ * <p>Run: {@code daemon/src/test/bench/run.sh} (builds, then runs this main; options: --rounds N --count0 N --count1 N).
+ */
+public final class IngestBench {
+    static final int SENSORS = 200;
+    static final int ZONES = 50;
+    static final int BATCH_ROWS = 1000;
+
+    record Round(double bareRate, long bareGot, double byreRate, long byreRows, long published) {}
+
+    public static void main(String[] args) throws Exception {
+        int rounds = 3;
+        long count0 = 200_000, count1 = 100_000;
+        for (int i = 0; i + 1 < args.length; i += 2) {
+            switch (args[i]) {
+                case "--rounds": rounds = Integer.parseInt(args[i + 1]); break;
+                case "--count0": count0 = Long.parseLong(args[i + 1]); break;
+                case "--count1": count1 = Long.parseLong(args[i + 1]); break;
+                default: throw new IllegalArgumentException("unknown option " + args[i]);
+            }
+        }
+        Path work = Files.createTempDirectory("byre-bench");
+        Path db = work.resolve("history.db");
+        Path config = work.resolve("byre.yaml");
+        Files.createDirectories(work.resolve("rules.d"));
+        List<String[]> table = new ArrayList<>();
+        try (Mosquitto m = Mosquitto.start()) {
+            Files.writeString(config, LoadConfig.yaml(SENSORS, ZONES, m.uri(), null, "load", work.resolve("rules.d"), db));
+            // A retained reading waits for byre: start-up is measured to the moment it is stored.
+            try (MqttClient c = client(m.uri(), "bench-retained")) {
+                c.publish(LoadConfig.topic("load", 0, SENSORS, ZONES),
+                        LoadConfig.payload(0, 0, System.currentTimeMillis() - 10_000, ZONES).getBytes(StandardCharsets.UTF_8), 1, true);
+                c.disconnect();
+            }
+            // -Dbyre.bench.jvm="-XX:StartFlightRecording=filename=/tmp/byre.jfr" profiles byre during the run
+            String extra = System.getProperty("byre.bench.jvm", "").trim();
+            ByreProcess byre0 = ByreProcess.launch(config, extra.isEmpty() ? List.of() : List.of(extra.split("\\s+")));
+            ByreProcess byre = byre0;
+            try {
+                long connectedMs = -1, firstRowMs = -1;
+                long deadline = System.nanoTime() + Duration.ofSeconds(30).toNanos();
+                while (System.nanoTime() < deadline && (connectedMs < 0 || firstRowMs < 0)) {
+                    if (connectedMs < 0 && byre.log().contains("connected to MQTT broker")) connectedMs = sinceLaunch(byre);
+                    if (firstRowMs < 0 && Files.exists(db) && sensorRows(db) > 0) firstRowMs = sinceLaunch(byre);
+                    Thread.sleep(10);
+                }
+                Thread.sleep(2000);
+                long idleRssKb = byre.procStatusKb("VmRSS");
+
+                Round[] q0 = new Round[rounds], q1 = new Round[rounds];
+                for (int r = 0; r < rounds; r++) {
+                    if (r > 0) {
+                        // A fresh byre per round: 200 sensors flat out send far more than the flood gate's 50 readings/s
+                        // per sensor, which is lifted only for 30 s after a connection (a session backlog is no flood).
+                        byre.stop(30);
+                        byre = ByreProcess.launch(config, extra.isEmpty() ? List.of() : List.of(extra.split("\\s+")));
+                        ByreProcess b = byre;
+                        long until = System.nanoTime() + Duration.ofSeconds(30).toNanos();
+                        while (!b.log().contains("connected to MQTT broker") && System.nanoTime() < until) Thread.sleep(10);
+                    }
+                    q0[r] = round(m, db, 0, count0);
+                    q1[r] = round(m, db, 1, count1);
+                    System.out.printf(Locale.ROOT, "round %d: QoS 0 bare %.0f/s byre %.0f/s (%d/%d rows); QoS 1 bare %.0f/s byre %.0f/s (%d/%d rows)%n",
+                            r + 1, q0[r].bareRate, q0[r].byreRate, q0[r].byreRows, q0[r].published, q1[r].bareRate, q1[r].byreRate,
+                            q1[r].byreRows, q1[r].published);
+                }
+                long rssKb = byre.procStatusKb("VmRSS");
+                long hwmKb = byre.procStatusKb("VmHWM");
+                long heapKb = heapAfterGcKb(byre.pid());
+                long rows = sensorRows(db);
+                long bytes = Files.size(db) + (Files.exists(Path.of(db + "-wal")) ? Files.size(Path.of(db + "-wal")) : 0);
+                int code = byre.stop(30);
+
+                addRate(table, "ingest QoS 0, msgs/s (byre vs bare Paho subscriber)", q0, true);
+                addRate(table, "ingest QoS 1, msgs/s (byre vs bare Paho subscriber)", q1, true);
+                long lost1 = Arrays.stream(q1).mapToLong(x -> x.published - x.byreRows).sum();
+                long lost0 = Arrays.stream(q0).mapToLong(x -> x.published - x.byreRows).sum();
+                long bareLost0 = Arrays.stream(q0).mapToLong(x -> x.published - x.bareGot).sum();
+                table.add(row("QoS 1 readings lost (all rounds, history flushed)", Long.toString(lost1), "0", ""));
+                table.add(row("QoS 0 readings not stored (all rounds)", Long.toString(lost0), Long.toString(bareLost0) + " (bare)", ""));
+                table.add(row("start-up: launch -> connected, ms", Long.toString(connectedMs), "~1050 (platform notes)", ""));
+                table.add(row("start-up: launch -> first row committed, ms", Long.toString(firstRowMs), "", "includes 2 s batch delay"));
+                table.add(row("resident memory idle / after bursts / peak, MB", String.format(Locale.ROOT, "%.1f / %.1f / %.1f",
+                        idleRssKb / 1000.0, rssKb / 1000.0, hwmKb / 1000.0), "82.5 / 101.7 (platform notes)", ""));
+                table.add(row("heap used after full GC, MB", String.format(Locale.ROOT, "%.1f", heapKb / 1000.0), "", ""));
+                table.add(row("database bytes per reading (raw + zone rows + rollups)", String.format(Locale.ROOT, "%.1f", (double) bytes / rows),
+                        "24.6 (bare WITHOUT ROWID, platform notes)", String.format(Locale.ROOT, "%.2f", bytes / (double) rows / 24.6)));
+                table.add(row("byre exit code on SIGTERM", Integer.toString(code), "143 = clean JVM exit", ""));
+            } finally {
+                if (byre.isAlive()) byre.kill9();
+            }
+        }
+        derivation(table);
+        table.add(row("rules: 50 watches, replay rate, alert latency p50/p99", "TODO", "", "rules module not in this build"));
+        print(table);
+        try (var walk = Files.walk(work)) {
+            walk.sorted(java.util.Comparator.reverseOrder()).forEach(f -> f.toFile().delete());
+        }
+    }
+
+    private static long sinceLaunch(ByreProcess p) {
+        return (System.nanoTime() - p.launchedNanos()) / 1_000_000;
+    }
+
+    /** One QoS level: the bare subscriber alone, then byre alone, each with the same load. */
+    static Round round(Mosquitto m, Path db, int qos, long count) throws Exception {
+        // (a) bare Paho subscriber on its own prefix
+        AtomicLong got = new AtomicLong();
+        long[] lastNanos = {0};
+        MqttClient bare = client(m.uri(), "bench-bare");
+        bare.subscribe("bare/#", qos, (t, msg) -> {
+            got.incrementAndGet();
+            lastNanos[0] = System.nanoTime();
+        });
+        long t0 = System.nanoTime();
+        publish(m, "bare", qos, count);
+        long waitUntil = System.nanoTime() + Duration.ofSeconds(30).toNanos();
+        while (got.get() < count && System.nanoTime() < waitUntil) {
+            long before = got.get();
+            Thread.sleep(500);
+            if (qos == 0 && got.get() == before) break; // QoS 0: what is lost stays lost
+        }
+        bare.disconnect();
+        bare.close();
+        double bareRate = got.get() / ((lastNanos[0] - t0) / 1e9);
+
+        // (b) byre, on the prefix its configuration subscribes to
+        long before = sensorRows(db);
+        long target = before + count - BATCH_ROWS;
+        long t1 = System.nanoTime();
+        Thread publisher = new Thread(() -> {
+            try {
+                publish(m, "load", qos, count);
+            } catch (Exception e) {
+                throw new RuntimeException(e);
+            }
+        });
+        publisher.start();
+        long reachedNanos = -1;
+        long rows = before, lastChange = System.nanoTime();
+        long end = System.nanoTime() + Duration.ofSeconds(120).toNanos();
+        while (System.nanoTime() < end) {
+            Thread.sleep(100);
+            long now = sensorRows(db);
+            if (now != rows) {
+                rows = now;
+                lastChange = System.nanoTime();
+            }
+            if (reachedNanos < 0 && rows >= target) reachedNanos = System.nanoTime();
+            if (rows >= before + count || (!publisher.isAlive() && System.nanoTime() - lastChange > 3_000_000_000L)) break;
+        }
+        publisher.join();
+        double byreRate = reachedNanos < 0 ? (rows - before) / ((lastChange - t1) / 1e9) : (target - before) / ((reachedNanos - t1) / 1e9);
+        return new Round(bareRate, got.get(), byreRate, rows - before, count);
+    }
+
+    static void publish(Mosquitto m, String prefix, int qos, long count) throws Exception {
+        LoadMain.Options o = LoadMain.Options.parse("--broker", m.uri(), "--sensors", Integer.toString(SENSORS), "--zones",
+                Integer.toString(ZONES), "--qos", Integer.toString(qos), "--count", Long.toString(count), "--duration", "1h",
+                "--topic-prefix", prefix, "--client-id", "bench-load-" + UUID.randomUUID().toString().substring(0, 8));
+        LoadMain.run(o, new PrintStream(new ByteArrayOutputStream(), true, StandardCharsets.UTF_8));
+    }
+
+    static MqttClient client(String uri, String name) throws Exception {
+        MqttClient c = new MqttClient(uri, name + "-" + UUID.randomUUID().toString().substring(0, 8), new MemoryPersistence());
+        MqttConnectOptions o = new MqttConnectOptions();
+        o.setCleanSession(true);
+        o.setMaxInflight(1000);
+        c.connect(o);
+        return c;
+    }
+
+    static long sensorRows(Path db) throws Exception {
+        try (Connection c = DriverManager.getConnection("jdbc:sqlite:" + db);
+             Statement st = c.createStatement();
+             ResultSet rs = st.executeQuery("SELECT count(*) FROM reading WHERE stream IN (SELECT id FROM stream WHERE kind = 'sensor')")) {
+            return rs.next() ? rs.getLong(1) : 0;
+        } catch (java.sql.SQLException e) {
+            return 0; // not created yet
+        }
+    }
+
+    /** Heap in use after a full collection, from {@code jcmd GC.run} and {@code GC.heap_info}, in kB. */
+    static long heapAfterGcKb(long pid) throws Exception {
+        String jcmd = Path.of(System.getProperty("java.home"), "bin", "jcmd").toString();
+        new ProcessBuilder(jcmd, Long.toString(pid), "GC.run").redirectErrorStream(true).start().waitFor();
+        Process p = new ProcessBuilder(jcmd, Long.toString(pid), "GC.heap_info").redirectErrorStream(true).start();
+        String out = new String(p.getInputStream().readAllBytes(), StandardCharsets.UTF_8);
+        p.waitFor();
+        long used = 0;
+        Matcher mm = Pattern.compile("(?m)^\\s*(def new generation|tenured generation)\\s+total \\d+K, used (\\d+)K").matcher(out);
+        while (mm.find()) used += Long.parseLong(mm.group(2));
+        return used == 0 ? -1 : used;
+    }
+
+    static void derivation(List<String[]> table) {
+        PrintStream saved = System.out;
+        ByteArrayOutputStream buf = new ByteArrayOutputStream();
+        System.setOut(new PrintStream(buf, true, StandardCharsets.UTF_8));
+        try {
+            DerivationBench.main(new String[0]);
+        } finally {
+            System.setOut(saved);
+        }
+        String text = buf.toString(StandardCharsets.UTF_8);
+        Matcher base = Pattern.compile("baseline Magnus e_w only\\s+([\\d,]+) /s").matcher(text);
+        String baseline = base.find() ? base.group(1) + " Magnus e_w/s" : "?";
+        Matcher d = Pattern.compile("(derive, [^\\n]*?)\\s+([\\d,]+) zones/s\\s+\\(cost = ([\\d.]+) x baseline\\)").matcher(text);
+        while (d.find()) {
+            table.add(row("zone derivations/s, " + d.group(1).substring(8).trim(), d.group(2), baseline, "cost " + d.group(3) + " x"));
+        }
+    }
+
+    static void addRate(List<String[]> table, String what, Round[] rounds, boolean ratio) {
+        double[] byre = Arrays.stream(rounds).mapToDouble(Round::byreRate).toArray();
+        double[] bare = Arrays.stream(rounds).mapToDouble(Round::bareRate).toArray();
+        double[] ratios = new double[rounds.length];
+        for (int i = 0; i < rounds.length; i++) ratios[i] = byre[i] / bare[i];
+        table.add(row(what, String.format(Locale.ROOT, "%,.0f (%,.0f..%,.0f)", median(byre), min(byre), max(byre)),
+                String.format(Locale.ROOT, "%,.0f", median(bare)),
+                String.format(Locale.ROOT, "%.2f (%.2f..%.2f)", median(ratios), min(ratios), max(ratios))));
+    }
+
+    static String[] row(String what, String byre, String baseline, String ratio) {
+        return new String[] {what, byre, baseline, ratio};
+    }
+
+    static void print(List<String[]> table) {
+        System.out.println();
+        System.out.println("| measure | byre | baseline | ratio / note |");
+        System.out.println("|---|---|---|---|");
+        for (String[] r : table) System.out.println("| " + String.join(" | ", r) + " |");
+    }
+
+    static double median(double[] a) {
+        double[] s = a.clone();
+        Arrays.sort(s);
+        return s.length % 2 == 1 ? s[s.length / 2] : (s[s.length / 2 - 1] + s[s.length / 2]) / 2;
+    }
+
+    static double min(double[] a) { return Arrays.stream(a).min().orElse(Double.NaN); }
+
+    static double max(double[] a) { return Arrays.stream(a).max().orElse(Double.NaN); }
+}
