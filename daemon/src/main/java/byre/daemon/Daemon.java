@@ -147,7 +147,7 @@ public final class Daemon implements AutoCloseable {
 
             IngestStage ingest = new IngestStage(config.sensors().values(), clock, registry, pipeline::offer, FLOOD_LIMIT_PER_SENSOR);
             for (SensorConfig s : config.sensors().values()) {
-                link.subscribe(s.topic(), ingest::accept);
+                link.subscribeAcked(s.topic(), ingest::accept);
             }
             link.onConnect(publisher::republishAll);
             link.onConnecting(ingest::connected);
@@ -250,8 +250,11 @@ public final class Daemon implements AutoCloseable {
 
     @Override
     public void close() {
-        if (link != null) link.close();
+        // Stop taking messages, store and acknowledge what was taken, then say goodbye to the broker.
+        if (link != null) link.pauseIntake();
         if (pipeline != null) pipeline.close();
+        if (writer != null && writer.isHealthy()) writer.flush(java.time.Duration.ofSeconds(10));
+        if (link != null) link.close();
         if (alerts != null) alerts.close();
         if (writer != null) writer.close();
         if (store != null) store.close();

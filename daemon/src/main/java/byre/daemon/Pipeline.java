@@ -111,7 +111,7 @@ public final class Pipeline implements AutoCloseable {
             lastProgressNanos = System.nanoTime();
             if (r == STOP) break;
             if (r != null) {
-                history.append(StreamKey.sensor(r.sensorId()), r.at(), r.value());
+                history.append(StreamKey.sensor(r.sensorId()), r.at().toEpochMilli(), r.value(), r.ack());
                 try {
                     zones.accept(r, fanOut);
                 } catch (RuntimeException e) {

@@ -106,11 +106,14 @@ public final class HistoryWriter implements AutoCloseable {
         final StreamKey key;
         final long tsMs;
         final double value;
+        /** Run once the row is durable (committed), dropped, or the database is failing; null for most rows. */
+        Runnable onStored;
 
-        Row(StreamKey key, long tsMs, double value) {
+        Row(StreamKey key, long tsMs, double value, Runnable onStored) {
             this.key = key;
             this.tsMs = tsMs;
             this.value = value;
+            this.onStored = onStored;
         }
     }
 
@@ -169,6 +172,8 @@ public final class HistoryWriter implements AutoCloseable {
     private volatile long rowsTooOld;
     private volatile long rowsDropped;
     private volatile long batches;
+    /** Rows in the backlog whose callback waits for their commit. */
+    private int pendingCallbacks;
     private volatile long lastBatchRows;
     private volatile long lastCommitMillis;
     private volatile long writeErrors;
@@ -236,17 +241,51 @@ public final class HistoryWriter implements AutoCloseable {
      *     closed, the queue stayed full, or the value is not a finite number
      */
     public boolean append(StreamKey key, long epochMs, double value) {
+        return append(key, epochMs, value, null);
+    }
+
+    /**
+     * Queues one reading and runs {@code onStored} once it is committed: byre acknowledges a QoS 1 message
+     * to the broker only then, so a crash loses nothing the broker was told is safe. While the database
+     * cannot be written, {@code onStored} runs as soon as the row is held in memory (ingest must go on, and
+     * the broker would otherwise stop sending); a row dropped by the backlog bound also releases it.
+     * Rows with such a callback are committed without waiting for a fuller batch (group commit).
+     */
+    public boolean append(StreamKey key, long epochMs, double value, Runnable onStored) {
         if (closing || key == null || !Double.isFinite(value)) {
             rowsRejected.incrementAndGet();
+            release(onStored);
             return false;
         }
         try {
-            if (queue.offer(new Row(key, epochMs, value), settings.appendTimeout().toNanos(), TimeUnit.NANOSECONDS)) return true;
+            if (queue.offer(new Row(key, epochMs, value, onStored), settings.appendTimeout().toNanos(), TimeUnit.NANOSECONDS)) return true;
         } catch (InterruptedException e) {
             Thread.currentThread().interrupt();
         }
         rowsRejected.incrementAndGet();
+        release(onStored);
         return false;
+    }
+
+    private static void release(Runnable onStored) {
+        if (onStored == null) return;
+        try {
+            onStored.run();
+        } catch (RuntimeException e) {
+            log.warn("acknowledging a stored reading failed: {}", e.toString());
+        }
+    }
+
+    /** Releases every waiting callback of the backlog (the database is failing: ingest must not stall). */
+    private void releaseAll() {
+        if (pendingCallbacks == 0) return;
+        for (Row r : backlog) {
+            if (r.onStored != null) {
+                release(r.onStored);
+                r.onStored = null;
+            }
+        }
+        pendingCallbacks = 0;
     }
 
     /** Waits up to one minute for {@link #flush(Duration)}. */
@@ -362,7 +401,7 @@ public final class HistoryWriter implements AutoCloseable {
             // The very first batch goes at once: an installer watching the log sees the first stored
             // reading within a second of start, not after a batch delay.
             long due = !healthy ? nextRetryNanos
-                : (!markers.isEmpty() || stop || backlog.size() >= settings.batchRows() || firstBatchNow()) ? now
+                : (!markers.isEmpty() || stop || backlog.size() >= settings.batchRows() || firstBatchNow() || pendingCallbacks > 0) ? now
                 : firstPendingNanos + settings.maxBatchDelay().toNanos();
             return Math.max(0, due - now);
         }
@@ -377,7 +416,7 @@ public final class HistoryWriter implements AutoCloseable {
 
     private boolean commitDue(long now) {
         if (backlog.isEmpty() || now < nextRetryNanos) return false;
-        return backlog.size() >= settings.batchRows() || !markers.isEmpty() || stop || firstBatchNow()
+        return backlog.size() >= settings.batchRows() || !markers.isEmpty() || stop || firstBatchNow() || pendingCallbacks > 0
             || now - firstPendingNanos >= settings.maxBatchDelay().toNanos();
     }
 
@@ -385,11 +424,23 @@ public final class HistoryWriter implements AutoCloseable {
         if (it instanceof Row r) {
             if (backlog.isEmpty()) firstPendingNanos = System.nanoTime();
             if (backlog.size() >= settings.backlogLimit()) {
-                backlog.pollFirst();
+                Row dropped = backlog.pollFirst();
+                if (dropped.onStored != null) {
+                    release(dropped.onStored);
+                    pendingCallbacks--;
+                }
                 rowsDropped++;
                 if (rowsDropped == 1 || rowsDropped % 10_000 == 0) {
                     log.warn("history {}: backlog full ({} rows), dropping the oldest readings; {} dropped so far",
                         store.path(), settings.backlogLimit(), rowsDropped);
+                }
+            }
+            if (r.onStored != null) {
+                if (healthy) {
+                    pendingCallbacks++;
+                } else {
+                    release(r.onStored);
+                    r.onStored = null;
                 }
             }
             backlog.addLast(r);
@@ -473,7 +524,13 @@ public final class HistoryWriter implements AutoCloseable {
             onWriteError(e, n);
             return;
         }
-        for (int i = 0; i < n; i++) backlog.pollFirst();
+        for (int i = 0; i < n; i++) {
+            Row r = backlog.pollFirst();
+            if (r.onStored != null) {
+                release(r.onStored);
+                pendingCallbacks--;
+            }
+        }
         if (!backlog.isEmpty()) firstPendingNanos = Math.min(firstPendingNanos, System.nanoTime());
         backlogRows = backlog.size();
         streamIds.putAll(newIds);
@@ -519,6 +576,7 @@ public final class HistoryWriter implements AutoCloseable {
         }
         lastError = msg;
         healthy = false;
+        releaseAll();
         nextRetryNanos = System.nanoTime() + retryDelayNanos;
         retryDelayNanos = Math.min(retryDelayNanos * 2, settings.maxRetryDelay().toNanos());
     }

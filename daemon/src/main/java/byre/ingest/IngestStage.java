@@ -68,6 +68,20 @@ public final class IngestStage {
 
     /** Handles one MQTT message; never throws for bad input. Returns the reading or null. */
     public Reading accept(String topic, byte[] payload) {
+        return accept(topic, payload, null);
+    }
+
+    /**
+     * Handles one MQTT message whose acknowledgement waits for storage: a reading carries {@code ack} to
+     * the history, which runs it once committed; a message that yields no reading is acknowledged at once.
+     */
+    public Reading accept(String topic, byte[] payload, Runnable ack) {
+        Reading r = decode(topic, payload, ack);
+        if (r == null && ack != null) ack.run();
+        return r;
+    }
+
+    private Reading decode(String topic, byte[] payload, Runnable ack) {
         Instant arrival = clock.instant();
         TopicRouter.Route route = router.route(topic);
         if (route == null) {
@@ -105,7 +119,7 @@ public final class IngestStage {
         }
         receivedBySensor.computeIfAbsent(id, k -> Counter.builder("byre.readings.received").tag("sensor", k)
                 .description("Readings accepted, per sensor").register(registry)).increment();
-        Reading r = new Reading(id, q, canonical, at);
+        Reading r = new Reading(id, q, canonical, at, ack);
         sink.accept(r);
         return r;
     }

@@ -43,15 +43,24 @@ public final class MqttLink implements AutoCloseable {
 
     private final MqttSettings settings;
     private final String statusTopic;
-    private final Map<String, BiConsumer<String, byte[]>> subscriptions = new ConcurrentHashMap<>();
+    /** Handles one message; runs {@code ack} when the message may be acknowledged to the broker. */
+    @FunctionalInterface
+    public interface Handler {
+        void accept(String topic, byte[] payload, Runnable ack);
+    }
+
+    private static final Runnable NO_ACK = () -> {};
+
+    private final Map<String, Handler> subscriptions = new ConcurrentHashMap<>();
     /** Filters with wildcards, split into levels once: matching a message must not split every filter again. */
-    private final List<Map.Entry<String[], BiConsumer<String, byte[]>>> wildcardFilters = new java.util.concurrent.CopyOnWriteArrayList<>();
+    private final List<Map.Entry<String[], Handler>> wildcardFilters = new java.util.concurrent.CopyOnWriteArrayList<>();
     private final List<Runnable> onConnect = new ArrayList<>();
     private final List<Runnable> onConnecting = new ArrayList<>();
     private final MqttAsyncClient client;
     private final AtomicBoolean closing = new AtomicBoolean();
     private final Object reconnectLock = new Object();
     private volatile boolean connected;
+    private volatile boolean intakePaused;
     private volatile String lastError = "not connected yet";
     private Thread connector;
     private final Counter publishDropped;
@@ -62,6 +71,7 @@ public final class MqttLink implements AutoCloseable {
         this.statusTopic = settings.publishPrefix() + "/" + site + "/status";
         this.client = new MqttAsyncClient(settings.connectUri(), settings.clientId(), new MemoryPersistence());
         client.setCallback(new Callback());
+        client.setManualAcks(true);
         Gauge.builder("byre.mqtt.connected", this, l -> l.connected ? 1 : 0)
                 .description("1 while connected to the broker").register(registry);
         publishDropped = Counter.builder("byre.mqtt.publish.dropped")
@@ -71,6 +81,21 @@ public final class MqttLink implements AutoCloseable {
 
     /** Adds a subscription (before {@link #start()}); the handler runs on the client's callback thread. */
     public void subscribe(String filter, BiConsumer<String, byte[]> handler) {
+        subscribeAcked(filter, (topic, payload, ack) -> {
+            try {
+                handler.accept(topic, payload);
+            } finally {
+                ack.run();
+            }
+        });
+    }
+
+    /**
+     * Adds a subscription whose messages are acknowledged only when the handler runs {@code ack} (QoS 1):
+     * ingest acknowledges a reading once it is committed to the history, so a crash loses nothing the
+     * broker was told is safe; the broker redelivers what was not acknowledged.
+     */
+    public void subscribeAcked(String filter, Handler handler) {
         subscriptions.put(filter, handler);
         if (filter.contains("+") || filter.contains("#")) wildcardFilters.add(Map.entry(filter.split("/", -1), handler));
     }
@@ -78,6 +103,29 @@ public final class MqttLink implements AutoCloseable {
     /** Runs after every (re)connection, e.g. to republish retained state. */
     public void onConnect(Runnable r) {
         onConnect.add(r);
+    }
+
+    /** The acknowledgement of one received message (nothing to do at QoS 0); safe to run on any thread, once. */
+    private Runnable ackFor(MqttMessage message) {
+        if (message.getQos() == 0) return NO_ACK;
+        int id = message.getId();
+        int qos = message.getQos();
+        return () -> {
+            try {
+                client.messageArrivedComplete(id, qos);
+            } catch (MqttException | RuntimeException e) {
+                // The connection went away in between: the broker delivers the message again.
+                LOG.debug("acknowledgement of message {} not sent: {}", id, e.toString());
+            }
+        };
+    }
+
+    /**
+     * Stops taking new messages (they stay unacknowledged with the broker, which delivers them again
+     * after a restart) while what was taken is stored and acknowledged; then {@link #close()}.
+     */
+    public void pauseIntake() {
+        intakePaused = true;
     }
 
     /** Runs just before every connection attempt (a session backlog may arrive before the attempt returns). */
@@ -152,7 +200,7 @@ public final class MqttLink implements AutoCloseable {
                 onConnecting.forEach(Runnable::run);
                 client.connect(options()).waitForCompletion(10_000);
                 if (!client.isConnected()) throw new MqttException(MqttException.REASON_CODE_CLIENT_TIMEOUT);
-                for (Map.Entry<String, BiConsumer<String, byte[]>> s : subscriptions.entrySet()) {
+                for (Map.Entry<String, Handler> s : subscriptions.entrySet()) {
                     client.subscribe(s.getKey(), settings.qos()).waitForCompletion(10_000);
                 }
                 connected = true;
@@ -291,21 +339,27 @@ public final class MqttLink implements AutoCloseable {
         @Override
         public void messageArrived(String topic, MqttMessage message) {
             // A topic never holds a wildcard, so a filter equal to it is an exact subscription: one hash lookup.
-            BiConsumer<String, byte[]> handler = subscriptions.get(topic);
+            if (intakePaused) return; // not acknowledged: the broker delivers it again after the restart
+            Handler handler = subscriptions.get(topic);
             if (handler == null && !wildcardFilters.isEmpty()) {
                 String[] levels = topic.split("/", -1);
-                for (Map.Entry<String[], BiConsumer<String, byte[]>> f : wildcardFilters) {
+                for (Map.Entry<String[], Handler> f : wildcardFilters) {
                     if (byre.ingest.TopicRouter.matches(f.getKey(), levels)) {
                         handler = f.getValue();
                         break;
                     }
                 }
             }
-            if (handler == null) return;
+            Runnable ack = ackFor(message);
+            if (handler == null) {
+                ack.run();
+                return;
+            }
             try {
-                handler.accept(topic, message.getPayload());
+                handler.accept(topic, message.getPayload(), ack);
             } catch (RuntimeException e) {
                 LOG.error("handler for {} failed on a message: {}", topic, e.toString(), e);
+                ack.run();
             }
         }
 

@@ -66,6 +66,12 @@ public final class Dispatcher implements AutoCloseable {
         if (running) return;
         running = true;
         dropUnknownChannels();
+        try {
+            int n = outbox.retryNow(clock.instant());
+            if (n > 0) LOG.info("notify: {} undelivered message(s) from before the restart are tried now", n);
+        } catch (java.sql.SQLException e) {
+            LOG.warn("notify: cannot bring waiting deliveries forward: {}", e.getMessage());
+        }
         for (String name : channels.keySet()) {
             Thread t = new Thread(() -> loop(name), "notify-" + name);
             t.setDaemon(true);

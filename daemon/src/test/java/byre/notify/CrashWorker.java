@@ -37,7 +37,7 @@ public final class CrashWorker {
         System.out.println("READY");
         System.out.flush();
         if (mode.equals("drain")) {
-            long deadline = System.nanoTime() + 20_000_000_000L;
+            long deadline = System.nanoTime() + 60_000_000_000L;
             while (s.outbox().depth() > 0 && System.nanoTime() < deadline) Thread.sleep(20);
             System.out.println(s.outbox().depth() == 0 ? "DONE" : "STUCK " + s.outbox().depth());
             s.close();

@@ -75,7 +75,7 @@ class KillNineTest {
             List<String> lines = new ArrayList<>();
             String l;
             while ((l = out.readLine()) != null) if (l.matches("READY|DONE|STUCK.*")) lines.add(l);
-            assertTrue(drain.waitFor(30, TimeUnit.SECONDS));
+            assertTrue(drain.waitFor(75, TimeUnit.SECONDS));
             assertEquals(List.of("READY", "DONE"), lines);
 
             Set<String> received = new HashSet<>();
