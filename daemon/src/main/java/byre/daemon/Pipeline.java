@@ -30,6 +30,8 @@ public final class Pipeline implements AutoCloseable {
      * derived values can always be recomputed from them; a row a minute per stream keeps the
      * history small on an SD card while rules and MQTT still see every derivation.
      */
+    /** Readings taken from the queue per turn at most. */
+    static final int BATCH = 512;
     static final java.time.Duration ZONE_STREAM_STORE_EVERY = java.time.Duration.ofMinutes(1);
     private static final Reading STOP = new Reading("", byre.units.Quantity.DRY_BULB, 0, Instant.EPOCH);
 
@@ -91,8 +93,9 @@ public final class Pipeline implements AutoCloseable {
     private void loop() {
         Instant lastTick = Instant.MIN;
         Consumer<ZoneReading> fanOut = zr -> {
-            StreamKey key = StreamKey.zone(zr.zone(), zr.quantity());
-            if (thinning.due(key, zr.at())) history.append(key, zr.at(), zr.value());
+            if (thinning.due(zr.zone(), zr.quantity(), zr.at())) {
+                history.append(StreamKey.zone(zr.zone(), zr.quantity()), zr.at(), zr.value());
+            }
             for (ZoneListener l : listeners) {
                 try {
                     l.accept(zr);
@@ -101,7 +104,9 @@ public final class Pipeline implements AutoCloseable {
                 }
             }
         };
-        while (true) {
+        java.util.ArrayList<Reading> batch = new java.util.ArrayList<>(BATCH);
+        boolean stopping = false;
+        while (!stopping) {
             Reading r;
             try {
                 r = queue.poll(250, TimeUnit.MILLISECONDS);
@@ -109,19 +114,34 @@ public final class Pipeline implements AutoCloseable {
                 break;
             }
             lastProgressNanos = System.nanoTime();
-            if (r == STOP) break;
+            batch.clear();
             if (r != null) {
-                history.append(StreamKey.sensor(r.sensorId()), r.at().toEpochMilli(), r.value(), r.ack());
+                batch.add(r);
+                // Take what else is waiting in one go: one wake-up per burst, not per reading.
+                queue.drainTo(batch, BATCH - 1);
+            }
+            for (Reading b : batch) {
+                if (b == STOP) {
+                    stopping = true;
+                    break;
+                }
+                history.append(StreamKey.sensor(b.sensorId()), b.at().toEpochMilli(), b.value(), b.ack());
                 try {
-                    zones.accept(r, fanOut);
+                    zones.accept(b, fanOut);
                 } catch (RuntimeException e) {
-                    LOG.error("zone derivation failed on a reading of {}: {}", r.sensorId(), e.toString(), e);
+                    LOG.error("zone derivation failed on a reading of {}: {}", b.sensorId(), e.toString(), e);
                 }
                 processed.incrementAndGet();
             }
+            if (stopping) break;
             Instant now = clock.instant();
             if (r == null || now.isBefore(lastTick) || !now.isBefore(lastTick.plusMillis(1000))) {
                 lastTick = now;
+                try {
+                    zones.derivePending(now, fanOut);
+                } catch (RuntimeException e) {
+                    LOG.error("zone derivation failed: {}", e.toString(), e);
+                }
                 for (ZoneListener l : listeners) {
                     try {
                         l.tick(now);

@@ -66,6 +66,7 @@ public final class Replay {
         if (now == null) now = t;
         while (now.isBefore(t)) {
             now = now.plusSeconds(1).isAfter(t) ? t : now.plusSeconds(1);
+            if (zones != null) zones.derivePending(now, zr -> handle(engine.accept(zr), out));
             handle(engine.tick(now), out);
             out.addAll(book.tick(now));
         }

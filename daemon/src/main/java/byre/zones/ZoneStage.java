@@ -19,6 +19,12 @@ import java.util.function.Consumer;
  */
 public final class ZoneStage {
     private static final int N = Quantity.values().length;
+    /**
+     * A zone is derived at most once per this interval of reading time: a sensor gone chatty (or a
+     * session backlog) must not multiply the derivation work; barn climate changes over minutes. A
+     * skipped derivation is done by {@link #derivePending} on the next tick.
+     */
+    public static final long MIN_DERIVE_INTERVAL_MS = 1000;
     /** Wet bulb above dry bulb by more than this is physically impossible: a wick or wiring fault. */
     public static final double WET_ABOVE_DRY_TOLERANCE_C = 0.3;
 
@@ -37,6 +43,8 @@ public final class ZoneStage {
         final long[] atMillis = new long[N];
         final double[] fresh = new double[N];
         final double[] derived = new double[N];
+        long lastDerivedMs = Long.MIN_VALUE;
+        Instant pendingAt;
 
         ZoneState(ZoneConfig config) {
             this.config = config;
@@ -79,7 +87,27 @@ public final class ZoneStage {
         z.values[q] = r.value();
         z.atMillis[q] = t;
         out.accept(new ZoneReading(r.at(), z.config.id(), r.quantity(), r.value()));
+        if (t >= z.lastDerivedMs && t - z.lastDerivedMs < MIN_DERIVE_INTERVAL_MS) {
+            z.pendingAt = r.at();
+            return;
+        }
+        derive(z, r.at(), out);
+    }
 
+    /** Derives the zones whose derivation was put off and is now due (the interval has passed by {@code now}). */
+    public void derivePending(Instant now, Consumer<ZoneReading> out) {
+        long n = now.toEpochMilli();
+        for (ZoneState z : byZone.values()) {
+            if (z.pendingAt != null && (n - z.lastDerivedMs >= MIN_DERIVE_INTERVAL_MS || n < z.lastDerivedMs)) {
+                derive(z, z.pendingAt, out);
+            }
+        }
+    }
+
+    private void derive(ZoneState z, Instant at, Consumer<ZoneReading> out) {
+        long t = at.toEpochMilli();
+        z.lastDerivedMs = t;
+        z.pendingAt = null;
         // Fresh = no older than max-age before the zone's newest input (sensors need not report in step).
         long newest = t;
         for (int i = 0; i < N; i++) newest = Math.max(newest, z.atMillis[i]);
@@ -99,7 +127,7 @@ public final class ZoneStage {
             double v = z.derived[i];
             if (Double.isNaN(v) || !Double.isNaN(z.fresh[i])) continue;
             any = true;
-            out.accept(new ZoneReading(r.at(), z.config.id(), dq, v));
+            out.accept(new ZoneReading(at, z.config.id(), dq, v));
         }
         if (any) observer.derived(z.config.id());
     }
