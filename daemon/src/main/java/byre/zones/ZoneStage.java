@@ -43,7 +43,7 @@ public final class ZoneStage {
         final long[] atMillis = new long[N];
         final double[] fresh = new double[N];
         final double[] derived = new double[N];
-        long lastDerivedMs = Long.MIN_VALUE;
+        long lastDerivedMs = Long.MIN_VALUE / 4; // far in the past, without overflow in the differences below
         Instant pendingAt;
 
         ZoneState(ZoneConfig config) {

@@ -1,0 +1,75 @@
+package byre.zones;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import byre.config.ZoneConfig;
+import byre.ingest.Reading;
+import byre.rules.ZoneReading;
+import byre.units.Quantity;
+import java.time.Duration;
+import java.time.Instant;
+import java.util.ArrayList;
+import java.util.List;
+import org.junit.jupiter.api.Test;
+
+/** Combining a zone's sensors: freshness, derivation pacing, the wet-above-dry flag. */
+class ZoneStageTest {
+    static final Instant T0 = Instant.parse("2026-01-12T20:00:00Z");
+    final List<String> flags = new ArrayList<>();
+    final ZoneStage stage = new ZoneStage(List.of(new ZoneConfig("calf-pen-1", List.of("calves"),
+            List.of("pen1-dry", "pen1-wet", "pen1-air"), Double.NaN, ZoneConfig.Psychrometer.ASPIRATED, Duration.ofMinutes(5),
+            "nrc-1971", 1)), new ClimateDeriver(), new ZoneStage.Observer() {
+                @Override
+                public void wetBulbAboveDryBulb(String zone, double excessC) {
+                    flags.add(zone);
+                }
+
+                @Override
+                public void derivationSkipped(String zone, String why) {}
+
+                @Override
+                public void derived(String zone) {}
+            });
+
+    List<ZoneReading> feed(Reading r) {
+        List<ZoneReading> out = new ArrayList<>();
+        stage.accept(r, out::add);
+        return out;
+    }
+
+    static boolean has(List<ZoneReading> rows, Quantity q) {
+        return rows.stream().anyMatch(z -> z.quantity() == q);
+    }
+
+    @Test
+    void derivesAsSoonAsTheInputsAreThereAndAtMostOnceASecond() {
+        assertTrue(has(feed(new Reading("pen1-dry", Quantity.DRY_BULB, 5.0, T0)), Quantity.DRY_BULB));
+        // Wet bulb 200 ms later: within the pacing interval, so the derivation waits for the next tick.
+        List<ZoneReading> second = feed(new Reading("pen1-wet", Quantity.WET_BULB, 4.0, T0.plusMillis(200)));
+        assertEquals(List.of(Quantity.WET_BULB), second.stream().map(ZoneReading::quantity).toList());
+        List<ZoneReading> pending = new ArrayList<>();
+        stage.derivePending(T0.plusMillis(500), pending::add);
+        assertEquals(List.of(), pending, "not due yet");
+        stage.derivePending(T0.plusMillis(1000), pending::add);
+        assertTrue(has(pending, Quantity.RH) && has(pending, Quantity.THI), pending.toString());
+        assertEquals(T0.plusMillis(200), pending.get(0).at(), "derived values carry the time of the newest input");
+        // A reading more than a second after the last derivation derives at once.
+        assertTrue(has(feed(new Reading("pen1-air", Quantity.AIR_SPEED, 3.0, T0.plusSeconds(2))), Quantity.WIND_CHILL));
+    }
+
+    @Test
+    void staleInputsAreNotCombined() {
+        feed(new Reading("pen1-wet", Quantity.WET_BULB, 4.0, T0));
+        // Dry bulb six minutes later: the wet bulb is older than max-age (5m), so no humidity is derived.
+        assertFalse(has(feed(new Reading("pen1-dry", Quantity.DRY_BULB, 5.0, T0.plusSeconds(360))), Quantity.RH));
+    }
+
+    @Test
+    void flagsAWetBulbAboveTheDryBulb() {
+        feed(new Reading("pen1-dry", Quantity.DRY_BULB, 5.0, T0));
+        feed(new Reading("pen1-wet", Quantity.WET_BULB, 6.0, T0.plusSeconds(2)));
+        assertEquals(List.of("calf-pen-1"), flags);
+    }
+}
