@@ -9,25 +9,14 @@ import java.nio.charset.StandardCharsets;
 import org.junit.jupiter.api.Test;
 
 class CalcCommandTest {
-    record Run(int code, String out, String err) {}
 
-    private static Run run(String... args) {
-        PrintStream oldOut = System.out, oldErr = System.err;
-        ByteArrayOutputStream out = new ByteArrayOutputStream(), err = new ByteArrayOutputStream();
-        try {
-            System.setOut(new PrintStream(out, true, StandardCharsets.UTF_8));
-            System.setErr(new PrintStream(err, true, StandardCharsets.UTF_8));
-            int code = Main.execute(args);
-            return new Run(code, out.toString(StandardCharsets.UTF_8), err.toString(StandardCharsets.UTF_8));
-        } finally {
-            System.setOut(oldOut);
-            System.setErr(oldErr);
-        }
+    static CliRun run(String... args) {
+        return CliRun.of(args);
     }
 
     @Test
     void tableNamesEveryQuantityAndWhatIsMissing() {
-        Run r = run("calc", "--dry-bulb", "86F", "--wet-bulb", "75F", "--elevation", "240m");
+        CliRun r = run("calc", "--dry-bulb", "86F", "--wet-bulb", "75F", "--elevation", "240m");
         assertEquals(Main.OK, r.code(), r.err());
         for (String id : byre.units.Quantity.ids()) assertTrue(r.out().contains("\n" + id + " "), id + " in\n" + r.out());
         assertTrue(r.out().contains("wind-chill, cci: need --air-speed"), r.out());
@@ -38,14 +27,14 @@ class CalcCommandTest {
 
     @Test
     void conventionIsStated() {
-        Run r = run("calc", "--dry-bulb", "5C", "--rh", "80", "--air-speed", "0.3m/s");
+        CliRun r = run("calc", "--dry-bulb", "5C", "--rh", "80", "--air-speed", "0.3m/s");
         assertEquals(Main.OK, r.code());
         assertTrue(r.out().contains("equals air temperature (NWS convention)"), r.out());
     }
 
     @Test
     void jsonIsKeyedByQuantityInCanonicalUnits() {
-        Run r = run("calc", "--dry-bulb", "86F", "--rh", "60", "--json");
+        CliRun r = run("calc", "--dry-bulb", "86F", "--rh", "60", "--json");
         assertEquals(Main.OK, r.code(), r.err());
         String j = r.out().trim();
         assertTrue(j.startsWith("{\"dry-bulb\":30,"), j);
@@ -57,7 +46,7 @@ class CalcCommandTest {
 
     @Test
     void usUnitsInAndOut() {
-        Run r = run("calc", "--dry-bulb", "20", "--rh", "50", "--air-speed", "600ft/min", "--pressure", "29.92inHg", "--units", "us");
+        CliRun r = run("calc", "--dry-bulb", "20", "--rh", "50", "--air-speed", "600ft/min", "--pressure", "29.92inHg", "--units", "us");
         assertEquals(Main.OK, r.code(), r.err());
         assertTrue(r.out().contains("20.0  F"), r.out());
         assertTrue(r.out().contains("600  ft/min"), r.out());
@@ -65,26 +54,26 @@ class CalcCommandTest {
 
     @Test
     void badInputExitsTwoWithAClearMessage() {
-        Run wet = run("calc", "--dry-bulb", "20C", "--wet-bulb", "22C");
+        CliRun wet = run("calc", "--dry-bulb", "20C", "--wet-bulb", "22C");
         assertEquals(Main.USAGE, wet.code());
         assertTrue(wet.err().contains("wet bulb 22.00 C is above dry bulb 20.00 C"), wet.err());
 
-        Run rh = run("calc", "--dry-bulb", "20C", "--rh", "104");
+        CliRun rh = run("calc", "--dry-bulb", "20C", "--rh", "104");
         assertEquals(Main.USAGE, rh.code());
         assertTrue(rh.err().contains("within 0-100 %"), rh.err());
 
-        Run speed = run("calc", "--dry-bulb", "20C", "--rh", "50", "--air-speed", "-1m/s");
+        CliRun speed = run("calc", "--dry-bulb", "20C", "--rh", "50", "--air-speed", "-1m/s");
         assertEquals(Main.USAGE, speed.code());
         assertTrue(speed.err().contains("cannot be negative"), speed.err());
 
-        Run unit = run("calc", "--dry-bulb", "20X", "--rh", "50");
+        CliRun unit = run("calc", "--dry-bulb", "20X", "--rh", "50");
         assertEquals(Main.USAGE, unit.code());
         assertTrue(unit.err().contains("unknown unit 'X'"), unit.err());
 
-        Run both = run("calc", "--dry-bulb", "20C", "--rh", "50", "--wet-bulb", "15C");
+        CliRun both = run("calc", "--dry-bulb", "20C", "--rh", "50", "--wet-bulb", "15C");
         assertEquals(Main.USAGE, both.code());
 
-        Run none = run("calc", "--rh", "50");
+        CliRun none = run("calc", "--rh", "50");
         assertEquals(Main.USAGE, none.code());
     }
 }

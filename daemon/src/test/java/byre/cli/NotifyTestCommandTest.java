@@ -17,23 +17,12 @@ import org.junit.jupiter.api.io.TempDir;
 
 /** {@code byre notify-test} and {@code byre ack} against real HTTP servers on 127.0.0.1. */
 class NotifyTestCommandTest {
-    record Run(int code, String out, String err) {}
 
     @TempDir
     Path dir;
 
-    static Run run(String... args) {
-        PrintStream oldOut = System.out, oldErr = System.err;
-        ByteArrayOutputStream out = new ByteArrayOutputStream(), err = new ByteArrayOutputStream();
-        try {
-            System.setOut(new PrintStream(out, true, StandardCharsets.UTF_8));
-            System.setErr(new PrintStream(err, true, StandardCharsets.UTF_8));
-            int code = Main.execute(args);
-            return new Run(code, out.toString(StandardCharsets.UTF_8), err.toString(StandardCharsets.UTF_8));
-        } finally {
-            System.setOut(oldOut);
-            System.setErr(oldErr);
-        }
+    static CliRun run(String... args) {
+        return CliRun.of(args);
     }
 
     HttpServer server(int status, String answer, List<String> bodies) throws Exception {
@@ -67,7 +56,7 @@ class NotifyTestCommandTest {
         List<String> got = new CopyOnWriteArrayList<>();
         HttpServer s = server(204, "", got);
         try {
-            Run r = run("notify-test", "night-phone", "--config", config(s.getAddress().getPort(), 0).toString());
+            CliRun r = run("notify-test", "night-phone", "--config", config(s.getAddress().getPort(), 0).toString());
             assertEquals(0, r.code(), r.err());
             assertTrue(r.out().startsWith("ok: test event "), r.out());
             assertTrue(got.get(0).contains("\"event\":\"test\""), got.get(0));
@@ -80,7 +69,7 @@ class NotifyTestCommandTest {
     void reportsTheHttpStatusAndBodyExcerptAndExitsOne() throws Exception {
         HttpServer s = server(401, "{\"error\":\"bad app token\"}", new CopyOnWriteArrayList<>());
         try {
-            Run r = run("notify-test", "night-phone", "--config", config(s.getAddress().getPort(), 0).toString());
+            CliRun r = run("notify-test", "night-phone", "--config", config(s.getAddress().getPort(), 0).toString());
             assertEquals(1, r.code());
             assertTrue(r.out().contains("FAILED (http-status): night-phone (webhook): HTTP 401 from http://127.0.0.1:"), r.out());
             assertTrue(r.out().contains("{\"error\":\"bad app token\"}"), r.out());
@@ -91,7 +80,7 @@ class NotifyTestCommandTest {
 
     @Test
     void anUnknownChannelGetsADidYouMeanAndExitTwo() throws Exception {
-        Run r = run("notify-test", "night-phon", "--config", config(9, 0).toString());
+        CliRun r = run("notify-test", "night-phon", "--config", config(9, 0).toString());
         assertEquals(2, r.code());
         assertTrue(r.err().contains("no channel named 'night-phon'") && r.err().contains("(did you mean 'night-phone'?)"), r.err());
     }
@@ -101,7 +90,7 @@ class NotifyTestCommandTest {
         List<String> got = new CopyOnWriteArrayList<>();
         HttpServer admin = server(200, "{\"status\":\"acknowledged\",\"incident\":\"k7q2m9xw3c\",\"detail\":\"acknowledged by Dana\"}", got);
         try {
-            Run r = run("ack", "k7q2m9xw3c", "--by", "Dana", "--config", config(9, admin.getAddress().getPort()).toString());
+            CliRun r = run("ack", "k7q2m9xw3c", "--by", "Dana", "--config", config(9, admin.getAddress().getPort()).toString());
             assertEquals(0, r.code(), r.err());
             assertEquals("incident k7q2m9xw3c: acknowledged by Dana\n", r.out());
             assertEquals("POST /ack Bearer t0ken-larkmoor {\"incident\":\"k7q2m9xw3c\",\"by\":\"Dana\"}", got.get(0));

@@ -29,22 +29,9 @@ class ReplayCommandTest {
               message "Heat stress in {zone}: THI {value}. Check fans and water."
             """;
 
-    record Run(int code, String out, String err) {}
 
-    Run run(String... args) {
-        PrintStream oldOut = System.out;
-        PrintStream oldErr = System.err;
-        ByteArrayOutputStream out = new ByteArrayOutputStream();
-        ByteArrayOutputStream err = new ByteArrayOutputStream();
-        System.setOut(new PrintStream(out, true, StandardCharsets.UTF_8));
-        System.setErr(new PrintStream(err, true, StandardCharsets.UTF_8));
-        try {
-            int code = Main.execute(args);
-            return new Run(code, out.toString(StandardCharsets.UTF_8), err.toString(StandardCharsets.UTF_8));
-        } finally {
-            System.setOut(oldOut);
-            System.setErr(oldErr);
-        }
+    static CliRun run(String... args) {
+        return CliRun.of(args);
     }
 
     /** THI 65 rising to 75 by 13:00 UTC, holding until 16:00, falling to 65 by 18:00; a reading a minute. */
@@ -63,7 +50,7 @@ class ReplayCommandTest {
     @Test
     void printsTheEventsInOrderWithTheirTimes() throws Exception {
         Path rules = Files.writeString(dir.resolve("heat.rules"), HEAT);
-        Run r = run("replay", "--rules", rules.toString(), "--readings", afternoon().toString(), "--json");
+        CliRun r = run("replay", "--rules", rules.toString(), "--readings", afternoon().toString(), "--json");
         assertEquals(0, r.code(), r.err());
         List<String> lines = r.out().lines().toList();
         // THI reaches 72 at 12:06 (65 + 126 * 10/180 = 72.0): raised 30 min later at 12:36.
@@ -81,13 +68,13 @@ class ReplayCommandTest {
     void badReadingsAndRulesAreUsageErrorsWithPositions() throws Exception {
         Path rules = Files.writeString(dir.resolve("heat.rules"), HEAT);
         Path csv = Files.writeString(dir.resolve("bad.csv"), "time,zone,quantity,value,unit\n2026-07-14T10:00:00Z,cows,thj,70,\nyesterday,cows,thi,70,\n");
-        Run r = run("replay", "--rules", rules.toString(), "--readings", csv.toString());
+        CliRun r = run("replay", "--rules", rules.toString(), "--readings", csv.toString());
         assertEquals(Main.USAGE, r.code());
         assertTrue(r.err().contains(csv + ":2:27: unknown quantity 'thj' (did you mean 'thi'?)"), r.err());
         assertTrue(r.err().contains(csv + ":3:1: not a time: 'yesterday'"), r.err());
 
         Path badRules = Files.writeString(dir.resolve("bad.rules"), "watch w\n  raise when cows.thi >= 72 fr 30m\n");
-        Run r2 = run("replay", "--rules", badRules.toString(), "--readings", afternoon().toString());
+        CliRun r2 = run("replay", "--rules", badRules.toString(), "--readings", afternoon().toString());
         assertEquals(Main.USAGE, r2.code());
         assertTrue(r2.err().contains("bad.rules:2:"), r2.err());
 

@@ -1,5 +1,6 @@
 package byre.notify;
 
+import byre.testing.MutableClock;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
