@@ -19,7 +19,7 @@ final class BenchRules {
 
     private BenchRules() {}
 
-    /** Writes {@code zones} watches (one file) into {@code dir}; with {@code probe}, also the probe watch. */
+    /** Writes one watch for each of {@code zones} zones (one file, none for 0) into {@code dir}; with {@code probe}, also the probe watch. */
     static void write(Path dir, int zones, boolean probe) throws IOException {
         Files.createDirectories(dir);
         StringBuilder sb = new StringBuilder("# Benchmark watches: heat by the mean THI in every load zone.\n");
@@ -31,7 +31,7 @@ final class BenchRules {
                     .append("  level warning\n  notify hook\n")
                     .append("  message \"THI {value} in {zone}\"\n\n");
         }
-        Files.writeString(dir.resolve("heat.rules"), sb.toString());
+        if (zones > 0) Files.writeString(dir.resolve("heat.rules"), sb.toString());
         if (probe) {
             Files.writeString(dir.resolve("probe.rules"), "# Alert latency probe: no hold time.\nwatch hot-" + PROBE_ZONE + "\n"
                     + "  raise when " + PROBE_ZONE + ".dry-bulb > 40 C\n"
