@@ -87,6 +87,7 @@ public final class ZoneStage {
         z.values[q] = r.value();
         z.atMillis[q] = t;
         out.accept(new ZoneReading(r.at(), z.config.id(), r.quantity(), r.value()));
+        // Long.MIN_VALUE = never derived (t - MIN_VALUE would overflow and put off the first derivation for ever).
         if (t >= z.lastDerivedMs && t - z.lastDerivedMs < MIN_DERIVE_INTERVAL_MS) {
             z.pendingAt = r.at();
             return;

@@ -36,9 +36,12 @@ import org.eclipse.paho.client.mqttv3.persist.MemoryPersistence;
  * subscriber's last arrival, and byre's history holding all but the last batch (1000 rows) of the run's readings.
  * Also: byre's start-up (launch to connected; launch to the first committed row), resident memory, heap after a
  * full GC, database bytes per reading, and the zone derivation rate ({@link DerivationBench}).
- * TODO when the rules module lands: 50 watches in the configuration, replay throughput, alert latency p50/p99.
+ * byre's configuration holds 50 watches, one per zone on the derived THI with hold times and hysteresis, notifying a
+ * webhook channel that posts to a local HTTP server ({@link BenchRules}, {@link HookSink}). Then, as separate phases:
+ * alert latency p50/p99 under background load ({@link AlertLatencyBench}) and replay throughput ({@link ReplayBench}).
  *
- * <p>Run: {@code daemon/src/test/bench/run.sh} (builds, then runs this main; options: --rounds N --count0 N --count1 N).
+ * <p>Run: {@code daemon/src/test/bench/run.sh} (builds, then runs this main; options: --rounds N --count0 N --count1 N
+ * --watches N, where 0 runs the ingest rounds without watches for comparison).
  */
 public final class IngestBench {
     static final int SENSORS = 200;
@@ -50,21 +53,24 @@ public final class IngestBench {
     public static void main(String[] args) throws Exception {
         int rounds = 3;
         long count0 = 200_000, count1 = 100_000;
+        int watches = ZONES;
         for (int i = 0; i + 1 < args.length; i += 2) {
             switch (args[i]) {
                 case "--rounds": rounds = Integer.parseInt(args[i + 1]); break;
                 case "--count0": count0 = Long.parseLong(args[i + 1]); break;
                 case "--count1": count1 = Long.parseLong(args[i + 1]); break;
+                case "--watches": watches = Integer.parseInt(args[i + 1]); break; // 0: ingest without watches, to compare
                 default: throw new IllegalArgumentException("unknown option " + args[i]);
             }
         }
         Path work = Files.createTempDirectory("byre-bench");
         Path db = work.resolve("history.db");
         Path config = work.resolve("byre.yaml");
-        Files.createDirectories(work.resolve("rules.d"));
+        BenchRules.write(work.resolve("rules.d"), watches, false);
         List<String[]> table = new ArrayList<>();
-        try (Mosquitto m = Mosquitto.start()) {
-            Files.writeString(config, LoadConfig.yaml(SENSORS, ZONES, m.uri(), null, "load", work.resolve("rules.d"), db));
+        try (Mosquitto m = Mosquitto.start(); HookSink sink = new HookSink()) {
+            Files.writeString(config, BenchRules.config(
+                    LoadConfig.yaml(SENSORS, ZONES, m.uri(), null, "load", work.resolve("rules.d"), db), sink, false));
             // A retained reading waits for byre: start-up is measured to the moment it is stored.
             try (MqttClient c = client(m.uri(), "bench-retained")) {
                 c.publish(LoadConfig.topic("load", 0, SENSORS, ZONES),
@@ -84,6 +90,7 @@ public final class IngestBench {
                     Thread.sleep(10);
                 }
                 Thread.sleep(2000);
+                if (byre.log().contains("rule files have")) throw new IllegalStateException("the benchmark's rules do not load:\n" + byre.log());
                 long idleRssKb = byre.procStatusKb("VmRSS");
 
                 Round[] q0 = new Round[rounds], q1 = new Round[rounds];
@@ -125,12 +132,17 @@ public final class IngestBench {
                 table.add(row("database bytes per reading (raw + zone rows + rollups)", String.format(Locale.ROOT, "%.1f", (double) bytes / rows),
                         "24.6 (bare WITHOUT ROWID, platform notes)", String.format(Locale.ROOT, "%.2f", bytes / (double) rows / 24.6)));
                 table.add(row("byre exit code on SIGTERM", Integer.toString(code), "143 = clean JVM exit", ""));
+                table.add(row("webhook requests from the " + watches + " THI watches during the ingest rounds",
+                        Long.toString(sink.requests.get()), "", "readings span ~1 s of reading time per round"));
             } finally {
                 if (byre.isAlive()) byre.kill9();
             }
+            System.out.println("alert latency phase ...");
+            AlertLatencyBench.rows(AlertLatencyBench.run(m, 100, Duration.ofSeconds(50)), table);
         }
         derivation(table);
-        table.add(row("rules: 50 watches, replay rate, alert latency p50/p99", "TODO", "", "rules module not in this build"));
+        System.out.println("replay phase ...");
+        ReplayBench.rows(table, 1_000_000);
         print(table);
         try (var walk = Files.walk(work)) {
             walk.sorted(java.util.Comparator.reverseOrder()).forEach(f -> f.toFile().delete());

@@ -1,0 +1,156 @@
+package byre.bench;
+
+import byre.demo.LoadConfig;
+import byre.testing.ByreProcess;
+import byre.testing.Mosquitto;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.time.Duration;
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.List;
+import java.util.Locale;
+import java.util.concurrent.BlockingQueue;
+import java.util.concurrent.LinkedBlockingQueue;
+import java.util.concurrent.TimeUnit;
+import java.util.concurrent.atomic.AtomicBoolean;
+import org.eclipse.paho.client.mqttv3.MqttClient;
+import org.eclipse.paho.client.mqttv3.MqttMessage;
+
+/**
+ * Alert latency (a main, not a test): byre as its own JVM with the service's heap options, 50 THI watches plus one
+ * probe watch without a hold time ({@code raise when z51.dry-bulb > 40 C}, {@code clear when z51.dry-bulb < 38 C}),
+ * background load of 200 sensors at one reading a second each. Each cycle publishes a probe reading of 45 C (QoS 1),
+ * waits for the {@code raised} webhook request at a local HTTP server, then 20 C and the {@code cleared} request;
+ * the latency is publish to request arrival. Baseline, interleaved in the same cycles on the same broker: a bare
+ * Paho publish (QoS 1) to a Paho subscriber. The first cycles are warm-up and not counted; bounded by cycle count
+ * and time.
+ */
+public final class AlertLatencyBench {
+    static final int SENSORS = 200;
+    static final int ZONES = 50;
+    static final int WARMUP = 5;
+
+    record Result(double[] alertMs, double[] bareMs, long timeouts, long hookRequests) {}
+
+    public static void main(String[] args) throws Exception {
+        int cycles = args.length > 0 ? Integer.parseInt(args[0]) : 100;
+        try (Mosquitto m = Mosquitto.start()) {
+            List<String[]> table = new ArrayList<>();
+            rows(run(m, cycles, Duration.ofSeconds(50)), table);
+            IngestBench.print(table);
+        }
+    }
+
+    static Result run(Mosquitto m, int cycles, Duration bound) throws Exception {
+        Path work = Files.createTempDirectory("byre-latency");
+        Path rules = work.resolve("rules.d");
+        BenchRules.write(rules, ZONES, true);
+        Path config = work.resolve("byre.yaml");
+        try (HookSink sink = new HookSink()) {
+            Files.writeString(config, BenchRules.config(
+                    LoadConfig.yaml(SENSORS, ZONES, m.uri(), null, "bg", rules, work.resolve("history.db")), sink, true));
+            ByreProcess byre = ByreProcess.launch(config, List.of());
+            AtomicBoolean stop = new AtomicBoolean();
+            Thread background = new Thread(() -> background(m, stop), "bench-background");
+            try {
+                long until = System.nanoTime() + Duration.ofSeconds(30).toNanos();
+                while (!byre.log().contains("connected to MQTT broker") && System.nanoTime() < until) Thread.sleep(10);
+                if (!byre.log().contains("connected to MQTT broker")) throw new IllegalStateException("byre did not connect:\n" + byre.log());
+                background.start();
+                Thread.sleep(3000); // background load running, zones derived, watches live
+
+                BlockingQueue<Long> bareArrivals = new LinkedBlockingQueue<>();
+                MqttClient bareSub = IngestBench.client(m.uri(), "bench-rtt-sub");
+                bareSub.subscribe("rtt/#", 1, (t, msg) -> bareArrivals.add(System.nanoTime()));
+                MqttClient pub = IngestBench.client(m.uri(), "bench-probe");
+                List<Double> alert = new ArrayList<>(), bare = new ArrayList<>();
+                long timeouts = 0, lastTs = 0;
+                long end = System.nanoTime() + bound.toNanos();
+                for (int i = 0; i < cycles + WARMUP && System.nanoTime() < end; i++) {
+                    for (String[] step : new String[][] {{"45.00", "raised"}, {"20.00", "cleared"}}) {
+                        // baseline: bare publish -> subscribe
+                        long t = System.nanoTime();
+                        pub.publish("rtt/probe", msg("{\"v\":1}"));
+                        Long got = bareArrivals.poll(5, TimeUnit.SECONDS);
+                        if (got != null && i >= WARMUP) bare.add((got - t) / 1e6);
+
+                        long ts = Math.max(lastTs + 1, System.currentTimeMillis());
+                        lastTs = ts;
+                        sink.probes.clear();
+                        long t0 = System.nanoTime();
+                        pub.publish(BenchRules.PROBE_TOPIC, msg("{\"v\":" + step[0] + ",\"ts\":" + ts + "}"));
+                        HookSink.Arrival a;
+                        do {
+                            a = sink.probes.poll(5, TimeUnit.SECONDS);
+                        } while (a != null && !a.event().equals(step[1]));
+                        if (a == null) {
+                            timeouts++;
+                        } else if (i >= WARMUP) {
+                            alert.add((a.nanos() - t0) / 1e6);
+                        }
+                    }
+                }
+                pub.disconnect();
+                bareSub.disconnect();
+                stop.set(true);
+                background.join(5000);
+                byre.stop(30);
+                return new Result(alert.stream().mapToDouble(Double::doubleValue).toArray(),
+                        bare.stream().mapToDouble(Double::doubleValue).toArray(), timeouts, sink.requests.get());
+            } finally {
+                stop.set(true);
+                if (byre.isAlive()) byre.kill9();
+                try (var walk = Files.walk(work)) {
+                    walk.sorted(java.util.Comparator.reverseOrder()).forEach(f -> f.toFile().delete());
+                }
+            }
+        }
+    }
+
+    /** 200 sensors, one reading a second each, spread over the second (QoS 1, sensors' own topics). */
+    static void background(Mosquitto m, AtomicBoolean stop) {
+        try {
+            MqttClient c = IngestBench.client(m.uri(), "bench-background");
+            String[] topics = new String[SENSORS];
+            for (int i = 0; i < SENSORS; i++) topics[i] = LoadConfig.topic("bg", i, SENSORS, ZONES);
+            long start = System.nanoTime();
+            for (long n = 0; !stop.get(); n++) {
+                long due = start + n * 1_000_000_000L / SENSORS;
+                long now;
+                while ((now = System.nanoTime()) < due) TimeUnit.NANOSECONDS.sleep(due - now);
+                int i = (int) (n % SENSORS);
+                c.publish(topics[i], msg(LoadConfig.payload(i, n / SENSORS, System.currentTimeMillis(), ZONES)));
+            }
+            c.disconnect();
+            c.close();
+        } catch (Exception e) {
+            if (!stop.get()) throw new RuntimeException(e);
+        }
+    }
+
+    static MqttMessage msg(String s) {
+        MqttMessage mm = new MqttMessage(s.getBytes(StandardCharsets.UTF_8));
+        mm.setQos(1);
+        return mm;
+    }
+
+    static void rows(Result r, List<String[]> table) {
+        table.add(IngestBench.row("alert latency p50 / p99, ms: publish -> webhook request (" + r.alertMs().length
+                        + " raise+clear, 200 sensors at 1/s behind)",
+                String.format(Locale.ROOT, "%.1f / %.1f", pct(r.alertMs(), 50), pct(r.alertMs(), 99)),
+                String.format(Locale.ROOT, "%.2f / %.2f (bare Paho publish -> subscribe)", pct(r.bareMs(), 50), pct(r.bareMs(), 99)),
+                String.format(Locale.ROOT, "%.0f x / %.0f x; %d timeouts", pct(r.alertMs(), 50) / pct(r.bareMs(), 50),
+                        pct(r.alertMs(), 99) / pct(r.bareMs(), 99), r.timeouts())));
+    }
+
+    /** Nearest-rank percentile. */
+    static double pct(double[] a, double p) {
+        if (a.length == 0) return Double.NaN;
+        double[] s = a.clone();
+        Arrays.sort(s);
+        int rank = (int) Math.ceil(p / 100.0 * s.length);
+        return s[Math.max(0, Math.min(s.length - 1, rank - 1))];
+    }
+}
