@@ -41,12 +41,14 @@ public final class FootprintBench {
         for (int run = 1; run <= runs; run++) {
             long emptyKb = emptyJvmRssKb(javaBin);
             Path dir = Files.createTempDirectory("byre-footprint");
-            try (Mosquitto broker = Mosquitto.start()) {
+            try (Mosquitto broker = Mosquitto.start(); HookSink sink = new HookSink()) {
                 int admin = Mosquitto.freePort();
                 Path rules = Files.createDirectories(dir.resolve("rules.d"));
+                // The target: 200 sensors at one reading a second with 50 watches.
+                BenchRules.write(rules, 50, false);
                 Path cfg = dir.resolve("byre.yaml");
-                Files.writeString(cfg, LoadConfig.yaml(200, 50, broker.uri(), null, "load", rules, dir.resolve("history.db"))
-                        + "\nadmin:\n  listen: 127.0.0.1:" + admin + "\n");
+                Files.writeString(cfg, BenchRules.config(LoadConfig.yaml(200, 50, broker.uri(), null, "load", rules, dir.resolve("history.db")),
+                        sink, false) + "\nadmin:\n  listen: 127.0.0.1:" + admin + "\n");
                 List<String> cmd = new ArrayList<>(List.of(javaBin));
                 cmd.addAll(List.of(FLAGS.split(" ")));
                 cmd.addAll(List.of("-jar", jar.toString(), "run", "--config", cfg.toString()));
