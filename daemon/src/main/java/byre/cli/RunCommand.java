@@ -51,6 +51,9 @@ final class RunCommand implements Callable<Integer> {
         }
         HealthMonitor health = new HealthMonitor(daemon::health);
         AdminServer admin = null;
+        if (cfg.admin().tokenProblem() != null) {
+            LOG.warn("{}: acknowledging through the admin API is off until the token file exists", cfg.admin().tokenProblem());
+        }
         if (cfg.admin().enabled()) {
             try {
                 admin = AdminServer.start(cfg.admin().host(), cfg.admin().port(), cfg.admin().token(), registry::scrape, health, live,

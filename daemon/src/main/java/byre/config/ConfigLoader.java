@@ -454,8 +454,23 @@ public final class ConfigLoader {
         Map<String, Node> m = node == null ? Map.of() : mapping(node, ADMIN_KEYS, "admin");
         String listen = string(m.get("listen"), "admin.listen", "127.0.0.1:9466");
         String[] hp = hostPort(m.get("listen"), "admin.listen", listen);
-        Secret token = secretFile(m.get("token-file"), "admin.token-file");
-        return new AdminSettings(hp[0], Integer.parseInt(hp[1]), token);
+        String tokenFile = string(m.get("token-file"), "admin.token-file", null);
+        Secret token = null;
+        String tokenProblem = null;
+        if (tokenFile != null) {
+            Path p = resolve(tokenFile);
+            try {
+                String v = Files.readString(p, StandardCharsets.UTF_8).strip();
+                if (v.isEmpty()) {
+                    tokenProblem = "admin.token-file " + p + " is empty";
+                } else {
+                    token = new Secret(v, p.toString());
+                }
+            } catch (IOException e) {
+                tokenProblem = "admin.token-file: cannot read " + p + " (" + describe(e) + ")";
+            }
+        }
+        return new AdminSettings(hp[0], Integer.parseInt(hp[1]), token, tokenProblem);
     }
 
     // ---- typed accessors; each records a problem and returns a fallback on a wrong type ----
