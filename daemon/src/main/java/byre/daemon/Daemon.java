@@ -13,7 +13,6 @@ import byre.zones.ZoneStage;
 import io.micrometer.core.instrument.Counter;
 import io.micrometer.core.instrument.Gauge;
 import io.micrometer.core.instrument.MeterRegistry;
-import java.io.IOException;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.time.Clock;
@@ -110,14 +109,14 @@ public final class Daemon implements AutoCloseable {
             });
             alerts = byre.notify.AlertServices.create(config, store, link, registry, clock);
             link.subscribe(alerts.ackTopic(), alerts::onAckMessage);
-            AlertLog alertLog = new AlertLog(alerts, link, config.mqtt().publishPrefix(), config.site(), config.timezone(), alertConsole, registry);
+            AlertStage alertStage = new AlertStage(alerts, link, config.mqtt().publishPrefix(), config.site(), config.timezone(), alertConsole, registry);
             if (config.alerts().digestAt() != null) {
                 String last = store.loadState(byre.notify.AlertService.DIGEST_KEY).get(byre.notify.AlertService.DIGEST_KEY);
                 alerts.scheduleDigest(config.alerts().digestAt(), config.timezone(), config.alerts().digestNotify(), config.site(),
-                        byre.alerts.IdSource.random(), (from, to) -> NightDigestReader.read(store, config, from, to, alertLog::episodes),
+                        byre.alerts.IdSource.random(), (from, to) -> NightDigestReader.read(store, config, from, to, alertStage::episodes),
                         last == null ? null : java.time.Instant.parse(last));
             }
-            watches = new WatchStage(ruleSet, store, config.timezone(), alertLog, clock.instant());
+            watches = new WatchStage(ruleSet, store, config.timezone(), alertStage, clock.instant());
             pipeline.addListener(watches);
             for (byre.rules.eval.AlertState st : byre.rules.eval.AlertState.values()) {
                 if (st == byre.rules.eval.AlertState.CLEAR) continue;
@@ -295,8 +294,4 @@ public final class Daemon implements AutoCloseable {
         }
     }
 
-    static Path ensureParent(Path p) throws IOException {
-        if (p.getParent() != null) Files.createDirectories(p.getParent());
-        return p;
-    }
 }

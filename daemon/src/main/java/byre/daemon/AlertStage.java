@@ -27,7 +27,7 @@ import org.slf4j.LoggerFactory;
  * {@code <prefix>/<site>/alerts/<watch>/<zone>} (design section 7), and remembers the episodes of
  * the last two days for the morning digest.
  */
-final class AlertLog implements WatchStage.Outcomes {
+final class AlertStage implements WatchStage.Outcomes {
     private static final Logger LOG = LoggerFactory.getLogger("byre.alerts");
     private static final DateTimeFormatter CLOCK = DateTimeFormatter.ofPattern("EEE HH:mm", Locale.ROOT);
 
@@ -41,7 +41,7 @@ final class AlertLog implements WatchStage.Outcomes {
 
     private final io.micrometer.core.instrument.MeterRegistry registry;
 
-    AlertLog(AlertService alerts, MqttLink link, String prefix, String site, ZoneId zone, Consumer<String> console,
+    AlertStage(AlertService alerts, MqttLink link, String prefix, String site, ZoneId zone, Consumer<String> console,
              io.micrometer.core.instrument.MeterRegistry registry) {
         this.registry = registry;
         this.alerts = alerts;
