@@ -96,17 +96,7 @@ public final class Daemon implements AutoCloseable {
             }
             link = new MqttLink(config.mqtt(), config.site(), registry);
             publisher = new ZoneStreamPublisher(link, config.mqtt().publishPrefix(), config.site());
-            pipeline.addListener(new Pipeline.ZoneListener() {
-                @Override
-                public void accept(byre.rules.ZoneReading r) {
-                    publisher.offer(r);
-                }
-
-                @Override
-                public void tick(java.time.Instant now) {
-                    publisher.flush();
-                }
-            });
+            pipeline.addListener(publisher);
             alerts = byre.notify.AlertServices.create(config, store, link, registry, clock);
             link.subscribe(alerts.ackTopic(), alerts::onAckMessage);
             AlertStage alertStage = new AlertStage(alerts, link, config.mqtt().publishPrefix(), config.site(), config.timezone(), alertConsole, registry);
@@ -124,24 +114,11 @@ public final class Daemon implements AutoCloseable {
                         .description("Watch instances by state (clear ones are not counted)").register(registry);
             }
             pipeline.addListener(new SelfWatch(writer, alerts));
-            pipeline.addListener(new Pipeline.ZoneListener() {
-                private java.time.Instant nextCheck = java.time.Instant.MIN;
-
-                @Override
-                public void accept(byre.rules.ZoneReading r) {}
-
-                @Override
-                public void tick(java.time.Instant now) {
-                    boolean due = !now.isBefore(nextCheck) || now.isBefore(nextCheck.minusSeconds(10));
-                    if (!reloadRequested && !due) return;
-                    nextCheck = now.plusSeconds(2);
-                    if (reloadRequested || rules.changed()) {
-                        reloadRequested = false;
-                        rules.load().ifPresentOrElse(rs -> watches.reload(rs, now),
-                                () -> LOG.error("reload refused: the rule files have errors; the previous rules keep running"));
-                    }
-                }
-            });
+            pipeline.addListener(new RuleReload(rules, watches, () -> {
+                boolean asked = reloadRequested;
+                reloadRequested = false;
+                return asked;
+            }));
             extraListeners.forEach(pipeline::addListener);
 
             IngestStage ingest = new IngestStage(config.sensors().values(), clock, registry, pipeline::offer, FLOOD_LIMIT_PER_SENSOR);

@@ -12,7 +12,7 @@ import java.util.concurrent.ConcurrentHashMap;
  * (design section 7). Values are coalesced: only the newest per stream is sent, at most once per
  * flush, so a burst of readings never turns into a burst of publications.
  */
-final class ZoneStreamPublisher {
+final class ZoneStreamPublisher implements Pipeline.ZoneListener {
     private final MqttLink link;
     private final String base;
     private final Map<String, ZoneReading> pending = new ConcurrentHashMap<>();
@@ -26,6 +26,16 @@ final class ZoneStreamPublisher {
     }
 
     /** Keeps the newest value per stream; the JSON is made at flush, once per stream and second at most. */
+    @Override
+    public void accept(ZoneReading r) {
+        offer(r);
+    }
+
+    @Override
+    public void tick(java.time.Instant now) {
+        flush();
+    }
+
     void offer(ZoneReading r) {
         String topic = topics.computeIfAbsent(r.zone(), z -> new ConcurrentHashMap<>())
                 .computeIfAbsent(r.quantity(), q -> base + r.zone() + "/" + q.id());

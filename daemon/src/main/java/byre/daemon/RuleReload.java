@@ -1,0 +1,41 @@
+package byre.daemon;
+
+import byre.rules.ZoneReading;
+import java.time.Instant;
+import java.util.function.BooleanSupplier;
+import org.slf4j.Logger;
+import org.slf4j.LoggerFactory;
+
+/**
+ * Reloads the rule files on the pipeline thread: every two seconds it looks for a changed file, and at
+ * once when asked (SIGHUP). A file with errors leaves the running rules in place.
+ */
+final class RuleReload implements Pipeline.ZoneListener {
+    private static final Logger LOG = LoggerFactory.getLogger(RuleReload.class);
+
+    private final RuleLoader rules;
+    private final WatchStage watches;
+    private final BooleanSupplier asked;
+    private Instant nextCheck = Instant.MIN;
+
+    RuleReload(RuleLoader rules, WatchStage watches, BooleanSupplier asked) {
+        this.rules = rules;
+        this.watches = watches;
+        this.asked = asked;
+    }
+
+    @Override
+    public void accept(ZoneReading r) {}
+
+    @Override
+    public void tick(Instant now) {
+        boolean requested = asked.getAsBoolean();
+        boolean due = !now.isBefore(nextCheck) || now.isBefore(nextCheck.minusSeconds(10));
+        if (!requested && !due) return;
+        nextCheck = now.plusSeconds(2);
+        if (requested || rules.changed()) {
+            rules.load().ifPresentOrElse(rs -> watches.reload(rs, now),
+                    () -> LOG.error("reload refused: the rule files have errors; the previous rules keep running"));
+        }
+    }
+}

@@ -1,0 +1,75 @@
+package byre.daemon;
+
+import static org.awaitility.Awaitility.await;
+import static org.junit.jupiter.api.Assertions.assertEquals;
+
+import byre.config.ByreConfig;
+import byre.config.ConfigLoader;
+import byre.mqtt.EmbeddedBroker;
+import byre.rules.Watch;
+import byre.zones.ClimateDeriver;
+import io.micrometer.core.instrument.simple.SimpleMeterRegistry;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.nio.file.attribute.FileTime;
+import java.time.Clock;
+import java.time.Duration;
+import java.time.Instant;
+import java.util.List;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+
+/** The running daemon picks up an edited rule file within seconds, and keeps its rules when the edit is bad. */
+class RuleReloadTest {
+    @TempDir
+    Path dir;
+
+    static String watch(String name) {
+        return "watch " + name + "\n  raise when cows.thi >= 72 for 30m\n  clear when cows.thi <= 70 for 20m\n  notify office\n";
+    }
+
+    List<String> names(Daemon d) {
+        return d.watches().engine().rules().watches().stream().map(Watch::name).toList();
+    }
+
+    void edit(Path file, String text, int secondsLater) throws Exception {
+        Files.writeString(file, text);
+        // Make the change visible even on file systems with coarse modification times.
+        Files.setLastModifiedTime(file, FileTime.from(Instant.now().plusSeconds(secondsLater)));
+    }
+
+    @Test
+    void editsAreLoadedAndBadEditsKeepTheOldRules() throws Exception {
+        Path rules = Files.createDirectories(dir.resolve("rules.d"));
+        Path heat = rules.resolve("heat.rules");
+        Files.writeString(heat, watch("heat-stress"));
+        String yaml = """
+                site: larkmoor
+                mqtt: { broker: embedded, listen: 127.0.0.1:%d, client-id: byre-reload-test }
+                sensors:
+                  shed-thi-dry: { topic: t/dry, quantity: dry-bulb }
+                  shed-rh: { topic: t/rh, quantity: rh }
+                zones:
+                  cows: { sensors: [shed-thi-dry, shed-rh] }
+                notify:
+                  office: { type: command, argv: [/bin/true] }
+                rules: rules.d
+                history: { path: history.db }
+                """.formatted(EmbeddedBroker.freePort("127.0.0.1"));
+        ByreConfig cfg = ConfigLoader.parse("byre.yaml", yaml, dir, n -> null);
+        try (Daemon d = Daemon.create(cfg, Clock.systemUTC(), new SimpleMeterRegistry()).start(new ClimateDeriver())) {
+            assertEquals(List.of("heat-stress"), names(d));
+            edit(heat, watch("heat-stress") + "\n" + watch("heat-danger"), 5);
+            await().atMost(Duration.ofSeconds(10)).until(() -> names(d).equals(List.of("heat-stress", "heat-danger")));
+
+            edit(heat, "watch broken\n  raise when cows.thii >= 72\n", 10);
+            Thread.sleep(3500); // longer than the 2 s check: the bad file has been seen and refused
+            assertEquals(List.of("heat-stress", "heat-danger"), names(d), "a bad file keeps the running rules");
+
+            edit(rules.resolve("cold.rules"), watch("cold"), 15);
+            edit(heat, watch("heat-stress"), 15);
+            d.reload(); // SIGHUP does the same at once
+            await().atMost(Duration.ofSeconds(5)).until(() -> names(d).equals(List.of("cold", "heat-stress")));
+        }
+    }
+}
