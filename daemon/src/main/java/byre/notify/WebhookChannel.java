@@ -71,15 +71,27 @@ public final class WebhookChannel implements Channel {
             HttpResponse<String> r = client.send(rb.build(), HttpResponse.BodyHandlers.ofString());
             if (r.statusCode() / 100 == 2) return DeliveryResult.success("HTTP " + r.statusCode());
             return DeliveryResult.failure(FailureReason.HTTP_STATUS,
-                    "HTTP " + r.statusCode() + " from " + url + ": " + DeliveryResult.excerpt(r.body(), 200));
+                    "HTTP " + r.statusCode() + " from " + shown(url) + ": " + DeliveryResult.excerpt(r.body(), 200));
         } catch (InterruptedException e) {
             Thread.currentThread().interrupt();
-            return DeliveryResult.failure(FailureReason.IO, "interrupted while posting to " + url);
+            return DeliveryResult.failure(FailureReason.IO, "interrupted while posting to " + shown(url));
         } catch (IllegalArgumentException e) {
-            return DeliveryResult.failure(FailureReason.CONFIG, "cannot post to " + url + ": " + e.getMessage());
+            return DeliveryResult.failure(FailureReason.CONFIG, "cannot post to " + shown(url) + ": " + e.getMessage());
         } catch (IOException e) {
             return classify(e, url);
         }
+    }
+
+    /**
+     * The address as it may appear in logs and messages: push services often put their key in the path
+     * or the query, so only the scheme, host, port and first path segment are shown.
+     */
+    static String shown(URI url) {
+        String path = url.getRawPath() == null ? "" : url.getRawPath();
+        int second = path.indexOf('/', 1);
+        String head = second > 0 ? path.substring(0, second) + "/…" : path;
+        return url.getScheme() + "://" + url.getHost() + (url.getPort() > 0 ? ":" + url.getPort() : "") + head
+                + (url.getRawQuery() != null ? "?…" : "");
     }
 
     static DeliveryResult classify(IOException e, URI url) {
@@ -88,7 +100,7 @@ public final class WebhookChannel implements Channel {
             return DeliveryResult.failure(FailureReason.TIMEOUT, "connecting to " + host + " timed out");
         }
         if (e instanceof HttpTimeoutException) {
-            return DeliveryResult.failure(FailureReason.TIMEOUT, "no answer from " + url + " in time");
+            return DeliveryResult.failure(FailureReason.TIMEOUT, "no answer from " + shown(url) + " in time");
         }
         for (Throwable t = e; t != null; t = t.getCause()) {
             if (t instanceof UnresolvedAddressException || t instanceof UnknownHostException) {
@@ -102,7 +114,7 @@ public final class WebhookChannel implements Channel {
             return DeliveryResult.failure(FailureReason.REFUSED, "connection to " + host + " refused or unreachable"
                     + (e.getMessage() == null ? "" : " (" + e.getMessage() + ")"));
         }
-        return DeliveryResult.failure(FailureReason.IO, "posting to " + url + " failed: " + e.getClass().getSimpleName()
+        return DeliveryResult.failure(FailureReason.IO, "posting to " + shown(url) + " failed: " + e.getClass().getSimpleName()
                 + (e.getMessage() == null ? "" : ": " + e.getMessage()));
     }
 }

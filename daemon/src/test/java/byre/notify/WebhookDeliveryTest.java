@@ -233,4 +233,11 @@ class WebhookDeliveryTest {
         assertTrue(hook.deliver(e).ok());
         assertEquals("{\"text\":\"Heat \\\"stress\\\" in cows (cows, ack i1)\"}", receiver.requests().get(0).body());
     }
+
+    @Test
+    void addressesInMessagesHideTheKeysPushServicesPutInPathAndQuery() {
+        String shown = WebhookChannel.shown(java.net.URI.create("https://push.example:8443/hook/s3cr3t-key/x?token=abc"));
+        org.junit.jupiter.api.Assertions.assertEquals("https://push.example:8443/hook/…?…", shown);
+        org.junit.jupiter.api.Assertions.assertEquals("http://127.0.0.1:9/hook", WebhookChannel.shown(java.net.URI.create("http://127.0.0.1:9/hook")));
+    }
 }
