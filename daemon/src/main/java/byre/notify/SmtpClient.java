@@ -41,7 +41,7 @@ public final class SmtpClient {
     private final Tls tls;
     private final int timeoutMs;
     private final SSLSocketFactory sslFactory;
-    private final List<String> transcript = new ArrayList<>();
+    private final List<String> dialogue = new ArrayList<>();
 
     public SmtpClient(String host, int port, Tls tls, int timeoutMs, SSLSocketFactory sslFactory) {
         this.host = host;
@@ -52,13 +52,13 @@ public final class SmtpClient {
     }
 
     /** The client's side of the last dialogue ("C: EHLO ...", passwords hidden) and the server's ("S: 250 ..."). */
-    public List<String> transcript() {
-        return List.copyOf(transcript);
+    public List<String> dialogue() {
+        return List.copyOf(dialogue);
     }
 
     /** Sends one message (headers and body already formatted with CRLF line ends, not dot-stuffed). */
     public void send(String from, List<String> to, String username, String password, String message) throws SmtpException {
-        transcript.clear();
+        dialogue.clear();
         Socket s = null;
         try {
             s = new Socket();
@@ -152,7 +152,7 @@ public final class SmtpClient {
         }
 
         List<String> secret(String line, String shown, String step, int... ok) throws IOException, SmtpException {
-            transcript.add("C: " + shown);
+            dialogue.add("C: " + shown);
             out.write((line + "\r\n").getBytes(StandardCharsets.UTF_8));
             out.flush();
             return expect(step, ok);
@@ -165,7 +165,7 @@ public final class SmtpClient {
                 sb.append(l).append("\r\n");
             }
             sb.append(".\r\n");
-            transcript.add("C: <message, " + sb.length() + " bytes>");
+            dialogue.add("C: <message, " + sb.length() + " bytes>");
             out.write(sb.toString().getBytes(StandardCharsets.UTF_8));
             out.flush();
         }
@@ -179,7 +179,7 @@ public final class SmtpClient {
                 String l = in.readLine();
                 if (l == null) throw new SmtpException(FailureReason.SMTP_REPLY, step + ": the server closed the connection"
                         + (raw.length() == 0 ? "" : " after \"" + raw + "\""));
-                transcript.add("S: " + l);
+                dialogue.add("S: " + l);
                 if (raw.length() > 0) raw.append(" | ");
                 raw.append(l);
                 if (l.length() < 3) throw new SmtpException(FailureReason.SMTP_REPLY, step + ": malformed reply \"" + l + "\"");
