@@ -173,4 +173,16 @@ final class Mutator {
         }
         return sb.append('"').toString();
     }
+
+    /** "threw X at <first byre frame>": where in byre's own code an escaped exception came from. */
+    static String thrown(Throwable e) {
+        StringBuilder where = new StringBuilder(e.toString());
+        for (StackTraceElement s : e.getStackTrace()) {
+            if (s.getClassName().startsWith("byre.")) {
+                where.append(" at ").append(s);
+                break;
+            }
+        }
+        return "threw " + where;
+    }
 }

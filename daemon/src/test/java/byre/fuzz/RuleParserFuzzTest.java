@@ -101,14 +101,7 @@ class RuleParserFuzzTest {
             }
             return null;
         } catch (RuntimeException | StackOverflowError e) {
-            StringBuilder where = new StringBuilder(e.toString());
-            for (StackTraceElement s : e.getStackTrace()) {
-                if (s.getClassName().startsWith("byre.")) {
-                    where.append(" at ").append(s);
-                    break;
-                }
-            }
-            return "threw " + where;
+            return Mutator.thrown(e);
         }
     }
 
