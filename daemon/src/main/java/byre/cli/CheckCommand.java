@@ -40,7 +40,9 @@ final class CheckCommand implements Callable<Integer> {
             System.err.println("byre check: " + e.getMessage());
             return Main.USAGE;
         }
-        CompileResult result = RuleCompiler.compile(sources, new ConfigRuleContext(cfg));
+        // Hold times are compared with how often the streams really report, where the history knows it.
+        CompileResult result = RuleCompiler.compile(sources,
+                new ConfigRuleContext(cfg, byre.daemon.ReportingIntervals.fromHistory(cfg, java.time.Instant.now())));
         if (!result.diagnostics().isEmpty()) System.err.println(result.render() + "\n");
         int watches = result.ruleSet().map(rs -> rs.watches().size()).orElse(0);
         if (result.hasErrors()) {

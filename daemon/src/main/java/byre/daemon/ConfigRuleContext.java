@@ -18,8 +18,16 @@ public final class ConfigRuleContext implements RuleContext {
     private final Map<String, Set<String>> groups = new LinkedHashMap<>();
     private final Map<String, Set<Quantity>> streams = new LinkedHashMap<>();
 
+    private final Map<String, Map<Quantity, Duration>> intervals;
+
     public ConfigRuleContext(ByreConfig config) {
+        this(config, Map.of());
+    }
+
+    /** With the streams' reporting intervals (zone, then quantity), e.g. from {@link ReportingIntervals}. */
+    public ConfigRuleContext(ByreConfig config, Map<String, Map<Quantity, Duration>> intervals) {
         this.config = config;
+        this.intervals = intervals;
         for (ZoneConfig z : config.zones().values()) {
             for (String g : z.groups()) groups.computeIfAbsent(g, k -> new LinkedHashSet<>()).add(z.id());
             streams.put(z.id(), streamsOf(z, config));
@@ -62,6 +70,11 @@ public final class ConfigRuleContext implements RuleContext {
     @Override
     public Set<String> channels() {
         return config.channels().keySet();
+    }
+
+    @Override
+    public java.util.Optional<Duration> reportingInterval(String zone, Quantity quantity) {
+        return java.util.Optional.ofNullable(intervals.getOrDefault(zone, Map.of()).get(quantity));
     }
 
     @Override

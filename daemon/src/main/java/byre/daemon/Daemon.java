@@ -77,7 +77,7 @@ public final class Daemon implements AutoCloseable {
      */
     public Daemon start(ZoneDeriver deriver) throws Exception {
         try {
-            rules = new RuleLoader(config);
+            rules = new RuleLoader(config, clock);
             byre.rules.RuleSet ruleSet = rules.load()
                     .orElseThrow(() -> new StartException("the rule files have errors (listed above); run 'byre check'"));
             Path db = config.history().path();

@@ -16,10 +16,12 @@ final class RuleLoader {
     private static final Logger LOG = LoggerFactory.getLogger(RuleLoader.class);
 
     private final ByreConfig config;
+    private final java.time.Clock clock;
     private String fingerprint = "";
 
-    RuleLoader(ByreConfig config) {
+    RuleLoader(ByreConfig config, java.time.Clock clock) {
         this.config = config;
+        this.clock = clock;
     }
 
     List<Path> paths() {
@@ -36,7 +38,8 @@ final class RuleLoader {
         fingerprint = RuleFiles.fingerprint(paths());
         CompileResult result;
         try {
-            result = RuleCompiler.compile(RuleFiles.read(paths()), new ConfigRuleContext(config));
+            result = RuleCompiler.compile(RuleFiles.read(paths()),
+                    new ConfigRuleContext(config, ReportingIntervals.fromHistory(config, clock.instant())));
         } catch (IOException e) {
             LOG.error("cannot read rule files: {}", e.getMessage());
             return Optional.empty();

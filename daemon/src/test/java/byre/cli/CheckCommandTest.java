@@ -1,0 +1,80 @@
+package byre.cli;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import byre.history.HistoryStore;
+import byre.history.HistoryWriter;
+import byre.history.Retention;
+import byre.history.StreamKey;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.time.Clock;
+import java.time.Instant;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+
+/** {@code byre check}: every problem at once, exit codes, the safety note, and hold times against real reporting. */
+class CheckCommandTest {
+    @TempDir
+    Path dir;
+
+    Path config() throws Exception {
+        return Files.writeString(dir.resolve("byre.yaml"), """
+                site: larkmoor
+                sensors:
+                  shed-dry: { topic: t/dry, quantity: dry-bulb }
+                  shed-rh: { topic: t/rh, quantity: rh }
+                zones:
+                  cow-shed: { groups: [cows], sensors: [shed-dry, shed-rh] }
+                notify:
+                  office: { type: command, argv: [/bin/true] }
+                rules: rules.d
+                history: { path: history.db }
+                """);
+    }
+
+    @Test
+    void aGoodFileIsOkAndCarriesTheSafetyNote() throws Exception {
+        Files.createDirectories(dir.resolve("rules.d"));
+        Files.writeString(dir.resolve("rules.d/heat.rules"),
+                "watch heat\n  raise when cow-shed.thi >= 72 for 30m\n  clear when cow-shed.thi <= 70 for 20m\n  notify office\n");
+        CliRun r = CliRun.of("check", "--config", config().toString());
+        assertEquals(Main.OK, r.code(), r.err());
+        assertTrue(r.out().contains("1 rule file ok, 1 watch, 0 warnings"), r.out());
+        assertTrue(r.out().contains("veterinarian"), r.out());
+    }
+
+    @Test
+    void everyProblemAtOnceWithPositionsAndANonZeroExit() throws Exception {
+        Files.createDirectories(dir.resolve("rules.d"));
+        Files.writeString(dir.resolve("rules.d/bad.rules"),
+                "watch a\n  raise when cow-shed.thii >= 72\n  notify ofice\n");
+        CliRun r = CliRun.of("check", "--config", config().toString());
+        assertEquals(Main.USAGE, r.code());
+        assertTrue(r.err().contains("bad.rules:2:23: unknown quantity 'thii' (did you mean 'thi'?)"), r.err());
+        assertTrue(r.err().contains("bad.rules:3:10: unknown channel 'ofice' (did you mean 'office'?)"), r.err());
+    }
+
+    @Test
+    void aHoldShorterThanTheRealReportingIntervalIsWarnedAbout() throws Exception {
+        config();
+        // The history says the shed's sensors report once a minute.
+        Instant now = Instant.now();
+        try (HistoryStore store = HistoryStore.open(dir.resolve("history.db"))) {
+            HistoryWriter w = HistoryWriter.start(store, Retention.DEFAULT, Clock.systemUTC());
+            for (int i = 60; i > 0; i--) {
+                w.append(StreamKey.sensor("shed-dry"), now.minusSeconds(60L * i), 20.0 + i * 0.01);
+                w.append(StreamKey.sensor("shed-rh"), now.minusSeconds(60L * i + 7), 60.0);
+            }
+            w.close();
+        }
+        Path quick = Files.writeString(dir.resolve("quick.rules"),
+                "watch quick\n  raise when cow-shed.dry-bulb > 30 C for 20s\n  clear when cow-shed.dry-bulb < 28 C for 20s\n  notify office\n");
+
+        CliRun r = CliRun.of("check", "--config", dir.resolve("byre.yaml").toString(), quick.toString());
+        assertEquals(Main.OK, r.code(), "warnings do not fail the check");
+        assertTrue(r.err().contains("quick.rules:2:43: warning: hold time 20s is shorter than the 1m reporting interval of cow-shed.dry-bulb"),
+                r.err());
+    }
+}
