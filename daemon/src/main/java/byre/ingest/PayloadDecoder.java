@@ -31,7 +31,10 @@ public final class PayloadDecoder {
             return Decoded.rejected(RejectReason.TOO_LARGE, payload.length + " bytes");
         }
         String text;
-        try {
+        if (isAscii(payload)) {
+            // Nearly every payload is ASCII: no strict UTF-8 decoder (and its buffers) needed.
+            text = new String(payload, StandardCharsets.ISO_8859_1).strip();
+        } else try {
             text = StandardCharsets.UTF_8.newDecoder().onMalformedInput(CodingErrorAction.REPORT)
                     .onUnmappableCharacter(CodingErrorAction.REPORT).decode(ByteBuffer.wrap(payload)).toString().strip();
         } catch (CharacterCodingException e) {
@@ -112,6 +115,11 @@ public final class PayloadDecoder {
             return finite(value, unit, time);
         }
         return Decoded.rejected(RejectReason.MISSING_FIELD, "no SenML record named '" + name + "'");
+    }
+
+    private static boolean isAscii(byte[] b) {
+        for (byte x : b) if (x < 0) return false;
+        return true;
     }
 
     /** SenML unit names (RFC 8428 section 12.1) for the quantities byre reads. */
