@@ -41,6 +41,7 @@ public final class IngestStage {
     private final MeterRegistry registry;
     private final Map<RejectReason, Counter> rejected = new EnumMap<>(RejectReason.class);
     private final Map<String, Counter> receivedBySensor = new ConcurrentHashMap<>();
+    private final Map<String, long[]> lastArrivalMs = new ConcurrentHashMap<>();
     private final Counter unknownTopic;
     private final Counter clockBefore2020;
     private final Counter clockAhead;
@@ -117,6 +118,7 @@ public final class IngestStage {
                 at = d.payloadTime();
             }
         }
+        if (at == arrival) at = distinctArrival(id, arrival);
         receivedBySensor.computeIfAbsent(id, k -> Counter.builder("byre.readings.received").tag("sensor", k)
                 .description("Readings accepted, per sensor").register(registry)).increment();
         Reading r = new Reading(id, q, canonical, at, ack);
@@ -128,6 +130,21 @@ public final class IngestStage {
         rejected.get(reason).increment();
         warnings.warn(sensorId + ":" + reason.id(), "sensor " + sensorId + ": rejected (" + reason.id() + "): " + detail);
         return null;
+    }
+
+    /**
+     * A reading stamped with its arrival time gets a time after the sensor's previous one: the history
+     * keeps one row per (sensor, millisecond), so two readings arriving in the same millisecond must not
+     * collapse into one. (Readings with their own time that collide are a redelivery and are kept once.)
+     */
+    private Instant distinctArrival(String sensorId, Instant arrival) {
+        long ms = arrival.toEpochMilli();
+        long[] last = lastArrivalMs.computeIfAbsent(sensorId, k -> new long[] {Long.MIN_VALUE});
+        synchronized (last) {
+            if (ms <= last[0] && last[0] - ms < 1000) ms = last[0] + 1;
+            last[0] = ms;
+        }
+        return ms == arrival.toEpochMilli() ? arrival : Instant.ofEpochMilli(ms);
     }
 
     /** Tells the stage that the broker connection was (re)established: a session backlog may follow. */

@@ -97,7 +97,8 @@ class IngestStageTest {
         assertEquals(tenSecondsAgo, send("barn/pen1/air", "{\"speed\":1,\"ts\":\"" + tenSecondsAgo + "\"}").at());
         // A Pi without a real-time clock boots in 1970: use the arrival time and count it.
         assertEquals(NOW, send("barn/pen1/air", "{\"speed\":1,\"ts\":86400}").at());
-        assertEquals(NOW, send("barn/pen1/air", "{\"speed\":1,\"ts\":" + NOW.plusSeconds(600).toEpochMilli() + "}").at());
+        // (The second arrival-stamped reading of the same sensor in the same millisecond is one millisecond later.)
+        assertEquals(NOW.plusMillis(1), send("barn/pen1/air", "{\"speed\":1,\"ts\":" + NOW.plusSeconds(600).toEpochMilli() + "}").at());
         assertEquals(1.0, registry.counter("byre.readings.time.replaced", "reason", "before-2020").count());
         assertEquals(1.0, registry.counter("byre.readings.time.replaced", "reason", "ahead").count());
         // SenML: base time plus time (RFC 8428 section 4.5.3).
@@ -118,5 +119,18 @@ class IngestStageTest {
         assertEquals(3000 - ok, (int) rejected("flood"));
         // A burst of 1000 passes (a session backlog after a restart), then about 50 per second.
         org.junit.jupiter.api.Assertions.assertTrue(ok >= 1000 && ok < 1500, "flood not throttled: " + ok);
+    }
+
+    @Test
+    void readingsArrivingInTheSameMillisecondKeepDistinctTimes() {
+        // The clock stands still (as it can between two messages): each reading still gets its own row time.
+        Reading a = send("barn/pen1/dry", "68");
+        Reading b = send("barn/pen1/dry", "69");
+        Reading c = send("barn/pen1/dry", "70");
+        assertEquals(NOW, a.at());
+        assertEquals(NOW.plusMillis(1), b.at());
+        assertEquals(NOW.plusMillis(2), c.at());
+        // Another sensor has its own sequence.
+        assertEquals(NOW, send("barn/pen7/wet", "12.5").at());
     }
 }
