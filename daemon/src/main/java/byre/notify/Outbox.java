@@ -36,57 +36,75 @@ public final class Outbox implements AutoCloseable {
      * @return the number of delivery rows created
      */
     public int enqueue(List<AlertEvent> events, Instant now) throws SQLException {
-        int rows = 0;
         synchronized (conn) {
-            boolean auto = conn.getAutoCommit();
-            conn.setAutoCommit(false);
-            try (PreparedStatement ev = conn.prepareStatement(
-                    "INSERT OR IGNORE INTO outbox_event(id, incident, kind, body, created) VALUES (?, ?, ?, ?, ?)");
-                 PreparedStatement seqOf = conn.prepareStatement("SELECT seq FROM outbox_event WHERE id = ?");
-                 PreparedStatement del = conn.prepareStatement(
-                         "INSERT OR IGNORE INTO outbox_delivery(channel, event, state, attempts, next_at) VALUES (?, ?, 'pending', 0, ?)");
-                 PreparedStatement drop = conn.prepareStatement("DELETE FROM outbox_event WHERE seq = ? AND NOT EXISTS "
-                         + "(SELECT 1 FROM outbox_delivery WHERE event = ?)");
-                 PreparedStatement pendingReminder = conn.prepareStatement(
-                         "SELECT 1 FROM outbox_delivery d JOIN outbox_event e ON e.seq = d.event "
-                         + "WHERE d.channel = ? AND d.state = 'pending' AND e.kind = 'reminder' AND e.incident = ? LIMIT 1")) {
-                for (AlertEvent e : events) {
-                    if (e.channels().isEmpty()) continue;
-                    ev.setString(1, e.id());
-                    ev.setString(2, e.incident());
-                    ev.setString(3, e.kind().id());
-                    ev.setString(4, e.toJson());
-                    ev.setLong(5, now.toEpochMilli());
-                    ev.executeUpdate();
-                    seqOf.setString(1, e.id());
-                    long seq;
-                    try (ResultSet rs = seqOf.executeQuery()) {
-                        rs.next();
-                        seq = rs.getLong(1);
-                    }
-                    for (String ch : e.channels()) {
-                        if (e.kind() == EventKind.REMINDER && e.incident() != null) {
-                            pendingReminder.setString(1, ch);
-                            pendingReminder.setString(2, e.incident());
-                            try (ResultSet rs = pendingReminder.executeQuery()) {
-                                if (rs.next()) continue;
-                            }
-                        }
-                        del.setString(1, ch);
-                        del.setLong(2, seq);
-                        del.setLong(3, now.toEpochMilli());
-                        rows += del.executeUpdate();
-                    }
-                    drop.setLong(1, seq); // every channel already holds a reminder of it: keep no orphan event
-                    drop.setLong(2, seq);
-                    drop.executeUpdate();
+            return inTransaction(() -> insertEvents(events, now));
+        }
+    }
+
+    /** Runs {@code work} in one transaction on the outbox connection (the caller holds its lock). */
+    private <T> T inTransaction(SqlWork<T> work) throws SQLException {
+        boolean auto = conn.getAutoCommit();
+        conn.setAutoCommit(false);
+        try {
+            T result = work.run();
+            conn.commit();
+            return result;
+        } catch (SQLException | RuntimeException ex) {
+            conn.rollback();
+            throw ex;
+        } finally {
+            conn.setAutoCommit(auto);
+        }
+    }
+
+    @FunctionalInterface
+    private interface SqlWork<T> {
+        T run() throws SQLException;
+    }
+
+    /** Inserts events and their deliveries inside the caller's transaction; returns the delivery rows created. */
+    private int insertEvents(List<AlertEvent> events, Instant now) throws SQLException {
+        int rows = 0;
+        try (PreparedStatement ev = conn.prepareStatement(
+                "INSERT OR IGNORE INTO outbox_event(id, incident, kind, body, created) VALUES (?, ?, ?, ?, ?)");
+             PreparedStatement seqOf = conn.prepareStatement("SELECT seq FROM outbox_event WHERE id = ?");
+             PreparedStatement del = conn.prepareStatement(
+                     "INSERT OR IGNORE INTO outbox_delivery(channel, event, state, attempts, next_at) VALUES (?, ?, 'pending', 0, ?)");
+             PreparedStatement drop = conn.prepareStatement("DELETE FROM outbox_event WHERE seq = ? AND NOT EXISTS "
+                     + "(SELECT 1 FROM outbox_delivery WHERE event = ?)");
+             PreparedStatement pendingReminder = conn.prepareStatement(
+                     "SELECT 1 FROM outbox_delivery d JOIN outbox_event e ON e.seq = d.event "
+                     + "WHERE d.channel = ? AND d.state = 'pending' AND e.kind = 'reminder' AND e.incident = ? LIMIT 1")) {
+            for (AlertEvent e : events) {
+                if (e.channels().isEmpty()) continue;
+                ev.setString(1, e.id());
+                ev.setString(2, e.incident());
+                ev.setString(3, e.kind().id());
+                ev.setString(4, e.toJson());
+                ev.setLong(5, now.toEpochMilli());
+                ev.executeUpdate();
+                seqOf.setString(1, e.id());
+                long seq;
+                try (ResultSet rs = seqOf.executeQuery()) {
+                    rs.next();
+                    seq = rs.getLong(1);
                 }
-                conn.commit();
-            } catch (SQLException | RuntimeException ex) {
-                conn.rollback();
-                throw ex;
-            } finally {
-                conn.setAutoCommit(auto);
+                for (String ch : e.channels()) {
+                    if (e.kind() == EventKind.REMINDER && e.incident() != null) {
+                        pendingReminder.setString(1, ch);
+                        pendingReminder.setString(2, e.incident());
+                        try (ResultSet rs = pendingReminder.executeQuery()) {
+                            if (rs.next()) continue;
+                        }
+                    }
+                    del.setString(1, ch);
+                    del.setLong(2, seq);
+                    del.setLong(3, now.toEpochMilli());
+                    rows += del.executeUpdate();
+                }
+                drop.setLong(1, seq); // every channel already holds a reminder of it: keep no orphan event
+                drop.setLong(2, seq);
+                drop.executeUpdate();
             }
         }
         return rows;
@@ -191,27 +209,24 @@ public final class Outbox implements AutoCloseable {
         }
     }
 
-    /** Marks {@code rows} as folded and queues {@code summary} for the channel, in one transaction. */
+    /**
+     * Marks {@code rows} as folded and queues {@code summary} for the channel, in one transaction: a crash
+     * can never leave events folded away without the summary that stands for them.
+     */
     public void fold(String channel, List<Row> rows, AlertEvent summary, Instant now) throws SQLException {
         synchronized (conn) {
-            boolean auto = conn.getAutoCommit();
-            conn.setAutoCommit(false);
-            try (PreparedStatement ps = conn.prepareStatement(
-                    "UPDATE outbox_delivery SET state = 'folded', done_at = ? WHERE channel = ? AND event = ?")) {
-                for (Row r : rows) {
-                    ps.setLong(1, now.toEpochMilli());
-                    ps.setString(2, channel);
-                    ps.setLong(3, r.seq());
-                    ps.executeUpdate();
+            inTransaction(() -> {
+                try (PreparedStatement ps = conn.prepareStatement(
+                        "UPDATE outbox_delivery SET state = 'folded', done_at = ? WHERE channel = ? AND event = ?")) {
+                    for (Row r : rows) {
+                        ps.setLong(1, now.toEpochMilli());
+                        ps.setString(2, channel);
+                        ps.setLong(3, r.seq());
+                        ps.executeUpdate();
+                    }
                 }
-                conn.commit();
-            } catch (SQLException | RuntimeException ex) {
-                conn.rollback();
-                throw ex;
-            } finally {
-                conn.setAutoCommit(auto);
-            }
-            enqueue(List.of(summary.to(List.of(channel))), now);
+                return insertEvents(List.of(summary.to(List.of(channel))), now);
+            });
         }
     }
 
