@@ -16,9 +16,15 @@ final class ConfigOption {
     Path file;
 
     Path path() {
+        Path p = explicitPath();
+        return p != null ? p : DEFAULT;
+    }
+
+    /** The file named by {@code --config} or {@code $BYRE_CONFIG}, or null (for verbs where the configuration is optional). */
+    Path explicitPath() {
         if (file != null) return file;
         String env = System.getenv("BYRE_CONFIG");
-        return env != null && !env.isBlank() ? Path.of(env) : DEFAULT;
+        return env != null && !env.isBlank() ? Path.of(env) : null;
     }
 
     /** Loads the configuration, or prints every problem and returns null. */

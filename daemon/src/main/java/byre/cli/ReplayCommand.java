@@ -65,8 +65,9 @@ final class ReplayCommand implements Callable<Integer> {
     @Option(names = "--to", paramLabel = "T", description = "... to T (default now).")
     String to;
 
-    @Option(names = "--config", paramLabel = "F", description = "Configuration (needed for the history and for time,sensor,value CSV).")
-    Path configFile;
+    /** Optional here: needed for the history and for time,sensor,value CSV. */
+    @picocli.CommandLine.Mixin
+    ConfigOption configOption = new ConfigOption();
 
     @Option(names = "--json", description = "One event object per line (design section 6).")
     boolean json;
@@ -79,7 +80,7 @@ final class ReplayCommand implements Callable<Integer> {
             return Main.USAGE;
         }
         ByreConfig config = null;
-        Path cfgPath = configFile != null ? configFile : envConfig();
+        Path cfgPath = configOption.explicitPath();
         if (cfgPath != null) {
             try {
                 config = ConfigLoader.load(cfgPath);
@@ -157,10 +158,6 @@ final class ReplayCommand implements Callable<Integer> {
         return Main.OK;
     }
 
-    private static Path envConfig() {
-        String env = System.getenv("BYRE_CONFIG");
-        return env == null || env.isBlank() ? null : Path.of(env);
-    }
 
     /** Rules checked against the zones a CSV names; any channel name is accepted (nothing is sent). */
     private static RuleContext csvContext(List<ZoneReading> rows) {

@@ -25,8 +25,6 @@ public final class ZoneStage {
      * skipped derivation is done by {@link #derivePending} on the next tick.
      */
     public static final long MIN_DERIVE_INTERVAL_MS = 1000;
-    /** Wet bulb above dry bulb by more than this is physically impossible: a wick or wiring fault. */
-    public static final double WET_ABOVE_DRY_TOLERANCE_C = 0.3;
 
     /** Counts what the stage noticed, for the metrics. */
     public interface Observer {
@@ -118,7 +116,7 @@ public final class ZoneStage {
         }
         double dry = z.fresh[Quantity.DRY_BULB.ordinal()];
         double wet = z.fresh[Quantity.WET_BULB.ordinal()];
-        if (wet - dry > WET_ABOVE_DRY_TOLERANCE_C) observer.wetBulbAboveDryBulb(z.config.id(), wet - dry);
+        if (wet - dry > byre.climate.ZoneClimate.WET_ABOVE_DRY_TOLERANCE_C) observer.wetBulbAboveDryBulb(z.config.id(), wet - dry);
 
         String problem = deriver.derive(z.config, z.fresh, z.derived);
         if (problem != null) observer.derivationSkipped(z.config.id(), problem);

@@ -2,7 +2,6 @@ package byre.testing;
 
 import java.io.IOException;
 import java.net.InetSocketAddress;
-import java.net.ServerSocket;
 import java.net.Socket;
 import java.nio.file.Files;
 import java.nio.file.Path;
@@ -102,10 +101,6 @@ public final class Mosquitto implements AutoCloseable {
     }
 
     public static int freePort() throws IOException {
-        try (ServerSocket s = new ServerSocket()) {
-            s.setReuseAddress(true);
-            s.bind(new InetSocketAddress("127.0.0.1", 0));
-            return s.getLocalPort();
-        }
+        return byre.mqtt.EmbeddedBroker.freePort("127.0.0.1");
     }
 }
