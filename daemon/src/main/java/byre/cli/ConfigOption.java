@@ -22,7 +22,11 @@ final class ConfigOption {
 
     /** The file named by {@code --config} or {@code $BYRE_CONFIG}, or null (for verbs where the configuration is optional). */
     Path explicitPath() {
-        if (file != null) return file;
+        return file != null ? file : fromEnvironment();
+    }
+
+    /** {@code $BYRE_CONFIG}, or null. */
+    static Path fromEnvironment() {
         String env = System.getenv("BYRE_CONFIG");
         return env != null && !env.isBlank() ? Path.of(env) : null;
     }

@@ -65,9 +65,8 @@ final class ReplayCommand implements Callable<Integer> {
     @Option(names = "--to", paramLabel = "T", description = "... to T (default now).")
     String to;
 
-    /** Optional here: needed for the history and for time,sensor,value CSV. */
-    @picocli.CommandLine.Mixin
-    ConfigOption configOption = new ConfigOption();
+    @Option(names = "--config", paramLabel = "F", description = "Configuration (default: $BYRE_CONFIG; needed for the history and for time,sensor,value CSV).")
+    Path configFile;
 
     @Option(names = "--json", description = "One event object per line (design section 6).")
     boolean json;
@@ -80,7 +79,7 @@ final class ReplayCommand implements Callable<Integer> {
             return Main.USAGE;
         }
         ByreConfig config = null;
-        Path cfgPath = configOption.explicitPath();
+        Path cfgPath = configFile != null ? configFile : ConfigOption.fromEnvironment();
         if (cfgPath != null) {
             try {
                 config = ConfigLoader.load(cfgPath);
