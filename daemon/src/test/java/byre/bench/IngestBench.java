@@ -40,8 +40,8 @@ import org.eclipse.paho.client.mqttv3.persist.MemoryPersistence;
  * webhook channel that posts to a local HTTP server ({@link BenchRules}, {@link HookSink}). Then, as separate phases:
  * alert latency p50/p99 under background load ({@link AlertLatencyBench}) and replay throughput ({@link ReplayBench}).
  *
- * <p>Run: {@code daemon/src/test/bench/run.sh} (builds, then runs this main; options: --rounds N --count0 N --count1 N
- * --watches N, where 0 runs the ingest rounds without watches for comparison).
+ * <p>Run: {@code daemon/src/test/bench/run.sh} (builds, then runs this main; options: --rounds N --count0 N --count1 N --warmup N
+ * --watches N, where 0 runs the ingest rounds without watches for comparison; --ingest-only true skips the later phases).
  */
 public final class IngestBench {
     static final int SENSORS = 200;
@@ -52,14 +52,17 @@ public final class IngestBench {
 
     public static void main(String[] args) throws Exception {
         int rounds = 3;
-        long count0 = 200_000, count1 = 100_000;
+        long count0 = 200_000, count1 = 100_000, warmup = 100_000;
         int watches = ZONES;
+        boolean ingestOnly = false;
         for (int i = 0; i + 1 < args.length; i += 2) {
             switch (args[i]) {
                 case "--rounds": rounds = Integer.parseInt(args[i + 1]); break;
                 case "--count0": count0 = Long.parseLong(args[i + 1]); break;
                 case "--count1": count1 = Long.parseLong(args[i + 1]); break;
+                case "--warmup": warmup = Long.parseLong(args[i + 1]); break; // readings each side gets before it is measured
                 case "--watches": watches = Integer.parseInt(args[i + 1]); break; // 0: ingest without watches, to compare
+                case "--ingest-only": ingestOnly = Boolean.parseBoolean(args[i + 1]); break; // true: skip the later phases
                 default: throw new IllegalArgumentException("unknown option " + args[i]);
             }
         }
@@ -94,6 +97,9 @@ public final class IngestBench {
                 long idleRssKb = byre.procStatusKb("VmRSS");
 
                 Round[] q0 = new Round[rounds], q1 = new Round[rounds];
+                // Sustained rates are those of warm JVMs: the bare subscriber lives in this JVM for the whole run, and
+                // every byre gets the same warm-up load (not measured) before its rounds.
+                if (warmup > 0) bare(m, 0, warmup);
                 for (int r = 0; r < rounds; r++) {
                     if (r > 0) {
                         // A fresh byre per round: 200 sensors flat out send far more than the flood gate's 50 readings/s
@@ -104,6 +110,7 @@ public final class IngestBench {
                         long until = System.nanoTime() + Duration.ofSeconds(30).toNanos();
                         while (!b.log().contains("connected to MQTT broker") && System.nanoTime() < until) Thread.sleep(10);
                     }
+                    if (warmup > 0) byreRound(m, db, 0, warmup);
                     q0[r] = round(m, db, 0, count0);
                     q1[r] = round(m, db, 1, count1);
                     System.out.printf(Locale.ROOT, "round %d: QoS 0 bare %.0f/s byre %.0f/s (%d/%d rows); QoS 1 bare %.0f/s byre %.0f/s (%d/%d rows)%n",
@@ -137,12 +144,16 @@ public final class IngestBench {
             } finally {
                 if (byre.isAlive()) byre.kill9();
             }
-            System.out.println("alert latency phase ...");
-            AlertLatencyBench.rows(AlertLatencyBench.run(m, 100, Duration.ofSeconds(50)), table);
+            if (!ingestOnly) {
+                System.out.println("alert latency phase ...");
+                AlertLatencyBench.rows(AlertLatencyBench.run(m, 100, Duration.ofSeconds(50)), table);
+            }
         }
-        derivation(table);
-        System.out.println("replay phase ...");
-        ReplayBench.rows(table, 1_000_000);
+        if (!ingestOnly) {
+            derivation(table);
+            System.out.println("replay phase ...");
+            ReplayBench.rows(table, 1_000_000);
+        }
         print(table);
         try (var walk = Files.walk(work)) {
             walk.sorted(java.util.Comparator.reverseOrder()).forEach(f -> f.toFile().delete());
@@ -155,7 +166,13 @@ public final class IngestBench {
 
     /** One QoS level: the bare subscriber alone, then byre alone, each with the same load. */
     static Round round(Mosquitto m, Path db, int qos, long count) throws Exception {
-        // (a) bare Paho subscriber on its own prefix
+        double[] bare = bare(m, qos, count);
+        double[] byre = byreRound(m, db, qos, count);
+        return new Round(bare[0], (long) bare[1], byre[0], (long) byre[1], count);
+    }
+
+    /** The bare Paho subscriber on its own prefix: {rate, messages received}. */
+    static double[] bare(Mosquitto m, int qos, long count) throws Exception {
         AtomicLong got = new AtomicLong();
         long[] lastNanos = {0};
         MqttClient bare = client(m.uri(), "bench-bare");
@@ -173,9 +190,11 @@ public final class IngestBench {
         }
         bare.disconnect();
         bare.close();
-        double bareRate = got.get() / ((lastNanos[0] - t0) / 1e9);
+        return new double[] {got.get() / ((lastNanos[0] - t0) / 1e9), got.get()};
+    }
 
-        // (b) byre, on the prefix its configuration subscribes to
+    /** byre, on the prefix its configuration subscribes to: {rate, rows stored}. */
+    static double[] byreRound(Mosquitto m, Path db, int qos, long count) throws Exception {
         long before = sensorRows(db);
         long target = before + count - BATCH_ROWS;
         long t1 = System.nanoTime();
@@ -202,7 +221,7 @@ public final class IngestBench {
         }
         publisher.join();
         double byreRate = reachedNanos < 0 ? (rows - before) / ((lastChange - t1) / 1e9) : (target - before) / ((reachedNanos - t1) / 1e9);
-        return new Round(bareRate, got.get(), byreRate, rows - before, count);
+        return new double[] {byreRate, rows - before};
     }
 
     static void publish(Mosquitto m, String prefix, int qos, long count) throws Exception {
