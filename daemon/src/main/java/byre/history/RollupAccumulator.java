@@ -32,9 +32,27 @@ final class RollupAccumulator {
     private final Map<Bucket, Agg> minutes = new HashMap<>();
     private final Map<Bucket, Agg> hours = new HashMap<>();
 
+    // The buckets of the previous row: rows come grouped by stream, so most rows skip the map lookups.
+    private int lastStream = -1;
+    private long lastMinute = Long.MIN_VALUE;
+    private long lastHour = Long.MIN_VALUE;
+    private Agg minuteAgg;
+    private Agg hourAgg;
+
     void add(int stream, long tsMs, double value) {
-        minutes.computeIfAbsent(new Bucket(stream, Resolution.MINUTE.bucketStart(tsMs)), b -> new Agg()).add(value);
-        hours.computeIfAbsent(new Bucket(stream, Resolution.HOUR.bucketStart(tsMs)), b -> new Agg()).add(value);
+        long minute = Resolution.MINUTE.bucketStart(tsMs);
+        long hour = Resolution.HOUR.bucketStart(tsMs);
+        if (stream != lastStream || minute != lastMinute) {
+            minuteAgg = minutes.computeIfAbsent(new Bucket(stream, minute), b -> new Agg());
+        }
+        if (stream != lastStream || hour != lastHour) {
+            hourAgg = hours.computeIfAbsent(new Bucket(stream, hour), b -> new Agg());
+        }
+        lastStream = stream;
+        lastMinute = minute;
+        lastHour = hour;
+        minuteAgg.add(value);
+        hourAgg.add(value);
     }
 
     void writeTo(Connection conn) throws SQLException {

@@ -43,13 +43,15 @@ public final class MqttLink implements AutoCloseable {
 
     private final MqttSettings settings;
     private final String statusTopic;
-    /** Handles one message; runs {@code ack} when the message may be acknowledged to the broker. */
+    /**
+     * Handles one message; runs {@code ack} when the message may be acknowledged to the broker. {@code ack} is null
+     * when there is nothing to acknowledge (QoS 0), so that a store does not hurry a commit for it.
+     */
     @FunctionalInterface
     public interface Handler {
         void accept(String topic, byte[] payload, Runnable ack);
     }
 
-    private static final Runnable NO_ACK = () -> {};
 
     private final Map<String, Handler> subscriptions = new ConcurrentHashMap<>();
     /** Filters with wildcards, split into levels once: matching a message must not split every filter again. */
@@ -85,7 +87,7 @@ public final class MqttLink implements AutoCloseable {
             try {
                 handler.accept(topic, payload);
             } finally {
-                ack.run();
+                if (ack != null) ack.run();
             }
         });
     }
@@ -105,9 +107,9 @@ public final class MqttLink implements AutoCloseable {
         onConnect.add(r);
     }
 
-    /** The acknowledgement of one received message (nothing to do at QoS 0); safe to run on any thread, once. */
+    /** The acknowledgement of one received message, null at QoS 0; safe to run on any thread, once. */
     private Runnable ackFor(MqttMessage message) {
-        if (message.getQos() == 0) return NO_ACK;
+        if (message.getQos() == 0) return null;
         int id = message.getId();
         int qos = message.getQos();
         return () -> {
@@ -249,7 +251,11 @@ public final class MqttLink implements AutoCloseable {
         o.setWill(statusTopic, "offline".getBytes(StandardCharsets.UTF_8), 1, true);
         if (settings.username() != null) o.setUserName(settings.username());
         if (settings.password() != null) o.setPassword(settings.password().reveal().toCharArray());
-        if (settings.caFile() != null) o.setSocketFactory(trustingOnly(Path.of(settings.caFile())));
+        if (settings.caFile() != null) {
+            o.setSocketFactory(trustingOnly(Path.of(settings.caFile())));
+        } else if (settings.connectUri().startsWith("tcp://")) {
+            o.setSocketFactory(new BufferedSocketFactory());
+        }
         return o;
     }
 
@@ -352,14 +358,14 @@ public final class MqttLink implements AutoCloseable {
             }
             Runnable ack = ackFor(message);
             if (handler == null) {
-                ack.run();
+                if (ack != null) ack.run();
                 return;
             }
             try {
                 handler.accept(topic, message.getPayload(), ack);
             } catch (RuntimeException e) {
                 LOG.error("handler for {} failed on a message: {}", topic, e.toString(), e);
-                ack.run();
+                if (ack != null) ack.run();
             }
         }
 

@@ -19,10 +19,10 @@ import java.util.Comparator;
 import java.util.stream.Stream;
 
 /**
- * Throughput of {@link HistoryWriter} (queue, batches of 1000, WITHOUT ROWID raw table, minute and hour
+ * Throughput of {@link HistoryWriter} (queue, batches of up to 10,000 sorted by stream, WITHOUT ROWID raw table, minute and hour
  * rollups) against bare JDBC batch inserts of the same rows in the same process: into a plain rowid table
  * (the baseline) and into the same WITHOUT ROWID layout without rollups. Same pragmas everywhere (WAL,
- * synchronous=NORMAL), 1000 rows per transaction.
+ * synchronous=NORMAL), the writer's batch size per transaction.
  *
  * <p>Run: {@code mvn -q -B -o -pl daemon -am test-compile} then
  * {@code java -cp "daemon/target/classes:daemon/target/test-classes:rules/target/classes:<sqlite-jdbc, slf4j-api,
@@ -130,7 +130,7 @@ public final class HistoryBench {
                     ps.setLong(2, ts(i, streams));
                     ps.setDouble(3, value(i));
                     ps.addBatch();
-                    if ((i + 1) % 1000 == 0) {
+                    if ((i + 1) % HistoryWriter.Settings.DEFAULT.batchRows() == 0) {
                         ps.executeBatch();
                         c.commit();
                     }

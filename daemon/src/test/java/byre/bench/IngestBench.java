@@ -33,7 +33,7 @@ import org.eclipse.paho.client.mqttv3.persist.MemoryPersistence;
  * rounds, (a) a bare Paho subscriber that only counts and (b) byre as its own JVM with the service's heap
  * options ({@code -Xmx64m -XX:+UseSerialGC}) storing every reading in its history. The two use different topic
  * prefixes so that each round has the broker to itself. Rates are measured from the publisher's start: the bare
- * subscriber's last arrival, and byre's history holding all but the last batch (1000 rows) of the run's readings.
+ * subscriber's last arrival, and byre's history holding all but the last batch (10,000 rows) of the run's readings.
  * Also: byre's start-up (launch to connected; launch to the first committed row), resident memory, heap after a
  * full GC, database bytes per reading, and the zone derivation rate ({@link DerivationBench}).
  * byre's configuration holds 50 watches, one per zone on the derived THI with hold times and hysteresis, notifying a
@@ -46,7 +46,7 @@ import org.eclipse.paho.client.mqttv3.persist.MemoryPersistence;
 public final class IngestBench {
     static final int SENSORS = 200;
     static final int ZONES = 50;
-    static final int BATCH_ROWS = 1000;
+    static final int BATCH_ROWS = byre.history.HistoryWriter.Settings.DEFAULT.batchRows();
 
     record Round(double bareRate, long bareGot, double byreRate, long byreRows, long published) {}
 

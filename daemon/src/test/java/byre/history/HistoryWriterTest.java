@@ -116,6 +116,28 @@ class HistoryWriterTest {
     }
 
     @Test
+    void interleavedStreamsInOneBatchKeepEachStreamsFirstValue() {
+        // The writer sorts a batch by stream before inserting; arrival order must still decide which duplicate wins.
+        StreamKey wet = StreamKey.sensor("pen1-wet");
+        start(HistoryWriter.Settings.DEFAULT.withBatch(6, Duration.ofHours(1)));
+        writer.append(wet, T0.plusSeconds(5), 7.0);
+        writer.append(PEN1_DRY, T0.plusSeconds(5), 20.0);
+        writer.append(wet, T0, 6.0);
+        writer.append(PEN1_DRY, T0.plusSeconds(5), 99.0);
+        writer.append(wet, T0.plusSeconds(5), 98.0);
+        writer.append(PEN1_DRY, T0, 10.0);
+        assertTrue(writer.flush());
+        assertEquals(4, writer.rowsWritten());
+        assertEquals(2, writer.rowsDuplicate());
+        try (HistoryReader r = store.openReader()) {
+            assertEquals(List.of(10.0, 20.0), r.raw(PEN1_DRY, null, null).stream().map(HistoryRow::value).toList());
+            assertEquals(List.of(6.0, 7.0), r.raw(wet, null, null).stream().map(HistoryRow::value).toList());
+            assertEquals(List.of(new RollupRow(wet, T0, Duration.ofMinutes(1), 6.0, 7.0, 6.5, 2)),
+                r.rollups(wet, Resolution.MINUTE, null, null));
+        }
+    }
+
+    @Test
     void rejectsValuesThatAreNotFiniteAndReadingsOlderThanKeepRaw() {
         start(HistoryWriter.Settings.DEFAULT);
         assertFalse(writer.append(PEN1_DRY, T0, Double.NaN));
