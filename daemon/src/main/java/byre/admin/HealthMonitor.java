@@ -58,7 +58,7 @@ public final class HealthMonitor {
         }
         if (s.pipelineIdleMillis() >= stallMillis) {
             problems.add(s.pipelineIdleMillis() == Long.MAX_VALUE ? "pipeline: not started"
-                    : "pipeline: no progress for " + s.pipelineIdleMillis() / 1000 + " s with " + s.pipelineQueue() + " readings queued");
+                    : "pipeline: no progress for " + s.pipelineIdleMillis() / 1000 + " s with " + s.pipelineQueue() + " zone readings queued");
         }
         return new Health(problems.isEmpty(), problems);
     }

@@ -88,8 +88,8 @@ public final class Daemon implements AutoCloseable {
             registerHistoryMeters();
 
             zones = new ZoneStage(new ArrayList<>(config.zones().values()), deriver, new ZoneMetrics(registry));
-            pipeline = new Pipeline(50_000, zones, writer, clock);
-            Gauge.builder("byre.pipeline.queue", pipeline, Pipeline::depth).description("Readings waiting for the pipeline").register(registry);
+            pipeline = new Pipeline(zones, writer, clock);
+            Gauge.builder("byre.pipeline.queue", pipeline, Pipeline::depth).description("Zone readings waiting for the pipeline thread").register(registry);
 
             if (config.mqtt().embedded()) {
                 broker = EmbeddedBroker.start(config.mqtt().listenHost(), config.mqtt().listenPort());

@@ -7,21 +7,29 @@ import byre.rules.ZoneReading;
 import byre.zones.ZoneStage;
 import java.time.Clock;
 import java.time.Instant;
+import java.util.ArrayDeque;
+import java.util.ArrayList;
 import java.util.List;
-import java.util.concurrent.ArrayBlockingQueue;
-import java.util.concurrent.BlockingQueue;
 import java.util.concurrent.CopyOnWriteArrayList;
 import java.util.concurrent.TimeUnit;
 import java.util.concurrent.atomic.AtomicLong;
-import java.util.function.Consumer;
+import java.util.concurrent.locks.LockSupport;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
 
 /**
- * The one thread that carries accepted readings through the stages: history (raw), zone derivation,
- * history (zone streams), rules, MQTT republishing. Readings are handed over from the MQTT callback
- * through a bounded queue; a full queue blocks the callback, which holds back the broker (QoS 1
- * back-pressure) instead of losing readings. Once a second it also lets the time-driven parts run.
+ * Carries accepted readings through the stages in two steps.
+ *
+ * <p>On the MQTT callback thread, {@link #offer} stores the raw reading (waiting for room in the history
+ * writer's queue, which holds back the broker instead of losing readings) and feeds it to its zone. Readings
+ * arrive by the thousand per second in a burst, and a hand-over to another thread for each one costs a
+ * context switch that two cores cannot spare.
+ *
+ * <p>The zone streams derived from them (at most one per zone and second of reading time) go, in the order
+ * they were derived, to the pipeline thread, which stores them (thinned), runs the rules and republishes
+ * them: that work may wait on SQLite or on the broker, so it must not run on the MQTT client's own thread.
+ * Four times a second that thread also lets the time-driven parts run (pending derivations, hold timers,
+ * silence, rule reloads).
  */
 public final class Pipeline implements AutoCloseable {
     private static final Logger LOG = LoggerFactory.getLogger(Pipeline.class);
@@ -30,10 +38,15 @@ public final class Pipeline implements AutoCloseable {
      * derived values can always be recomputed from them; a row a minute per stream keeps the
      * history small on an SD card while rules and MQTT still see every derivation.
      */
-    /** Readings taken from the queue per turn at most. */
-    static final int BATCH = 512;
     static final java.time.Duration ZONE_STREAM_STORE_EVERY = java.time.Duration.ofMinutes(1);
-    private static final Reading STOP = new Reading("", byre.units.Quantity.DRY_BULB, 0, Instant.EPOCH);
+    /** Zone readings waiting for the pipeline thread at most; then the intake waits. */
+    static final int MAX_WAITING = 50_000;
+    /** The time-driven parts run this often. */
+    private static final long TICK_MILLIS = 250;
+    /** A batch within this time of the previous one means a burst ... */
+    private static final long BUSY_NANOS = TimeUnit.MILLISECONDS.toNanos(100);
+    /** ... and then readings gather this long before the thread takes them. */
+    private static final long GATHER_NANOS = TimeUnit.MILLISECONDS.toNanos(2);
 
     /** A stage that consumes zone streams and may also act on the passing of time. */
     public interface ZoneListener {
@@ -42,7 +55,6 @@ public final class Pipeline implements AutoCloseable {
         default void tick(Instant now) {}
     }
 
-    private final BlockingQueue<Reading> queue;
     private final ZoneStage zones;
     private final HistoryWriter history;
     private final Clock clock;
@@ -51,9 +63,16 @@ public final class Pipeline implements AutoCloseable {
     private final StoreThinning thinning = new StoreThinning(ZONE_STREAM_STORE_EVERY);
     private final AtomicLong processed = new AtomicLong();
     private volatile long lastProgressNanos = System.nanoTime();
+    private volatile boolean closed;
 
-    Pipeline(int capacity, ZoneStage zones, HistoryWriter history, Clock clock) {
-        this.queue = new ArrayBlockingQueue<>(capacity);
+    /** Guards {@link #zones} and {@link #derived}: one order of derivations for both threads. */
+    private final Object lock = new Object();
+    /** Zone readings derived but not yet delivered, oldest first. */
+    private final ArrayDeque<ZoneReading> derived = new ArrayDeque<>();
+    /** The pipeline thread waits for {@link #derived}: only then is a notification needed. */
+    private boolean waiting;
+
+    Pipeline(ZoneStage zones, HistoryWriter history, Clock clock) {
         this.zones = zones;
         this.history = history;
         this.clock = clock;
@@ -68,21 +87,43 @@ public final class Pipeline implements AutoCloseable {
         thread.start();
     }
 
-    /** Called on the MQTT callback thread; waits while the queue is full. */
+    /**
+     * Called on the MQTT callback thread. After {@link #close()} the reading is dropped unacknowledged (the
+     * broker delivers a QoS 1 message again after the restart).
+     */
     void offer(Reading r) {
-        try {
-            queue.put(r);
-        } catch (InterruptedException e) {
-            Thread.currentThread().interrupt();
+        if (closed) return;
+        history.appendWaiting(StreamKey.sensor(r.sensorId()), r.at().toEpochMilli(), r.value(), r.ack());
+        synchronized (lock) {
+            // Back-pressure: while the rules and the outbox lag far behind, the intake waits (and so does the broker).
+            while (derived.size() >= MAX_WAITING && !closed) {
+                try {
+                    lock.wait(100);
+                } catch (InterruptedException e) {
+                    Thread.currentThread().interrupt();
+                    break;
+                }
+            }
+            int before = derived.size();
+            try {
+                zones.accept(r, derived::addLast);
+            } catch (RuntimeException e) {
+                LOG.error("zone derivation failed on a reading of {}: {}", r.sensorId(), e.toString(), e);
+            }
+            if (waiting && derived.size() > before) lock.notifyAll();
         }
+        processed.incrementAndGet();
     }
 
     long processed() {
         return processed.get();
     }
 
+    /** Zone readings derived and waiting for the pipeline thread. */
     int depth() {
-        return queue.size();
+        synchronized (lock) {
+            return derived.size();
+        }
     }
 
     /** Nanos (System.nanoTime) of the last loop turn, for the watchdog and /health. */
@@ -92,56 +133,46 @@ public final class Pipeline implements AutoCloseable {
 
     private void loop() {
         Instant lastTick = Instant.MIN;
-        Consumer<ZoneReading> fanOut = zr -> {
-            if (thinning.due(zr.zone(), zr.quantity(), zr.at())) {
-                history.append(StreamKey.zone(zr.zone(), zr.quantity()), zr.at(), zr.value());
-            }
-            for (ZoneListener l : listeners) {
-                try {
-                    l.accept(zr);
-                } catch (RuntimeException e) {
-                    LOG.error("zone stage listener failed on {} {}: {}", zr.zone(), zr.quantity(), e.toString(), e);
-                }
-            }
-        };
-        java.util.ArrayList<Reading> batch = new java.util.ArrayList<>(BATCH);
-        boolean stopping = false;
-        while (!stopping) {
-            Reading r;
+        long lastBatchNanos = System.nanoTime() - BUSY_NANOS;
+        List<ZoneReading> batch = new ArrayList<>();
+        while (!closed) {
+            batch.clear();
+            Instant now = clock.instant();
+            boolean tickDue = now.isBefore(lastTick) || !now.isBefore(lastTick.plusMillis(TICK_MILLIS));
             try {
-                r = queue.poll(250, TimeUnit.MILLISECONDS);
+                boolean woken = false;
+                synchronized (lock) {
+                    if (derived.isEmpty() && !tickDue) {
+                        waiting = true;
+                        lock.wait(TICK_MILLIS);
+                        waiting = false;
+                        woken = !derived.isEmpty();
+                    }
+                }
+                // In a burst, let readings gather for a moment: one wake-up per batch, not one per reading.
+                if (woken && System.nanoTime() - lastBatchNanos < BUSY_NANOS) LockSupport.parkNanos(GATHER_NANOS);
+                synchronized (lock) {
+                    now = clock.instant();
+                    tickDue = now.isBefore(lastTick) || !now.isBefore(lastTick.plusMillis(TICK_MILLIS));
+                    if (tickDue) {
+                        try {
+                            zones.derivePending(now, derived::addLast);
+                        } catch (RuntimeException e) {
+                            LOG.error("zone derivation failed: {}", e.toString(), e);
+                        }
+                    }
+                    if (derived.size() >= MAX_WAITING) lock.notifyAll();
+                    batch.addAll(derived);
+                    derived.clear();
+                }
             } catch (InterruptedException e) {
                 break;
             }
             lastProgressNanos = System.nanoTime();
-            batch.clear();
-            if (r != null) {
-                batch.add(r);
-                // Take what else is waiting in one go: one wake-up per burst, not per reading.
-                queue.drainTo(batch, BATCH - 1);
-            }
-            for (Reading b : batch) {
-                if (b == STOP) {
-                    stopping = true;
-                    break;
-                }
-                history.append(StreamKey.sensor(b.sensorId()), b.at().toEpochMilli(), b.value(), b.ack());
-                try {
-                    zones.accept(b, fanOut);
-                } catch (RuntimeException e) {
-                    LOG.error("zone derivation failed on a reading of {}: {}", b.sensorId(), e.toString(), e);
-                }
-                processed.incrementAndGet();
-            }
-            if (stopping) break;
-            Instant now = clock.instant();
-            if (r == null || now.isBefore(lastTick) || !now.isBefore(lastTick.plusMillis(1000))) {
+            if (!batch.isEmpty()) lastBatchNanos = lastProgressNanos;
+            for (ZoneReading zr : batch) deliver(zr);
+            if (tickDue) {
                 lastTick = now;
-                try {
-                    zones.derivePending(now, fanOut);
-                } catch (RuntimeException e) {
-                    LOG.error("zone derivation failed: {}", e.toString(), e);
-                }
                 for (ZoneListener l : listeners) {
                     try {
                         l.tick(now);
@@ -151,13 +182,36 @@ public final class Pipeline implements AutoCloseable {
                 }
             }
         }
+        // Derived before the stop: still stored and seen by the rules.
+        synchronized (lock) {
+            batch.clear();
+            batch.addAll(derived);
+            derived.clear();
+        }
+        for (ZoneReading zr : batch) deliver(zr);
     }
 
-    /** Drains what is queued, then stops the thread. */
+    private void deliver(ZoneReading zr) {
+        if (thinning.due(zr.zone(), zr.quantity(), zr.at())) {
+            history.append(StreamKey.zone(zr.zone(), zr.quantity()), zr.at(), zr.value());
+        }
+        for (ZoneListener l : listeners) {
+            try {
+                l.accept(zr);
+            } catch (RuntimeException e) {
+                LOG.error("zone stage listener failed on {} {}: {}", zr.zone(), zr.quantity(), e.toString(), e);
+            }
+        }
+    }
+
+    /** Stops taking readings, delivers what was derived, then stops the thread. */
     @Override
     public void close() {
+        closed = true;
+        synchronized (lock) {
+            lock.notifyAll();
+        }
         try {
-            queue.put(STOP);
             thread.join(10_000);
         } catch (InterruptedException e) {
             Thread.currentThread().interrupt();

@@ -91,7 +91,7 @@ class AdminServerTest {
         r = get("/health");
         assertEquals(503, r.statusCode());
         assertTrue(r.body().contains("history: writes failing (disk full); 300 rows waiting"), r.body());
-        assertTrue(r.body().contains("pipeline: no progress for 45 s with 12 readings queued"), r.body());
+        assertTrue(r.body().contains("pipeline: no progress for 45 s with 12 zone readings queued"), r.body());
 
         // Reconnected: the grace clock starts again from zero at the next drop.
         snapshot.set(GOOD);
