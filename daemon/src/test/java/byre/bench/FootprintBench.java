@@ -28,8 +28,7 @@ import java.util.regex.Pattern;
  * </pre>
  */
 public final class FootprintBench {
-    static final String FLAGS = "-Xmx64m -Xss512k -XX:+UseSerialGC -XX:TieredStopAtLevel=1 -XX:MaxMetaspaceSize=64m "
-            + "-XX:ReservedCodeCacheSize=32m -XX:+ExitOnOutOfMemoryError";
+    static final String FLAGS = String.join(" ", byre.testing.ByreProcess.SERVICE_JVM_OPTIONS);
     static final HttpClient HTTP = HttpClient.newHttpClient();
 
     public static void main(String[] args) throws Exception {

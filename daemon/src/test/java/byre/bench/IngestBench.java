@@ -29,11 +29,15 @@ import org.eclipse.paho.client.mqttv3.persist.MemoryPersistence;
 /**
  * End-to-end ingest benchmark (a main, not a test), one command, one table:
  * Debian mosquitto on loopback (unbounded queues, so QoS 1 loses nothing to a slow subscriber), the demo-feed
- * load generator publishing small JSON readings for 200 sensors in 50 zones flat out, and, in interleaved
- * rounds, (a) a bare Paho subscriber that only counts and (b) byre as its own JVM with the service's heap
- * options ({@code -Xmx64m -XX:+UseSerialGC}) storing every reading in its history. The two use different topic
- * prefixes so that each round has the broker to itself. Rates are measured from the publisher's start: the bare
- * subscriber's last arrival, and byre's history holding all but the last batch (10,000 rows) of the run's readings.
+ * load generator publishing small JSON readings for 200 sensors in 50 zones flat out, and, one at a time in each
+ * round: (a) the baseline, a bare Paho subscriber that only counts ({@link BareSubscriber}), as its own JVM with
+ * byre's JVM options; (b) the same bare subscriber inside this benchmark JVM (default JIT with C2, a 512 MB heap),
+ * reported beside it; (c) byre as its own JVM with the service's options (read from the systemd unit:
+ * {@code -Xmx64m -XX:+UseSerialGC -XX:TieredStopAtLevel=1 ...}) storing every reading in its history. Each round
+ * starts a fresh baseline process and a fresh byre, and both get the same warm-up load before they are measured.
+ * The three use different topic prefixes, so each has the broker to itself. Rates are measured from the
+ * publisher's start: a subscriber's last arrival, and byre's history holding all but the last batch (10,000 rows)
+ * of the run's readings.
  * Also: byre's start-up (launch to connected; launch to the first committed row), resident memory, heap after a
  * full GC, database bytes per reading, and the zone derivation rate ({@link DerivationBench}).
  * byre's configuration holds 50 watches, one per zone on the derived THI with hold times and hysteresis, notifying a
@@ -48,7 +52,8 @@ public final class IngestBench {
     static final int ZONES = 50;
     static final int BATCH_ROWS = byre.history.HistoryWriter.Settings.DEFAULT.batchRows();
 
-    record Round(double bareRate, long bareGot, double byreRate, long byreRows, long published) {}
+    /** One QoS level of one round: the baseline process, the in-process subscriber and byre. */
+    record Round(double bareRate, long bareGot, double inJvmRate, double byreRate, long byreRows, long published) {}
 
     public static void main(String[] args) throws Exception {
         int rounds = 3;
@@ -97,9 +102,6 @@ public final class IngestBench {
                 long idleRssKb = byre.procStatusKb("VmRSS");
 
                 Round[] q0 = new Round[rounds], q1 = new Round[rounds];
-                // Sustained rates are those of warm JVMs: the bare subscriber lives in this JVM for the whole run, and
-                // every byre gets the same warm-up load (not measured) before its rounds.
-                if (warmup > 0) bare(m, 0, warmup);
                 for (int r = 0; r < rounds; r++) {
                     if (r > 0) {
                         // A fresh byre per round: 200 sensors flat out send far more than the flood gate's 50 readings/s
@@ -110,12 +112,21 @@ public final class IngestBench {
                         long until = System.nanoTime() + Duration.ofSeconds(30).toNanos();
                         while (!b.log().contains("connected to MQTT broker") && System.nanoTime() < until) Thread.sleep(10);
                     }
-                    if (warmup > 0) byreRound(m, db, 0, warmup);
-                    q0[r] = round(m, db, 0, count0);
-                    q1[r] = round(m, db, 1, count1);
-                    System.out.printf(Locale.ROOT, "round %d: QoS 0 bare %.0f/s byre %.0f/s (%d/%d rows); QoS 1 bare %.0f/s byre %.0f/s (%d/%d rows)%n",
-                            r + 1, q0[r].bareRate, q0[r].byreRate, q0[r].byreRows, q0[r].published, q1[r].bareRate, q1[r].byreRate,
-                            q1[r].byreRows, q1[r].published);
+                    // Sustained rates are those of warm JVMs: the baseline process and byre get the same warm-up load
+                    // (not measured) before their rounds; the in-process subscriber warms up in the first round.
+                    try (BareSubscriber.Peer peer = new BareSubscriber.Peer(m.uri(), "bare", ByreProcess.SERVICE_JVM_OPTIONS)) {
+                        if (warmup > 0) {
+                            peer(peer, m, 0, warmup);
+                            byreRound(m, db, 0, warmup);
+                            if (r == 0) inJvm(m, 0, warmup);
+                        }
+                        q0[r] = round(m, db, peer, 0, count0);
+                        q1[r] = round(m, db, peer, 1, count1);
+                    }
+                    System.out.printf(Locale.ROOT, "round %d: QoS 0 bare %.0f/s (in-JVM %.0f/s) byre %.0f/s (%d/%d rows); "
+                            + "QoS 1 bare %.0f/s (in-JVM %.0f/s) byre %.0f/s (%d/%d rows)%n",
+                            r + 1, q0[r].bareRate, q0[r].inJvmRate, q0[r].byreRate, q0[r].byreRows, q0[r].published,
+                            q1[r].bareRate, q1[r].inJvmRate, q1[r].byreRate, q1[r].byreRows, q1[r].published);
                 }
                 long rssKb = byre.procStatusKb("VmRSS");
                 long hwmKb = byre.procStatusKb("VmHWM");
@@ -124,8 +135,10 @@ public final class IngestBench {
                 long bytes = Files.size(db) + (Files.exists(Path.of(db + "-wal")) ? Files.size(Path.of(db + "-wal")) : 0);
                 int code = byre.stop(30);
 
-                addRate(table, "ingest QoS 0, msgs/s (byre vs bare Paho subscriber)", q0, true);
-                addRate(table, "ingest QoS 1, msgs/s (byre vs bare Paho subscriber)", q1, true);
+                addRate(table, "ingest QoS 0, msgs/s (byre vs bare Paho subscriber, same JVM options)", q0, Round::bareRate);
+                addRate(table, "ingest QoS 1, msgs/s (byre vs bare Paho subscriber, same JVM options)", q1, Round::bareRate);
+                addRate(table, "ingest QoS 0, msgs/s (byre vs bare subscriber inside the benchmark JVM, C2 JIT)", q0, Round::inJvmRate);
+                addRate(table, "ingest QoS 1, msgs/s (byre vs bare subscriber inside the benchmark JVM, C2 JIT)", q1, Round::inJvmRate);
                 long lost1 = Arrays.stream(q1).mapToLong(x -> x.published - x.byreRows).sum();
                 long lost0 = Arrays.stream(q0).mapToLong(x -> x.published - x.byreRows).sum();
                 long bareLost0 = Arrays.stream(q0).mapToLong(x -> x.published - x.bareGot).sum();
@@ -164,24 +177,40 @@ public final class IngestBench {
         return (System.nanoTime() - p.launchedNanos()) / 1_000_000;
     }
 
-    /** One QoS level: the bare subscriber alone, then byre alone, each with the same load. */
-    static Round round(Mosquitto m, Path db, int qos, long count) throws Exception {
-        double[] bare = bare(m, qos, count);
+    /** One QoS level: the baseline process alone, the in-process subscriber alone, then byre alone, each with the same load. */
+    static Round round(Mosquitto m, Path db, BareSubscriber.Peer peer, int qos, long count) throws Exception {
+        double[] bare = peer(peer, m, qos, count);
+        double[] inJvm = inJvm(m, qos, count);
         double[] byre = byreRound(m, db, qos, count);
-        return new Round(bare[0], (long) bare[1], byre[0], (long) byre[1], count);
+        return new Round(bare[0], (long) bare[1], inJvm[0], byre[0], (long) byre[1], count);
     }
 
-    /** The bare Paho subscriber on its own prefix: {rate, messages received}. */
-    static double[] bare(Mosquitto m, int qos, long count) throws Exception {
+    /** The baseline process (its own JVM with byre's options) on the prefix {@code bare}: {rate, messages received}. */
+    static double[] peer(BareSubscriber.Peer peer, Mosquitto m, int qos, long count) throws Exception {
+        long before = peer.got();
+        long t0 = System.nanoTime();
+        publish(m, "bare", qos, count);
+        long waitUntil = System.nanoTime() + Duration.ofSeconds(30).toNanos();
+        while (peer.got() < before + count && System.nanoTime() < waitUntil) {
+            long seen = peer.got();
+            Thread.sleep(500);
+            if (qos == 0 && peer.got() == seen) break; // QoS 0: what is lost stays lost
+        }
+        long got = peer.got() - before;
+        return new double[] {got / ((peer.lastNanos() - t0) / 1e9), got};
+    }
+
+    /** A bare Paho subscriber inside this JVM (default JIT, this JVM's heap) on its own prefix: {rate, messages received}. */
+    static double[] inJvm(Mosquitto m, int qos, long count) throws Exception {
         AtomicLong got = new AtomicLong();
         long[] lastNanos = {0};
-        MqttClient bare = client(m.uri(), "bench-bare");
-        bare.subscribe("bare/#", qos, (t, msg) -> {
+        MqttClient bare = client(m.uri(), "bench-in-jvm");
+        bare.subscribe("injvm/#", qos, (t, msg) -> {
             got.incrementAndGet();
             lastNanos[0] = System.nanoTime();
         });
         long t0 = System.nanoTime();
-        publish(m, "bare", qos, count);
+        publish(m, "injvm", qos, count);
         long waitUntil = System.nanoTime() + Duration.ofSeconds(30).toNanos();
         while (got.get() < count && System.nanoTime() < waitUntil) {
             long before = got.get();
@@ -281,9 +310,9 @@ public final class IngestBench {
         }
     }
 
-    static void addRate(List<String[]> table, String what, Round[] rounds, boolean ratio) {
+    static void addRate(List<String[]> table, String what, Round[] rounds, java.util.function.ToDoubleFunction<Round> baseline) {
         double[] byre = Arrays.stream(rounds).mapToDouble(Round::byreRate).toArray();
-        double[] bare = Arrays.stream(rounds).mapToDouble(Round::bareRate).toArray();
+        double[] bare = Arrays.stream(rounds).mapToDouble(baseline).toArray();
         double[] ratios = new double[rounds.length];
         for (int i = 0; i < rounds.length; i++) ratios[i] = byre[i] / bare[i];
         table.add(row(what, String.format(Locale.ROOT, "%,.0f (%,.0f..%,.0f)", median(byre), min(byre), max(byre)),

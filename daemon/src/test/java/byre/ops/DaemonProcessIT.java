@@ -30,7 +30,7 @@ import org.junit.jupiter.api.io.TempDir;
  * {@code byre history} read the database while the daemon writes it.
  */
 class DaemonProcessIT {
-    static final String JVM_FLAGS = "-Xmx64m -Xss512k -XX:+UseSerialGC -XX:TieredStopAtLevel=1";
+    static final String JVM_FLAGS = String.join(" ", byre.testing.ByreProcess.SERVICE_JVM_OPTIONS);
 
     @TempDir
     Path dir;

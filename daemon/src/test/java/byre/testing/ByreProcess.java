@@ -1,20 +1,41 @@
 package byre.testing;
 
 import java.io.IOException;
+import java.io.UncheckedIOException;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.concurrent.TimeUnit;
+import java.util.regex.Matcher;
+import java.util.regex.Pattern;
 
 /**
- * byre as its own JVM ({@code byre.cli.Main run --config F}) on this JVM's class path, with the heap options
+ * byre as its own JVM ({@code byre.cli.Main run --config F}) on this JVM's class path, with the JVM options
  * of the systemd unit, so that it can be killed with SIGKILL like a real crash or measured from outside
  * (/proc/PID/status). Output goes to a log file next to the configuration.
  */
 public final class ByreProcess implements AutoCloseable {
-    /** The JVM options the packaged service runs with. */
-    public static final List<String> SERVICE_JVM_OPTIONS = List.of("-Xmx64m", "-XX:+UseSerialGC");
+    /**
+     * The JVM options the packaged service runs with, read from the unit file ({@code BYRE_JAVA_OPTS}), so that
+     * tests and benchmarks run byre as it runs in a barn (C1 only, a 64 MB serial-GC heap, ...).
+     */
+    public static final List<String> SERVICE_JVM_OPTIONS = serviceJvmOptions();
+
+    static List<String> serviceJvmOptions() {
+        Pattern opts = Pattern.compile("(?m)^Environment=\"BYRE_JAVA_OPTS=([^\"]*)\"");
+        for (Path unit : List.of(Path.of("systemd", "byre.service"), Path.of("..", "systemd", "byre.service"))) {
+            if (!Files.isRegularFile(unit)) continue;
+            try {
+                Matcher m = opts.matcher(Files.readString(unit));
+                if (m.find()) return List.of(m.group(1).trim().split("\\s+"));
+            } catch (IOException e) {
+                throw new UncheckedIOException(e);
+            }
+            throw new IllegalStateException(unit + " sets no BYRE_JAVA_OPTS");
+        }
+        throw new IllegalStateException("systemd/byre.service not found from " + Path.of("").toAbsolutePath());
+    }
 
     private final Process process;
     private final Path log;
