@@ -57,17 +57,28 @@ public final class PayloadDecoder {
     }
 
     private static Decoded json(String text, String path, SensorConfig sensor) {
-        Object root;
+        String timePath = sensor.timePath();
+        Object v;
+        Object t = null;
         try {
-            root = Json.parse(text);
+            // Top-level names (the usual {"v": 21.4, "ts": ...}) are picked out without building the document.
+            boolean oneName = timePath == null || timePath.equals(path);
+            Object[] members = path.indexOf('.') < 0 && (timePath == null || timePath.indexOf('.') < 0)
+                    ? (oneName ? Json.members(text, path) : Json.members(text, path, timePath)) : null;
+            if (members != null) {
+                v = members[0];
+                if (timePath != null) t = oneName ? members[0] : members[1];
+            } else {
+                Object root = Json.parse(text);
+                v = Json.path(root, path);
+                if (timePath != null) t = Json.path(root, timePath);
+            }
         } catch (Json.JsonException e) {
             return Decoded.rejected(RejectReason.UNPARSEABLE, "not JSON: " + e.getMessage());
         }
-        Object v = Json.path(root, path);
         if (v == null) return Decoded.rejected(RejectReason.MISSING_FIELD, "no '" + path + "' in the JSON payload");
         Instant time = null;
-        if (sensor.timePath() != null) {
-            Object t = Json.path(root, sensor.timePath());
+        if (timePath != null) {
             time = t == null ? null : jsonTime(t);
             if (t != null && time == null) {
                 return Decoded.rejected(RejectReason.UNPARSEABLE, "'" + sensor.timePath() + "' is not a time: '" + clip(String.valueOf(t)) + "'");
