@@ -16,11 +16,12 @@ public final class Json {
     /** Deeper nesting than this is refused; no sensor payload needs more. */
     public static final int MAX_DEPTH = 32;
 
-    private final String text;
+    /** The text as characters: indexing an array is much cheaper than {@code String.charAt} without the C2 compiler. */
+    private final char[] text;
     private int pos;
 
     private Json(String text) {
-        this.text = text;
+        this.text = text.toCharArray();
     }
 
     /** Parses one JSON value; throws {@link JsonException} with the offset of the first problem. */
@@ -115,11 +116,11 @@ public final class Json {
     private int memberIndex(String[] names) {
         int start = pos + 1;
         int end = start;
-        while (end < text.length() && text.charAt(end) != '"' && text.charAt(end) != '\\' && text.charAt(end) >= 0x20) end++;
-        if (end < text.length() && text.charAt(end) == '"') {
+        while (end < text.length && text[end] != '"' && text[end] != '\\' && text[end] >= 0x20) end++;
+        if (end < text.length && text[end] == '"') {
             pos = end + 1; // a plain name: compared in place
             for (int i = 0; i < names.length; i++) {
-                if (names[i].length() == end - start && text.startsWith(names[i], start)) return i;
+                if (names[i].length() == end - start && regionIs(names[i], start)) return i;
             }
             return -1;
         }
@@ -131,8 +132,8 @@ public final class Json {
     /** Checks and passes over one value without building it (same rules and messages as {@link #value}). */
     private void skipValue(int depth) {
         if (depth > MAX_DEPTH) throw error("nesting deeper than " + MAX_DEPTH);
-        if (pos >= text.length()) throw error("unexpected end of input");
-        char c = text.charAt(pos);
+        if (pos >= text.length) throw error("unexpected end of input");
+        char c = text[pos];
         switch (c) {
             case '{': skipContainer(depth, '}', true); return;
             case '[': skipContainer(depth, ']', false); return;
@@ -178,19 +179,19 @@ public final class Json {
     private void skipString() {
         pos++;
         while (true) {
-            if (pos >= text.length()) throw error("unterminated string");
-            char c = text.charAt(pos++);
+            if (pos >= text.length) throw error("unterminated string");
+            char c = text[pos++];
             if (c == '"') return;
             if (c < 0x20) throw error("control character in string");
             if (c != '\\') continue;
-            if (pos >= text.length()) throw error("unterminated escape");
-            char e = text.charAt(pos++);
+            if (pos >= text.length) throw error("unterminated escape");
+            char e = text[pos++];
             switch (e) {
                 case '"': case '\\': case '/': case 'b': case 'f': case 'n': case 'r': case 't': break;
                 case 'u':
-                    if (pos + 4 > text.length()) throw error("short \\u escape");
+                    if (pos + 4 > text.length) throw error("short \\u escape");
                     try {
-                        Integer.parseInt(text.substring(pos, pos + 4), 16);
+                        Integer.parseInt(new String(text, pos, 4), 16);
                     } catch (NumberFormatException ex) {
                         throw error("bad \\u escape");
                     }
@@ -203,8 +204,8 @@ public final class Json {
 
     private Object value(int depth) {
         if (depth > MAX_DEPTH) throw error("nesting deeper than " + MAX_DEPTH);
-        if (pos >= text.length()) throw error("unexpected end of input");
-        char c = text.charAt(pos);
+        if (pos >= text.length) throw error("unexpected end of input");
+        char c = text[pos];
         switch (c) {
             case '{': return object(depth);
             case '[': return array(depth);
@@ -266,16 +267,16 @@ public final class Json {
         pos++;
         StringBuilder sb = new StringBuilder();
         while (true) {
-            if (pos >= text.length()) throw error("unterminated string");
-            char c = text.charAt(pos++);
+            if (pos >= text.length) throw error("unterminated string");
+            char c = text[pos++];
             if (c == '"') return sb.toString();
             if (c < 0x20) throw error("control character in string");
             if (c != '\\') {
                 sb.append(c);
                 continue;
             }
-            if (pos >= text.length()) throw error("unterminated escape");
-            char e = text.charAt(pos++);
+            if (pos >= text.length) throw error("unterminated escape");
+            char e = text[pos++];
             switch (e) {
                 case '"': sb.append('"'); break;
                 case '\\': sb.append('\\'); break;
@@ -286,9 +287,9 @@ public final class Json {
                 case 'r': sb.append('\r'); break;
                 case 't': sb.append('\t'); break;
                 case 'u':
-                    if (pos + 4 > text.length()) throw error("short \\u escape");
+                    if (pos + 4 > text.length) throw error("short \\u escape");
                     try {
-                        sb.append((char) Integer.parseInt(text.substring(pos, pos + 4), 16));
+                        sb.append((char) Integer.parseInt(new String(text, pos, 4), 16));
                     } catch (NumberFormatException ex) {
                         throw error("bad \\u escape");
                     }
@@ -302,49 +303,56 @@ public final class Json {
     private Double number() {
         int start = pos;
         numberEnd();
-        return Double.parseDouble(text.substring(start, pos));
+        return Double.parseDouble(new String(text, start, pos - start));
     }
 
     /** Moves past one number (RFC 8259 grammar). */
     private void numberEnd() {
         if (peek() == '-') pos++;
         if (!digit()) throw error("malformed number");
-        if (text.charAt(pos) == '0') {
+        if (text[pos] == '0') {
             pos++;
         } else {
             while (digit()) pos++;
         }
-        if (pos < text.length() && text.charAt(pos) == '.') {
+        if (pos < text.length && text[pos] == '.') {
             pos++;
             if (!digit()) throw error("malformed number");
             while (digit()) pos++;
         }
-        if (pos < text.length() && (text.charAt(pos) == 'e' || text.charAt(pos) == 'E')) {
+        if (pos < text.length && (text[pos] == 'e' || text[pos] == 'E')) {
             pos++;
-            if (pos < text.length() && (text.charAt(pos) == '+' || text.charAt(pos) == '-')) pos++;
+            if (pos < text.length && (text[pos] == '+' || text[pos] == '-')) pos++;
             if (!digit()) throw error("malformed number");
             while (digit()) pos++;
         }
     }
 
     private boolean digit() {
-        return pos < text.length() && text.charAt(pos) >= '0' && text.charAt(pos) <= '9';
+        return pos < text.length && text[pos] >= '0' && text[pos] <= '9';
     }
 
     private Object literal(String word, Object value) {
-        if (!text.startsWith(word, pos)) throw error("unexpected word");
+        if (!regionIs(word, pos)) throw error("unexpected word");
         pos += word.length();
         return value;
     }
 
+    /** Whether {@code word} appears at {@code at}. */
+    private boolean regionIs(String word, int at) {
+        if (at < 0 || at + word.length() > text.length) return false;
+        for (int i = 0; i < word.length(); i++) if (text[at + i] != word.charAt(i)) return false;
+        return true;
+    }
+
     private char peek() {
-        if (pos >= text.length()) throw error("unexpected end of input");
-        return text.charAt(pos);
+        if (pos >= text.length) throw error("unexpected end of input");
+        return text[pos];
     }
 
     private void skipWhitespace() {
-        while (pos < text.length()) {
-            char c = text.charAt(pos);
+        while (pos < text.length) {
+            char c = text[pos];
             if (c != ' ' && c != '\t' && c != '\n' && c != '\r') return;
             pos++;
         }
