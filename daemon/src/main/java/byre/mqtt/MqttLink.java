@@ -38,6 +38,10 @@ import org.slf4j.LoggerFactory;
  */
 public final class MqttLink implements AutoCloseable {
     private static final Logger LOG = LoggerFactory.getLogger(MqttLink.class);
+
+    static {
+        PahoLog.install(); // before the client's classes load (each takes its logger once)
+    }
     private static final long FIRST_BACKOFF_MS = 250;
     private static final long MAX_BACKOFF_MS = 4000;
 
