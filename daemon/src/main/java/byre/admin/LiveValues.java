@@ -8,25 +8,39 @@ import java.util.Comparator;
 import java.util.List;
 import java.util.Map;
 import java.util.concurrent.ConcurrentHashMap;
+import java.util.concurrent.atomic.AtomicReferenceArray;
 
 /** Keeps the newest value of every zone stream as it passes the pipeline, for {@code GET /status}. */
 public final class LiveValues implements Pipeline.ZoneListener {
-    private final Map<String, ZoneReading> latest = new ConcurrentHashMap<>();
+    private static final int QUANTITIES = Quantity.values().length;
+    /** Per zone, the newest reading per quantity (by ordinal): written by the pipeline thread, read by the API. */
+    private final Map<String, AtomicReferenceArray<ZoneReading>> latest = new ConcurrentHashMap<>();
 
     @Override
     public void accept(ZoneReading r) {
-        latest.merge(r.zone() + "\u0000" + r.quantity().id(), r, (old, neu) -> neu.at().isBefore(old.at()) ? old : neu);
+        AtomicReferenceArray<ZoneReading> zone = latest.get(r.zone());
+        if (zone == null) zone = latest.computeIfAbsent(r.zone(), z -> new AtomicReferenceArray<>(QUANTITIES));
+        int q = r.quantity().ordinal();
+        ZoneReading old = zone.get(q);
+        if (old == null || !r.at().isBefore(old.at())) zone.set(q, r);
     }
 
     /** Every stream's newest reading, by zone then quantity order. */
     public List<ZoneReading> snapshot() {
-        List<ZoneReading> out = new ArrayList<>(latest.values());
+        List<ZoneReading> out = new ArrayList<>();
+        for (AtomicReferenceArray<ZoneReading> zone : latest.values()) {
+            for (int q = 0; q < QUANTITIES; q++) {
+                ZoneReading r = zone.get(q);
+                if (r != null) out.add(r);
+            }
+        }
         out.sort(Comparator.comparing(ZoneReading::zone).thenComparing(r -> r.quantity().ordinal()));
         return out;
     }
 
     /** The newest reading of one stream, or null. */
     public ZoneReading get(String zone, Quantity q) {
-        return latest.get(zone + "\u0000" + q.id());
+        AtomicReferenceArray<ZoneReading> z = latest.get(zone);
+        return z == null ? null : z.get(q.ordinal());
     }
 }

@@ -121,6 +121,7 @@ public final class WatchStage implements Pipeline.ZoneListener {
     /** Stores the state when an alert changed, and at most once a minute for running holds. */
     private void save(Instant now, boolean force) {
         if (!force && now.isBefore(lastSave.plusSeconds(60)) && !now.isBefore(lastSave)) return;
+        lastSave = now; // looked at once a minute whether or not it changed (and retried a minute after a failure)
         countStates();
         Map<String, String> snap = engine.snapshot();
         if (!force && Objects.equals(snap, lastSaved)) return;
@@ -129,7 +130,6 @@ public final class WatchStage implements Pipeline.ZoneListener {
         try {
             store.putState(STATE_KEY, sb.toString());
             lastSaved = snap;
-            lastSave = now;
         } catch (RuntimeException e) {
             LOG.warn("cannot store alert state: {}", e.getMessage());
         }

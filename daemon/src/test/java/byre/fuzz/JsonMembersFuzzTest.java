@@ -92,6 +92,31 @@ class JsonMembersFuzzTest {
         }
     }
 
+    @Test
+    void numbersReadExactlyAsJavaReadsThem() {
+        // The reader's quick path for short decimals must give the correctly rounded double, bit for bit.
+        java.util.SplittableRandom r = new java.util.SplittableRandom(Mutator.seed(424242L));
+        List<String> fixed = List.of("0", "-0", "-0.0", "21.37", "0.1", "0.3", "1784036100123", "9007199254740993", "123456789012345",
+                "1234567890123456", "0.000000000000000000000001", "1e22", "1e23", "-4.9e-324", "2.2250738585072014e-308", "1.7976931348623157e308",
+                "0e999", "5e-324", "999999999999999e22", "0.000123", "100.000");
+        for (String n : fixed) assertEquals(Double.valueOf(Double.parseDouble(n)), Json.parse(n), n);
+        for (int i = 0; i < Mutator.iterations(); i++) {
+            StringBuilder sb = new StringBuilder();
+            if (r.nextBoolean()) sb.append('-');
+            int whole = 1 + r.nextInt(r.nextBoolean() ? 4 : 18);
+            sb.append(1 + r.nextInt(9));
+            for (int d = 1; d < whole; d++) sb.append(r.nextInt(10));
+            if (r.nextBoolean()) {
+                sb.append('.');
+                int frac = 1 + r.nextInt(r.nextBoolean() ? 4 : 18);
+                for (int d = 0; d < frac; d++) sb.append(r.nextInt(10));
+            }
+            if (r.nextInt(4) == 0) sb.append(r.nextBoolean() ? 'e' : 'E').append(r.nextBoolean() ? "-" : "").append(r.nextInt(40));
+            String n = sb.toString();
+            assertEquals(Double.valueOf(Double.parseDouble(n)), Json.parse(n), "input " + i + ": " + n);
+        }
+    }
+
     static String describe(Object o) {
         return o instanceof Object[] a ? java.util.Arrays.toString(a) : String.valueOf(o);
     }
