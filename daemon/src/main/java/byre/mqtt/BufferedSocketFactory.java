@@ -24,33 +24,28 @@ final class BufferedSocketFactory extends SocketFactory {
 
     @Override
     public Socket createSocket(String host, int port) throws IOException {
-        return connected(new InetSocketAddress(host, port));
+        return connected(new InetSocketAddress(host, port), null);
     }
 
     @Override
     public Socket createSocket(String host, int port, InetAddress localHost, int localPort) throws IOException {
-        Socket s = new BufferedSocket();
-        s.bind(new InetSocketAddress(localHost, localPort));
-        s.connect(new InetSocketAddress(host, port));
-        return s;
+        return connected(new InetSocketAddress(host, port), new InetSocketAddress(localHost, localPort));
     }
 
     @Override
     public Socket createSocket(InetAddress host, int port) throws IOException {
-        return connected(new InetSocketAddress(host, port));
+        return connected(new InetSocketAddress(host, port), null);
     }
 
     @Override
     public Socket createSocket(InetAddress address, int port, InetAddress localAddress, int localPort) throws IOException {
-        Socket s = new BufferedSocket();
-        s.bind(new InetSocketAddress(localAddress, localPort));
-        s.connect(new InetSocketAddress(address, port));
-        return s;
+        return connected(new InetSocketAddress(address, port), new InetSocketAddress(localAddress, localPort));
     }
 
-    private static Socket connected(InetSocketAddress address) throws IOException {
+    private static Socket connected(InetSocketAddress remote, InetSocketAddress local) throws IOException {
         Socket s = new BufferedSocket();
-        s.connect(address);
+        if (local != null) s.bind(local);
+        s.connect(remote);
         return s;
     }
 
