@@ -116,9 +116,15 @@ public final class ZoneStage {
         }
         double dry = z.fresh[Quantity.DRY_BULB.ordinal()];
         double wet = z.fresh[Quantity.WET_BULB.ordinal()];
-        if (wet - dry > byre.climate.ZoneClimate.WET_ABOVE_DRY_TOLERANCE_C) observer.wetBulbAboveDryBulb(z.config.id(), wet - dry);
+        double[] inputs = z.fresh;
+        if (wet - dry > byre.climate.ZoneClimate.WET_ABOVE_DRY_TOLERANCE_C) {
+            observer.wetBulbAboveDryBulb(z.config.id(), wet - dry);
+            // Flagged here once and left out of the derivation, which would otherwise report the same fault again.
+            inputs = z.fresh.clone();
+            inputs[Quantity.WET_BULB.ordinal()] = Double.NaN;
+        }
 
-        String problem = deriver.derive(z.config, z.fresh, z.derived);
+        String problem = deriver.derive(z.config, inputs, z.derived);
         if (problem != null) observer.derivationSkipped(z.config.id(), problem);
         boolean any = false;
         for (Quantity dq : Quantity.values()) {

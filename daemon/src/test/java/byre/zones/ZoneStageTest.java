@@ -18,6 +18,7 @@ import org.junit.jupiter.api.Test;
 class ZoneStageTest {
     static final Instant T0 = Instant.parse("2026-01-12T20:00:00Z");
     final List<String> flags = new ArrayList<>();
+    final List<String> skipped = new ArrayList<>();
     final ZoneStage stage = new ZoneStage(List.of(new ZoneConfig("calf-pen-1", List.of("calves"),
             List.of("pen1-dry", "pen1-wet", "pen1-air"), Double.NaN, ZoneConfig.Psychrometer.ASPIRATED, Duration.ofMinutes(5),
             "nrc-1971", 1)), new ClimateDeriver(), new ZoneStage.Observer() {
@@ -27,7 +28,9 @@ class ZoneStageTest {
                 }
 
                 @Override
-                public void derivationSkipped(String zone, String why) {}
+                public void derivationSkipped(String zone, String why) {
+                    skipped.add(zone + ": " + why);
+                }
 
                 @Override
                 public void derived(String zone) {}
@@ -67,9 +70,11 @@ class ZoneStageTest {
     }
 
     @Test
-    void flagsAWetBulbAboveTheDryBulb() {
+    void flagsAWetBulbAboveTheDryBulbOnceAndLeavesItOut() {
         feed(new Reading("pen1-dry", Quantity.DRY_BULB, 5.0, T0));
-        feed(new Reading("pen1-wet", Quantity.WET_BULB, 6.0, T0.plusSeconds(2)));
+        List<ZoneReading> out = feed(new Reading("pen1-wet", Quantity.WET_BULB, 6.0, T0.plusSeconds(2)));
         assertEquals(List.of("calf-pen-1"), flags);
+        assertEquals(List.of(), skipped, "one fault, one report");
+        assertFalse(has(out, Quantity.RH), "no humidity from a wet bulb that cannot be right");
     }
 }
