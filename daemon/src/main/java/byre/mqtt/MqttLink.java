@@ -38,6 +38,9 @@ import org.slf4j.LoggerFactory;
  */
 public final class MqttLink implements AutoCloseable {
     private static final Logger LOG = LoggerFactory.getLogger(MqttLink.class);
+    /** Number of the current connection (see {@link #ackFor}); guarded for writes by {@link #ackGate}. */
+    private volatile long connection;
+    private final java.util.concurrent.locks.ReentrantReadWriteLock ackGate = new java.util.concurrent.locks.ReentrantReadWriteLock();
 
     static {
         PahoLog.install(); // before the client's classes load (each takes its logger once)
@@ -111,19 +114,41 @@ public final class MqttLink implements AutoCloseable {
         onConnect.add(r);
     }
 
-    /** The acknowledgement of one received message, null at QoS 0; safe to run on any thread, once. */
+    /**
+     * The acknowledgement of one received message, null at QoS 0; safe to run on any thread, once. It is sent
+     * only on the connection that delivered the message: after a loss the broker delivers it again, and an
+     * acknowledgement handed to the client while it reconnects can leave its connect waiting for ever.
+     */
     private Runnable ackFor(MqttMessage message) {
         if (message.getQos() == 0) return null;
         int id = message.getId();
         int qos = message.getQos();
+        long deliveredOn = connection;
         return () -> {
+            ackGate.readLock().lock();
             try {
+                if (deliveredOn != connection) {
+                    LOG.debug("acknowledgement of message {} not sent: its connection is gone", id);
+                    return;
+                }
                 client.messageArrivedComplete(id, qos);
             } catch (MqttException | RuntimeException e) {
                 // The connection went away in between: the broker delivers the message again.
                 LOG.debug("acknowledgement of message {} not sent: {}", id, e.toString());
+            } finally {
+                ackGate.readLock().unlock();
             }
         };
+    }
+
+    /** A new connection number: acknowledgements of messages from earlier connections are not sent. */
+    private void nextConnection() {
+        ackGate.writeLock().lock(); // waits for an acknowledgement being sent right now
+        try {
+            connection++;
+        } finally {
+            ackGate.writeLock().unlock();
+        }
     }
 
     /**
@@ -203,6 +228,7 @@ public final class MqttLink implements AutoCloseable {
                 continue;
             }
             try {
+                nextConnection();
                 onConnecting.forEach(Runnable::run);
                 client.connect(options()).waitForCompletion(10_000);
                 if (!client.isConnected()) throw new MqttException(MqttException.REASON_CODE_CLIENT_TIMEOUT);
@@ -338,6 +364,7 @@ public final class MqttLink implements AutoCloseable {
         @Override
         public void connectionLost(Throwable cause) {
             connected = false;
+            nextConnection();
             connectionLosses.increment();
             lastError = "connection lost: " + (cause == null ? "unknown" : cause.getMessage());
             if (!closing.get()) LOG.warn("lost the MQTT broker connection ({}); reconnecting", cause == null ? "?" : cause.getMessage());
