@@ -168,12 +168,7 @@ class HistoryWriterTest {
         writer.append(PEN1_DRY, T0, 0.0);
         assertTrue(writer.flush());
         // Cap the file at its current size: the next pages cannot be allocated (SQLITE_FULL).
-        writer.runOnWriter(c -> {
-            try (var st = c.createStatement(); var rs = st.executeQuery("PRAGMA page_count")) {
-                rs.next();
-                st.execute("PRAGMA max_page_count = " + rs.getLong(1));
-            }
-        }).get();
+        WriterHooks.capAtCurrentSize(writer);
         int rows = 20_000;
         for (int i = 1; i <= rows; i++) assertTrue(writer.append(PEN1_DRY, T0.plusSeconds(i), i));
         await().atMost(Duration.ofSeconds(20)).until(() -> !writer.isHealthy());
@@ -185,11 +180,7 @@ class HistoryWriterTest {
         assertTrue(storedWhileFull < rows + 1);
         assertEquals(0, writer.rowsDropped());
 
-        writer.runOnWriter(c -> {
-            try (var st = c.createStatement()) {
-                st.execute("PRAGMA max_page_count = 1073741823");
-            }
-        }).get();
+        WriterHooks.lift(writer);
         await().atMost(Duration.ofSeconds(20)).until(writer::isHealthy);
         assertTrue(writer.flush());
         assertEquals(rows + 1, Sql.number(store.path(), "SELECT count(*) FROM reading"));
@@ -203,22 +194,13 @@ class HistoryWriterTest {
             .withMaxRetryDelay(Duration.ofMillis(200)));
         writer.append(PEN1_DRY, T0, 0.0);
         assertTrue(writer.flush());
-        writer.runOnWriter(c -> {
-            try (var st = c.createStatement(); var rs = st.executeQuery("PRAGMA page_count")) {
-                rs.next();
-                st.execute("PRAGMA max_page_count = " + rs.getLong(1));
-            }
-        }).get();
+        WriterHooks.capAtCurrentSize(writer);
         // Enough rows that a batch needs new pages, then more than the backlog holds.
         for (int i = 1; i <= 3000; i++) writer.append(PEN1_DRY, T0.plusSeconds(i), i);
         await().atMost(Duration.ofSeconds(20)).until(() -> writer.queueDepth() == 0 && writer.rowsDropped() > 0);
         assertFalse(writer.isHealthy());
         assertTrue(writer.backlogRows() <= 1000);
-        writer.runOnWriter(c -> {
-            try (var st = c.createStatement()) {
-                st.execute("PRAGMA max_page_count = 1073741823");
-            }
-        }).get();
+        WriterHooks.lift(writer);
         assertTrue(writer.flush(Duration.ofSeconds(20)));
         long stored = Sql.number(store.path(), "SELECT count(*) FROM reading");
         assertEquals(3001, stored + writer.rowsDropped(), "every row is either stored or counted as dropped");
