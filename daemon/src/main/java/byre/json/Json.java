@@ -62,16 +62,14 @@ public final class Json {
     /**
      * The values of the given top-level members of a JSON object, as {@link #path} would find them after
      * {@link #parse} (the last of repeated names wins), without building the rest of the document: the
-     * whole text is still checked, and a malformed one throws like {@link #parse}. Returns null when the
-     * value is not an object. Sensor payloads go through here thousands of times a second in a burst.
+     * whole text is still checked, and a malformed one throws like {@link #parse}. Returns null, without
+     * reading further, when the text does not start with an object: the caller reads it with {@link #parse}.
+     * Sensor payloads go through here thousands of times a second in a burst.
      */
     public static Object[] members(String text, String... names) {
         Json p = new Json(text);
         p.skipWhitespace();
-        if (p.pos >= text.length() || text.charAt(p.pos) != '{') {
-            parse(text); // throws for malformed text; otherwise not an object
-            return null;
-        }
+        if (p.pos >= text.length() || text.charAt(p.pos) != '{') return null;
         Object[] found = new Object[names.length];
         try {
             p.selectMembers(names, found);
@@ -137,7 +135,7 @@ public final class Json {
         switch (c) {
             case '{': skipContainer(depth, '}', true); return;
             case '[': skipContainer(depth, ']', false); return;
-            case '"': skipString(); return;
+            case '"': scanString(null); return;
             case 't': literal("true", null); return;
             case 'f': literal("false", null); return;
             case 'n': literal("null", null); return;
@@ -161,7 +159,7 @@ public final class Json {
             skipWhitespace();
             if (object) {
                 if (peek() != '"') throw error("expected a quoted member name");
-                skipString();
+                scanString(null);
                 skipWhitespace();
                 if (peek() != ':') throw error("expected ':' after member name");
                 pos++;
@@ -173,32 +171,6 @@ public final class Json {
             pos++;
             if (c == close) return;
             if (c != ',') throw error(object ? "expected ',' or '}' in object" : "expected ',' or ']' in array");
-        }
-    }
-
-    private void skipString() {
-        pos++;
-        while (true) {
-            if (pos >= text.length) throw error("unterminated string");
-            char c = text[pos++];
-            if (c == '"') return;
-            if (c < 0x20) throw error("control character in string");
-            if (c != '\\') continue;
-            if (pos >= text.length) throw error("unterminated escape");
-            char e = text[pos++];
-            switch (e) {
-                case '"': case '\\': case '/': case 'b': case 'f': case 'n': case 'r': case 't': break;
-                case 'u':
-                    if (pos + 4 > text.length) throw error("short \\u escape");
-                    try {
-                        Integer.parseInt(new String(text, pos, 4), 16);
-                    } catch (NumberFormatException ex) {
-                        throw error("bad \\u escape");
-                    }
-                    pos += 4;
-                    break;
-                default: throw error("bad escape '\\" + printable(e) + "'");
-            }
         }
     }
 
@@ -264,39 +236,46 @@ public final class Json {
     }
 
     private String string() {
-        pos++;
         StringBuilder sb = new StringBuilder();
+        scanString(sb);
+        return sb.toString();
+    }
+
+    /** Moves past one string, checking it; appends its characters to {@code out} unless that is null. */
+    private void scanString(StringBuilder out) {
+        pos++;
         while (true) {
             if (pos >= text.length) throw error("unterminated string");
             char c = text[pos++];
-            if (c == '"') return sb.toString();
+            if (c == '"') return;
             if (c < 0x20) throw error("control character in string");
-            if (c != '\\') {
-                sb.append(c);
-                continue;
-            }
-            if (pos >= text.length) throw error("unterminated escape");
-            char e = text[pos++];
-            switch (e) {
-                case '"': sb.append('"'); break;
-                case '\\': sb.append('\\'); break;
-                case '/': sb.append('/'); break;
-                case 'b': sb.append('\b'); break;
-                case 'f': sb.append('\f'); break;
-                case 'n': sb.append('\n'); break;
-                case 'r': sb.append('\r'); break;
-                case 't': sb.append('\t'); break;
-                case 'u':
-                    if (pos + 4 > text.length) throw error("short \\u escape");
-                    try {
-                        sb.append((char) Integer.parseInt(new String(text, pos, 4), 16));
-                    } catch (NumberFormatException ex) {
-                        throw error("bad \\u escape");
-                    }
-                    pos += 4;
-                    break;
-                default: throw error("bad escape '\\" + printable(e) + "'");
-            }
+            if (c == '\\') c = escape();
+            if (out != null) out.append(c);
+        }
+    }
+
+    /** The character of the escape after a backslash. */
+    private char escape() {
+        if (pos >= text.length) throw error("unterminated escape");
+        char e = text[pos++];
+        switch (e) {
+            case '"': case '\\': case '/': return e;
+            case 'b': return '\b';
+            case 'f': return '\f';
+            case 'n': return '\n';
+            case 'r': return '\r';
+            case 't': return '\t';
+            case 'u':
+                if (pos + 4 > text.length) throw error("short \\u escape");
+                char unit;
+                try {
+                    unit = (char) Integer.parseInt(new String(text, pos, 4), 16);
+                } catch (NumberFormatException ex) {
+                    throw error("bad \\u escape");
+                }
+                pos += 4;
+                return unit;
+            default: throw error("bad escape '\\" + printable(e) + "'");
         }
     }
 
