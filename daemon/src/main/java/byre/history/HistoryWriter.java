@@ -257,19 +257,7 @@ public final class HistoryWriter implements AutoCloseable {
      * Rows with such a callback are committed without waiting for a fuller batch (group commit).
      */
     public boolean append(StreamKey key, long epochMs, double value, Runnable onStored) {
-        if (closing || key == null || !Double.isFinite(value)) {
-            rowsRejected.incrementAndGet();
-            release(onStored);
-            return false;
-        }
-        try {
-            if (queue.offer(new Row(key, epochMs, value, onStored), settings.appendTimeout().toNanos(), TimeUnit.NANOSECONDS)) return true;
-        } catch (InterruptedException e) {
-            Thread.currentThread().interrupt();
-        }
-        rowsRejected.incrementAndGet();
-        release(onStored);
-        return false;
+        return enqueue(key, epochMs, value, onStored, false);
     }
 
     /**
@@ -278,14 +266,20 @@ public final class HistoryWriter implements AutoCloseable {
      * reading. Gives up only when the writer is closed or its thread has stopped.
      */
     public boolean appendWaiting(StreamKey key, long epochMs, double value, Runnable onStored) {
-        if (closing || key == null || !Double.isFinite(value)) return append(key, epochMs, value, onStored);
-        Row row = new Row(key, epochMs, value, onStored);
-        try {
-            while (!closing && thread.isAlive()) {
-                if (queue.offer(row, 1, TimeUnit.SECONDS)) return true;
+        return enqueue(key, epochMs, value, onStored, true);
+    }
+
+    private boolean enqueue(StreamKey key, long epochMs, double value, Runnable onStored, boolean untilRoom) {
+        if (!closing && key != null && Double.isFinite(value)) {
+            Row row = new Row(key, epochMs, value, onStored);
+            try {
+                if (queue.offer(row, settings.appendTimeout().toNanos(), TimeUnit.NANOSECONDS)) return true;
+                while (untilRoom && !closing && thread.isAlive()) {
+                    if (queue.offer(row, 1, TimeUnit.SECONDS)) return true;
+                }
+            } catch (InterruptedException e) {
+                Thread.currentThread().interrupt();
             }
-        } catch (InterruptedException e) {
-            Thread.currentThread().interrupt();
         }
         rowsRejected.incrementAndGet();
         release(onStored);
