@@ -190,12 +190,7 @@ public final class IngestBench {
         long before = peer.got();
         long t0 = System.nanoTime();
         publish(m, "bare", qos, count);
-        long waitUntil = System.nanoTime() + Duration.ofSeconds(30).toNanos();
-        while (peer.got() < before + count && System.nanoTime() < waitUntil) {
-            long seen = peer.got();
-            Thread.sleep(500);
-            if (qos == 0 && peer.got() == seen) break; // QoS 0: what is lost stays lost
-        }
+        awaitCount(peer::got, before + count, qos);
         long got = peer.got() - before;
         return new double[] {got / ((peer.lastNanos() - t0) / 1e9), got};
     }
@@ -211,15 +206,20 @@ public final class IngestBench {
         });
         long t0 = System.nanoTime();
         publish(m, "injvm", qos, count);
-        long waitUntil = System.nanoTime() + Duration.ofSeconds(30).toNanos();
-        while (got.get() < count && System.nanoTime() < waitUntil) {
-            long before = got.get();
-            Thread.sleep(500);
-            if (qos == 0 && got.get() == before) break; // QoS 0: what is lost stays lost
-        }
+        awaitCount(got::get, count, qos);
         bare.disconnect();
         bare.close();
         return new double[] {got.get() / ((lastNanos[0] - t0) / 1e9), got.get()};
+    }
+
+    /** Waits (at most 30 s) for a subscriber's count to reach {@code target}; at QoS 0 also until it stops moving. */
+    static void awaitCount(java.util.function.LongSupplier count, long target, int qos) throws InterruptedException {
+        long waitUntil = System.nanoTime() + Duration.ofSeconds(30).toNanos();
+        while (count.getAsLong() < target && System.nanoTime() < waitUntil) {
+            long seen = count.getAsLong();
+            Thread.sleep(500);
+            if (qos == 0 && count.getAsLong() == seen) break; // QoS 0: what is lost stays lost
+        }
     }
 
     /** byre, on the prefix its configuration subscribes to: {rate, rows stored}. */
