@@ -138,7 +138,7 @@ public final class Pipeline implements AutoCloseable {
         while (!closed) {
             batch.clear();
             Instant now = clock.instant();
-            boolean tickDue = now.isBefore(lastTick) || !now.isBefore(lastTick.plusMillis(TICK_MILLIS));
+            boolean tickDue = tickDue(now, lastTick);
             try {
                 boolean woken = false;
                 synchronized (lock) {
@@ -153,7 +153,7 @@ public final class Pipeline implements AutoCloseable {
                 if (woken && System.nanoTime() - lastBatchNanos < BUSY_NANOS) LockSupport.parkNanos(GATHER_NANOS);
                 synchronized (lock) {
                     now = clock.instant();
-                    tickDue = now.isBefore(lastTick) || !now.isBefore(lastTick.plusMillis(TICK_MILLIS));
+                    tickDue = tickDue(now, lastTick);
                     if (tickDue) {
                         try {
                             zones.derivePending(now, derived::addLast);
@@ -161,9 +161,7 @@ public final class Pipeline implements AutoCloseable {
                             LOG.error("zone derivation failed: {}", e.toString(), e);
                         }
                     }
-                    if (derived.size() >= MAX_WAITING) lock.notifyAll();
-                    batch.addAll(derived);
-                    derived.clear();
+                    takeDerived(batch);
                 }
             } catch (InterruptedException e) {
                 break;
@@ -183,12 +181,23 @@ public final class Pipeline implements AutoCloseable {
             }
         }
         // Derived before the stop: still stored and seen by the rules.
+        batch.clear();
         synchronized (lock) {
-            batch.clear();
-            batch.addAll(derived);
-            derived.clear();
+            takeDerived(batch);
         }
         for (ZoneReading zr : batch) deliver(zr);
+    }
+
+    /** Due at the interval, and at once after the clock stepped back. */
+    private static boolean tickDue(Instant now, Instant lastTick) {
+        return now.isBefore(lastTick) || !now.isBefore(lastTick.plusMillis(TICK_MILLIS));
+    }
+
+    /** Moves every waiting zone reading into {@code into} (holding {@link #lock}); frees an intake held back. */
+    private void takeDerived(List<ZoneReading> into) {
+        if (derived.size() >= MAX_WAITING) lock.notifyAll();
+        into.addAll(derived);
+        derived.clear();
     }
 
     private void deliver(ZoneReading zr) {
