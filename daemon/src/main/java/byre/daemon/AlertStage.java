@@ -37,7 +37,7 @@ final class AlertStage implements WatchStage.Outcomes {
     private final ZoneId zone;
     private final Consumer<String> console;
     private final Deque<NightDigest.IncidentSpan> episodes = new ArrayDeque<>();
-    private Instant nextTick = Instant.MIN;
+    private final Cadence ticks = new Cadence(java.time.Duration.ofSeconds(5), java.time.Duration.ofSeconds(60));
 
     private final io.micrometer.core.instrument.MeterRegistry registry;
 
@@ -74,8 +74,7 @@ final class AlertStage implements WatchStage.Outcomes {
 
     @Override
     public void tick(Instant now) {
-        if (now.isBefore(nextTick) && !now.isBefore(nextTick.minusSeconds(60))) return;
-        nextTick = now.plusSeconds(5);
+        if (!ticks.due(now)) return;
         alerts.tick();
     }
 

@@ -16,7 +16,7 @@ final class RuleReload implements Pipeline.ZoneListener {
     private final RuleLoader rules;
     private final WatchStage watches;
     private final BooleanSupplier asked;
-    private Instant nextCheck = Instant.MIN;
+    private final Cadence checks = new Cadence(java.time.Duration.ofSeconds(2), java.time.Duration.ofSeconds(10));
 
     RuleReload(RuleLoader rules, WatchStage watches, BooleanSupplier asked) {
         this.rules = rules;
@@ -30,9 +30,8 @@ final class RuleReload implements Pipeline.ZoneListener {
     @Override
     public void tick(Instant now) {
         boolean requested = asked.getAsBoolean();
-        boolean due = !now.isBefore(nextCheck) || now.isBefore(nextCheck.minusSeconds(10));
-        if (!requested && !due) return;
-        nextCheck = now.plusSeconds(2);
+        if (!checks.due(now) && !requested) return;
+        if (requested) checks.restart(now);
         if (requested || rules.changed()) {
             rules.load().ifPresentOrElse(rs -> watches.reload(rs, now),
                     () -> LOG.error("reload refused: the rule files have errors; the previous rules keep running"));

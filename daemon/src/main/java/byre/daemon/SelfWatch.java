@@ -23,7 +23,7 @@ final class SelfWatch implements Pipeline.ZoneListener {
     private final AlertService alerts;
     private Instant unhealthySince;
     private boolean raised;
-    private Instant nextCheck = Instant.MIN;
+    private final Cadence checks = new Cadence(Duration.ofSeconds(5), Duration.ofSeconds(60));
     private Instant nextPrune = Instant.MIN;
 
     SelfWatch(HistoryWriter writer, AlertService alerts) {
@@ -36,8 +36,7 @@ final class SelfWatch implements Pipeline.ZoneListener {
 
     @Override
     public void tick(Instant now) {
-        if (now.isBefore(nextCheck) && !now.isBefore(nextCheck.minusSeconds(60))) return;
-        nextCheck = now.plusSeconds(5);
+        if (!checks.due(now)) return;
         boolean healthy = writer.isHealthy();
         if (healthy) {
             unhealthySince = null;

@@ -19,7 +19,7 @@ final class ZoneStreamPublisher implements Pipeline.ZoneListener {
     private final Map<String, String> lastSent = new ConcurrentHashMap<>();
     /** Topic per zone and quantity, built once: offer runs for every derived value of every reading. */
     private final Map<String, Map<Quantity, String>> topics = new ConcurrentHashMap<>();
-    private java.time.Instant nextFlush = java.time.Instant.MIN;
+    private final Cadence flushes = new Cadence(java.time.Duration.ofSeconds(1), java.time.Duration.ofSeconds(10));
 
     ZoneStreamPublisher(MqttLink link, String prefix, String site) {
         this.link = link;
@@ -35,9 +35,7 @@ final class ZoneStreamPublisher implements Pipeline.ZoneListener {
     /** Flushes at most once a second (the pipeline ticks more often than that). */
     @Override
     public void tick(java.time.Instant now) {
-        if (now.isBefore(nextFlush) && !now.isBefore(nextFlush.minusSeconds(10))) return;
-        nextFlush = now.plusSeconds(1);
-        flush();
+        if (flushes.due(now)) flush();
     }
 
     void offer(ZoneReading r) {
