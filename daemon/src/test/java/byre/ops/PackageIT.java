@@ -63,7 +63,8 @@ class PackageIT {
         for (String expected : List.of("-rw-r--r-- root/root .* \\./usr/share/byre/byre\\.jar", "-rwxr-xr-x root/root .* \\./usr/bin/byre",
                 "-rw-r--r-- root/root .* \\./lib/systemd/system/byre\\.service", "-rw-r--r-- root/root .* \\./etc/byre/byre\\.yaml",
                 "drwxr-xr-x root/root .* \\./etc/byre/rules\\.d/", "-rw-r--r-- root/root .* \\./etc/byre/rules\\.d/[a-z-]+\\.rules",
-                "drwxr-xr-x root/root .* \\./var/lib/byre/")) {
+                "drwxr-xr-x root/root .* \\./var/lib/byre/",
+                "-rw-r--r-- root/root .* \\./usr/share/byre/mosquitto-bridge\\.conf")) {
             assertTrue(contents.out().lines().anyMatch(l -> l.matches(expected)), expected + " in\n" + contents.out());
         }
 

@@ -39,22 +39,27 @@ public final class Mosquitto implements AutoCloseable {
      * same folder (the folder is not removed by {@link #close()}).
      */
     public static Mosquitto start(int port, Path stateDir) throws IOException, InterruptedException {
-        Path dir = Files.createTempDirectory("byre-mosquitto");
-        Path conf = dir.resolve("mosquitto.conf");
         String persistence = stateDir == null ? "persistence false"
                 : "persistence true\npersistence_location " + stateDir.toAbsolutePath() + "/\nautosave_interval 1\nautosave_on_changes true"
                 // run as root, mosquitto would switch to user 'mosquitto', which cannot write the test's folder
                 + "\nuser " + System.getProperty("user.name");
-        Files.writeString(conf, String.join("\n",
+        return startConfigured(port, String.join("\n",
                 "listener " + port + " 127.0.0.1",
                 "allow_anonymous true",
                 persistence,
                 "max_queued_messages 0",
                 "max_queued_bytes 0",
-                "max_inflight_messages 0",
-                "log_dest stderr",
-                "log_type error",
-                "") );
+                "max_inflight_messages 0"));
+    }
+
+    /**
+     * Starts with the given configuration text (listeners included) and waits until {@code port}, one of its
+     * listeners, accepts connections; errors go to the log in the broker's own folder.
+     */
+    public static Mosquitto startConfigured(int port, String configuration) throws IOException, InterruptedException {
+        Path dir = Files.createTempDirectory("byre-mosquitto");
+        Path conf = dir.resolve("mosquitto.conf");
+        Files.writeString(conf, configuration + "\nlog_dest stderr\nlog_type error\n");
         String exe = Files.isExecutable(Path.of("/usr/sbin/mosquitto")) ? "/usr/sbin/mosquitto" : "mosquitto";
         Process p = new ProcessBuilder(exe, "-c", conf.toString())
                 .redirectErrorStream(true).redirectOutput(dir.resolve("mosquitto.log").toFile()).start();

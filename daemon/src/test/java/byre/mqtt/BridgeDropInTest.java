@@ -1,0 +1,151 @@
+package byre.mqtt;
+
+import static org.awaitility.Awaitility.await;
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+import static org.junit.jupiter.api.Assumptions.assumeTrue;
+
+import byre.testing.Mosquitto;
+import byre.testing.TestPublisher;
+import java.io.IOException;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.List;
+import java.util.concurrent.CopyOnWriteArrayList;
+import java.util.concurrent.TimeUnit;
+import org.eclipse.paho.client.mqttv3.MqttClient;
+import org.eclipse.paho.client.mqttv3.MqttConnectOptions;
+import org.eclipse.paho.client.mqttv3.persist.MemoryPersistence;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+
+/**
+ * The shipped mosquitto bridge drop-in ({@code config/mosquitto-bridge.conf}), run by mosquitto itself: a barn
+ * broker bridged over TLS, with a password, to a central broker, both on loopback. Only the placeholders, the
+ * CA path, the password and the reconnect delay are substituted.
+ */
+class BridgeDropInTest {
+    private static final String SITE = "larkmoor";
+    private static final String USER = System.getProperty("user.name");
+
+    @TempDir
+    Path dir;
+
+    @Test
+    void siteTopicsGoOutAcknowledgementsComeInAndNothingIsLostWhileTheCentreIsDown() throws Exception {
+        assumeTrue(Files.isExecutable(Path.of("/usr/bin/openssl")) && Files.isExecutable(Path.of("/usr/bin/mosquitto_passwd")),
+                "needs openssl and mosquitto_passwd (Debian packages openssl, mosquitto)");
+        makeCertificates();
+        run("/usr/bin/mosquitto_passwd", "-b", "-c", dir.resolve("central.passwd").toString(), "byre-" + SITE, "bridge-pw");
+
+        int centralTls = Mosquitto.freePort();
+        int centralPlain = Mosquitto.freePort();
+        int barnPort = Mosquitto.freePort();
+        Files.createDirectories(dir.resolve("central-state"));
+        String centralConf = String.join("\n",
+                "per_listener_settings true",
+                "user " + USER,
+                "persistence true",
+                "persistence_location " + dir.resolve("central-state") + "/",
+                "listener " + centralTls + " 127.0.0.1",
+                "cafile " + dir.resolve("ca.pem"),
+                "certfile " + dir.resolve("server.pem"),
+                "keyfile " + dir.resolve("server.key"),
+                "allow_anonymous false",
+                "password_file " + dir.resolve("central.passwd"),
+                // the test's own clients, plain and anonymous, on a second loopback listener
+                "listener " + centralPlain + " 127.0.0.1",
+                "allow_anonymous true");
+        String dropIn = Files.readString(root().resolve("config/mosquitto-bridge.conf"))
+                .replace("@SITE@", SITE)
+                .replace("@CENTRAL@", "127.0.0.1:" + centralTls)
+                .replace("/etc/byre/central-ca.pem", dir.resolve("ca.pem").toString())
+                .replace("remote_password CHANGE-ME", "remote_password bridge-pw")
+                .replace("restart_timeout 2 30", "restart_timeout 1 2");
+        assertTrue(dropIn.contains("remote_password bridge-pw") && dropIn.contains("restart_timeout 1 2"),
+                "the drop-in's lines the test substitutes have changed");
+        String barnConf = "user " + USER + "\nlistener " + barnPort + " 127.0.0.1\nallow_anonymous true\n" + dropIn;
+
+        List<String> atCentre = new CopyOnWriteArrayList<>();
+        List<String> acksAtBarn = new CopyOnWriteArrayList<>();
+        Mosquitto central = Mosquitto.startConfigured(centralTls, centralConf);
+        try (Mosquitto barn = Mosquitto.startConfigured(barnPort, barnConf);
+             TestPublisher atBarn = new TestPublisher(barn.uri())) {
+            MqttClient watcher = subscriber("tcp://127.0.0.1:" + centralPlain, atCentre);
+            atBarn.client().subscribe("byre/" + SITE + "/ack", 1,
+                    (t, m) -> acksAtBarn.add(new String(m.getPayload(), StandardCharsets.UTF_8)));
+
+            // The bridge announces itself on the centre.
+            await().atMost(30, TimeUnit.SECONDS).until(() -> atCentre.contains("byre/" + SITE + "/uplink 1"));
+            atBarn.publish("byre/" + SITE + "/events", "e1");
+            atBarn.publish("larkmoor/calf-barn/pen1/dry", "21.5");   // a sensor topic: stays in the barn
+            atBarn.publish("byre/" + SITE + "/zones/calf-pen-1/dry-bulb", "{\"value\":21.5}");
+            await().atMost(30, TimeUnit.SECONDS).until(() -> atCentre.contains("byre/" + SITE + "/zones/calf-pen-1/dry-bulb {\"value\":21.5}"));
+
+            // The centre goes away; the barn goes on; the bridge queues what it cannot send.
+            watcher.disconnect();
+            watcher.close();
+            central.close();
+            for (int i = 2; i <= 5; i++) atBarn.publish("byre/" + SITE + "/events", "e" + i);
+            central = Mosquitto.startConfigured(centralTls, centralConf);
+            watcher = subscriber("tcp://127.0.0.1:" + centralPlain, atCentre);
+            await().atMost(60, TimeUnit.SECONDS).until(() -> events(atCentre).size() >= 5);
+            assertEquals(List.of("e1", "e2", "e3", "e4", "e5"), events(atCentre), "every event once, in order");
+
+            // An acknowledgement made at the centre reaches the barn, and is not sent back out.
+            try (TestPublisher atCentral = new TestPublisher("tcp://127.0.0.1:" + centralPlain)) {
+                atCentral.publish("byre/" + SITE + "/ack", "{\"incident\":\"ab12\",\"by\":\"Ann\"}");
+            }
+            await().atMost(30, TimeUnit.SECONDS).until(() -> acksAtBarn.size() == 1);
+            atBarn.publish("byre/" + SITE + "/events", "e6");
+            await().atMost(30, TimeUnit.SECONDS).until(() -> events(atCentre).size() == 6);
+            assertEquals(1, atCentre.stream().filter(s -> s.startsWith("byre/" + SITE + "/ack ")).count(),
+                    "the acknowledgement came back from the barn: " + atCentre);
+            assertTrue(atCentre.stream().noneMatch(s -> s.startsWith("larkmoor/")), "a sensor topic crossed the bridge: " + atCentre);
+            watcher.disconnect();
+            watcher.close();
+        } finally {
+            central.close();
+        }
+    }
+
+    /** A persistent session on the centre, so what arrives while it reconnects is kept for it. */
+    private static MqttClient subscriber(String uri, List<String> into) throws Exception {
+        MqttClient c = new MqttClient(uri, "centre-watcher", new MemoryPersistence());
+        MqttConnectOptions o = new MqttConnectOptions();
+        o.setCleanSession(false);
+        c.connect(o);
+        c.subscribe("#", 1, (t, m) -> into.add(t + " " + new String(m.getPayload(), StandardCharsets.UTF_8)));
+        return c;
+    }
+
+    private static List<String> events(List<String> seen) {
+        String prefix = "byre/" + SITE + "/events ";
+        return seen.stream().filter(s -> s.startsWith(prefix)).map(s -> s.substring(prefix.length())).toList();
+    }
+
+    /** A test CA and a server certificate for 127.0.0.1 signed by it. */
+    private void makeCertificates() throws IOException, InterruptedException {
+        String ca = dir.resolve("ca").toString();
+        String server = dir.resolve("server").toString();
+        run("/usr/bin/openssl", "req", "-x509", "-newkey", "rsa:2048", "-nodes", "-days", "2", "-subj", "/CN=byre test CA",
+                "-keyout", ca + ".key", "-out", ca + ".pem");
+        run("/usr/bin/openssl", "req", "-newkey", "rsa:2048", "-nodes", "-subj", "/CN=127.0.0.1",
+                "-keyout", server + ".key", "-out", server + ".csr");
+        Files.writeString(dir.resolve("san.ext"), "subjectAltName=IP:127.0.0.1\n");
+        run("/usr/bin/openssl", "x509", "-req", "-in", server + ".csr", "-CA", ca + ".pem", "-CAkey", ca + ".key",
+                "-CAcreateserial", "-days", "2", "-extfile", dir.resolve("san.ext").toString(), "-out", server + ".pem");
+    }
+
+    private void run(String... argv) throws IOException, InterruptedException {
+        Process p = new ProcessBuilder(argv).redirectErrorStream(true).redirectOutput(dir.resolve("tool.log").toFile()).start();
+        assertTrue(p.waitFor(30, TimeUnit.SECONDS), String.join(" ", argv) + " did not finish");
+        assertEquals(0, p.exitValue(), String.join(" ", argv) + ": " + Files.readString(dir.resolve("tool.log")));
+    }
+
+    private static Path root() {
+        String r = System.getProperty("byre.root");
+        return r != null ? Path.of(r) : Path.of("..");
+    }
+}
