@@ -41,7 +41,7 @@ public final class ConfigLoader {
     static final Set<String> DIGEST_KEYS = ordered("at", "notify");
     static final Set<String> SELF_ALERT_KEYS = ordered("notify", "channel-failing-after");
     static final Set<String> MQTT_KEYS = ordered("broker", "listen", "client-id", "username", "password-file",
-            "password-env", "publish-prefix", "qos", "ca-file");
+            "password-env", "publish-prefix", "qos", "ca-file", "publish-events", "publish-every");
     static final Set<String> SENSOR_KEYS = ordered("topic", "quantity", "unit", "payload", "time", "id-level");
     static final Set<String> ZONE_KEYS = ordered("groups", "sensors", "elevation", "psychrometer", "max-age", "thi");
     static final Set<String> HISTORY_KEYS = ordered("path", "keep-raw", "keep-minute", "keep-hour");
@@ -179,7 +179,10 @@ public final class ConfigLoader {
             if (!Files.isReadable(p)) problem(m.get("ca-file"), "mqtt.ca-file " + p + " cannot be read");
             caFile = p.toString();
         }
-        return new MqttSettings(broker, hp[0], Integer.parseInt(hp[1]), clientId, username, password, prefix, qos, caFile);
+        boolean events = bool(m.get("publish-events"), "mqtt.publish-events", true);
+        Duration every = duration(m.get("publish-every"), "mqtt.publish-every", MqttSettings.DEFAULT_PUBLISH_EVERY);
+        return new MqttSettings(broker, hp[0], Integer.parseInt(hp[1]), clientId, username, password, prefix, qos, caFile,
+                events, every);
     }
 
     private Map<String, SensorConfig> sensors(Node node) {
@@ -322,6 +325,11 @@ public final class ConfigLoader {
         for (Map.Entry<String, Node> e : mapping(node, null, "notify").entrySet()) {
             String name = e.getKey();
             Node n = e.getValue();
+            if (name.contains("/")) {
+                // names with '/' are the site's own event stream (<prefix>/<site>/events)
+                problem(n, "channel name '" + name + "' may not contain '/'");
+                continue;
+            }
             if (!(n instanceof MappingNode mn)) {
                 problem(n, "channel " + name + " must be a mapping such as { type: webhook, url: ... }");
                 continue;
@@ -524,6 +532,19 @@ public final class ConfigLoader {
             problem(node, what + " must be a whole number, not '" + s + "'");
             return fallback;
         }
+    }
+
+    private boolean bool(Node node, String what, boolean fallback) {
+        String s = string(node, what, null);
+        if (s == null) return fallback;
+        return switch (s.strip().toLowerCase(java.util.Locale.ROOT)) {
+            case "true", "yes", "on" -> true;
+            case "false", "no", "off" -> false;
+            default -> {
+                problem(node, what + " must be true or false, not '" + s + "'");
+                yield fallback;
+            }
+        };
     }
 
     private Duration duration(Node node, String what, Duration fallback) {

@@ -95,7 +95,7 @@ public final class Daemon implements AutoCloseable {
                 broker = EmbeddedBroker.start(config.mqtt().listenHost(), config.mqtt().listenPort());
             }
             link = new MqttLink(config.mqtt(), config.site(), registry);
-            publisher = new ZoneStreamPublisher(link, config.mqtt().publishPrefix(), config.site());
+            publisher = new ZoneStreamPublisher(link, config.mqtt().publishPrefix(), config.site(), config.mqtt().publishEvery());
             pipeline.addListener(publisher);
             alerts = byre.notify.AlertServices.create(config, store, link, registry, clock);
             link.subscribe(alerts.ackTopic(), alerts::onAckMessage);

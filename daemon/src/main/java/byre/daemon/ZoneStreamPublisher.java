@@ -9,8 +9,9 @@ import java.util.concurrent.ConcurrentHashMap;
 
 /**
  * Republishes zone streams as retained messages under {@code <prefix>/<site>/zones/<zone>/<quantity>}
- * (design section 7). Values are coalesced: only the newest per stream is sent, at most once per
- * flush, so a burst of readings never turns into a burst of publications.
+ * Values are coalesced: only the newest per stream is sent, at most once per flush ({@code mqtt.publish-every},
+ * a second unless configured; a central site view is content with a minute), so a burst of readings never
+ * turns into a burst of publications.
  */
 final class ZoneStreamPublisher implements Pipeline.ZoneListener {
     private final MqttLink link;
@@ -19,9 +20,10 @@ final class ZoneStreamPublisher implements Pipeline.ZoneListener {
     private final Map<String, String> lastSent = new ConcurrentHashMap<>();
     /** Topic per zone and quantity, built once: offer runs for every derived value of every reading. */
     private final Map<String, Map<Quantity, String>> topics = new ConcurrentHashMap<>();
-    private final Cadence flushes = new Cadence(java.time.Duration.ofSeconds(1), java.time.Duration.ofSeconds(10));
+    private final Cadence flushes;
 
-    ZoneStreamPublisher(MqttLink link, String prefix, String site) {
+    ZoneStreamPublisher(MqttLink link, String prefix, String site, java.time.Duration every) {
+        this.flushes = new Cadence(every, every.multipliedBy(10));
         this.link = link;
         this.base = prefix + "/" + site + "/zones/";
     }
@@ -32,7 +34,7 @@ final class ZoneStreamPublisher implements Pipeline.ZoneListener {
         offer(r);
     }
 
-    /** Flushes at most once a second (the pipeline ticks more often than that). */
+    /** Flushes at most once per interval (the pipeline ticks four times a second). */
     @Override
     public void tick(java.time.Instant now) {
         if (flushes.due(now)) flush();

@@ -38,6 +38,8 @@ public final class AlertService implements AckService, AutoCloseable {
     private final Duration channelFailingAfter;
     private final String ackTopic;
     private volatile String lastSaved = "";
+    /** A channel that gets every event whatever its watch names (the site's event stream), or null. */
+    private volatile String everyEventTo;
     private Digest digest;
     private Instant nextDigest;
 
@@ -159,10 +161,23 @@ public final class AlertService implements AckService, AutoCloseable {
         }
     }
 
+    /** Addresses every later event also to {@code channel} (one of this service's channels). */
+    void sendEveryEventTo(String channel) {
+        everyEventTo = channel;
+    }
+
     /** Commits events to the outbox, saves the incident state and wakes the dispatcher. */
     void send(List<AlertEvent> events) {
         saveState();
         if (events.isEmpty()) return;
+        String all = everyEventTo;
+        if (all != null) {
+            events = events.stream().map(e -> {
+                List<String> to = new java.util.ArrayList<>(e.channels());
+                if (!to.contains(all)) to.add(all);
+                return e.to(to);
+            }).toList();
+        }
         try {
             outbox.enqueue(events, clock.instant());
         } catch (SQLException | RuntimeException e) {

@@ -43,10 +43,21 @@ public final class AlertServices {
             }
         }
         AlertSettings a = config.alerts() == null ? AlertSettings.defaults() : config.alerts();
-        String ackTopic = config.mqtt().publishPrefix() + "/" + config.site() + "/ack";
-        return assemble(config.site(), channels, policies, new Outbox(store.openSyncedConnection()), store::putState,
+        String base = config.mqtt().publishPrefix() + "/" + config.site();
+        String eventsChannel = null;
+        if (config.mqtt().publishEvents() && link != null) {
+            // Every event also goes through the outbox to <prefix>/<site>/events, so a central byre sees each raise,
+            // reminder and all-clear in order, retried like any channel while the broker is away. Its name is the
+            // topic: a configured channel's name cannot hold '/', so the two never meet. Never folded.
+            eventsChannel = base + "/events";
+            channels.put(eventsChannel, new MqttChannel(eventsChannel, eventsChannel, link, ChannelFactory.DEFAULT_TIMEOUT.toMillis()));
+            policies.put(eventsChannel, new ChannelFactory.Policy(Integer.MAX_VALUE, ChannelFactory.DEFAULT_GIVE_UP));
+        }
+        AlertService service = assemble(config.site(), channels, policies, new Outbox(store.openSyncedConnection()), store::putState,
                 prefix -> store.loadState(prefix), clock, new SecureRandom(), IdSource.random(), registry,
-                a.selfAlertNotify(), a.channelFailingAfter(), ackTopic);
+                a.selfAlertNotify(), a.channelFailingAfter(), base + "/ack");
+        if (eventsChannel != null) service.sendEveryEventTo(eventsChannel);
+        return service;
     }
 
     /** The same from parts (tests, benchmarks). */
