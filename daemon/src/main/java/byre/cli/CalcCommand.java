@@ -1,6 +1,7 @@
 package byre.cli;
 
 import byre.climate.ClimateInputs;
+import byre.climate.Derivable;
 import byre.climate.DerivedClimate;
 import byre.climate.Note;
 import byre.climate.Psychrometer;
@@ -25,7 +26,7 @@ import picocli.CommandLine.ArgGroup;
 import picocli.CommandLine.Command;
 import picocli.CommandLine.Option;
 
-/** {@code byre calc}: every derived value for one set of conditions (design section 8). */
+/** {@code byre calc}: every derived value for one set of conditions. */
 @Command(name = "calc", mixinStandardHelpOptions = true, sortOptions = false,
         description = {"Every derived value for one set of conditions.",
                 "Values carry their unit: 30C 86F 303.15K, 2m/s 7km/h 400ft/min, 98.5kPa 29.1inHg, 240m 787ft.",
@@ -166,12 +167,12 @@ final class CalcCommand implements Callable<Integer> {
     }
 
     private static String example(Unit u) {
-        switch (u.dimension()) {
-            case TEMPERATURE: return "30C or 86F";
-            case SPEED: return "2m/s or 400ft/min";
-            case PRESSURE: return "98.5kPa or 29.1inHg";
-            default: return "60" + u.symbol();
-        }
+        return switch (u.dimension()) {
+            case TEMPERATURE -> "30C or 86F";
+            case SPEED -> "2m/s or 400ft/min";
+            case PRESSURE -> "98.5kPa or 29.1inHg";
+            case RELATIVE_HUMIDITY, IRRADIANCE, HUMIDITY_RATIO, ENTHALPY, INDEX -> "60" + u.symbol();
+        };
     }
 
     static double elevation(String text, boolean us) throws BadInput {
@@ -213,12 +214,12 @@ final class CalcCommand implements Callable<Integer> {
     static Unit displayUnit(Quantity q, boolean us) {
         Unit canonical = q.canonicalUnit();
         if (!us) return canonical;
-        switch (q.dimension()) {
-            case TEMPERATURE: return Unit.F;
-            case SPEED: return Unit.FT_PER_MIN;
-            case PRESSURE: return q == Quantity.VPD ? Unit.KPA : Unit.INHG;
-            default: return canonical;
-        }
+        return switch (q.dimension()) {
+            case TEMPERATURE -> Unit.F;
+            case SPEED -> Unit.FT_PER_MIN;
+            case PRESSURE -> q == Quantity.VPD ? Unit.KPA : Unit.INHG;
+            case RELATIVE_HUMIDITY, IRRADIANCE, HUMIDITY_RATIO, ENTHALPY, INDEX -> canonical;
+        };
     }
 
     static String table(DerivedClimate d, boolean us) {
@@ -231,11 +232,9 @@ final class CalcCommand implements Callable<Integer> {
             String value;
             if (Double.isNaN(v)) {
                 value = "-";
+                // What a derived quantity lacks, from the recipe table the derivation ran; a measured-only one says "not given".
                 List<String> need = d.missingInputs(q);
-                if (!need.isEmpty() && !q.measurable()) missing.computeIfAbsent(needText(need), k -> new ArrayList<>()).add(q.id());
-                else if (!need.isEmpty() && q != Quantity.AIR_SPEED && q != Quantity.GLOBE && q != Quantity.SOLAR) {
-                    missing.computeIfAbsent(needText(need), k -> new ArrayList<>()).add(q.id());
-                }
+                if (!need.isEmpty() && Derivable.hasRecipe(q)) missing.computeIfAbsent(needText(need), k -> new ArrayList<>()).add(q.id());
             } else {
                 int decimals = DECIMALS[q.ordinal()];
                 if (u == Unit.FT_PER_MIN) decimals = 0;

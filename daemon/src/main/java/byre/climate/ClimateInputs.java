@@ -1,5 +1,7 @@
 package byre.climate;
 
+import byre.units.Quantity;
+
 /**
  * The fresh readings of one zone, in canonical units; {@code NaN} means absent. Enums default to
  * an aspirated psychrometer and the NRC 1971 THI when null.
@@ -21,6 +23,21 @@ public record ClimateInputs(double dryBulbC, double wetBulbC, double rhPercent, 
     public ClimateInputs {
         if (psychrometer == null) psychrometer = Psychrometer.ASPIRATED;
         if (thiVariant == null) thiVariant = ThiVariant.NRC_1971;
+    }
+
+    /** The reading given for a measured quantity, NaN when absent or when the quantity is never measured. */
+    public double measured(Quantity q) {
+        return switch (q) {
+            case DRY_BULB -> dryBulbC;
+            case WET_BULB -> wetBulbC;
+            case RH -> rhPercent;
+            case DEW_POINT -> dewPointC;
+            case AIR_SPEED -> airSpeedMps;
+            case SOLAR -> solarWm2;
+            case GLOBE -> globeC;
+            case PRESSURE -> pressureKPa;
+            case HUMIDITY_RATIO, ENTHALPY, VPD, THI, HEAT_INDEX, WIND_CHILL, CCI, BGHI -> Double.NaN;
+        };
     }
 
     public static Builder builder() { return new Builder(); }

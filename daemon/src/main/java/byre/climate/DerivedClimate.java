@@ -4,7 +4,10 @@ import byre.units.Quantity;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.Collections;
+import java.util.EnumSet;
 import java.util.List;
+import java.util.Set;
+import java.util.stream.Collectors;
 
 /**
  * Every quantity of one zone after derivation, in canonical units (degC, %, m/s, kPa, W/m2, g/kg,
@@ -18,6 +21,10 @@ public final class DerivedClimate {
     private final ClimateInputs inputs;
     final double[] values = new double[QUANTITIES.length];
     int derivedMask;
+    /** Saturation vapour pressure over water at the dry bulb and station pressure, kPa; NaN without a dry bulb. */
+    double ewKPa = Double.NaN;
+    /** The recipe that gave each derived value, indexed by {@link Quantity#ordinal()}. */
+    private final Recipe[] recipes = new Recipe[QUANTITIES.length];
     int noteMask;
     private List<String> problems;
 
@@ -62,6 +69,11 @@ public final class DerivedClimate {
         if (derived && !Double.isNaN(v)) derivedMask |= 1 << q.ordinal();
     }
 
+    void set(Recipe r, double v) {
+        set(r.quantity(), v, true);
+        if (!Double.isNaN(v)) recipes[r.quantity().ordinal()] = r;
+    }
+
     void note(Note n) { noteMask |= 1 << n.ordinal(); }
 
     void problem(String text) {
@@ -70,90 +82,45 @@ public final class DerivedClimate {
     }
 
     /**
-     * The absent inputs that keep a quantity from being computed, as input names ("air-speed",
-     * "wet-bulb or rh"); empty when the quantity is present or was skipped for a problem.
+     * The absent inputs that keep a quantity from being computed, one entry per missing group of
+     * alternatives ("air-speed", "wet-bulb or rh or dew-point"), from the {@link Recipe} table; empty when
+     * the quantity is present or its inputs were given but a problem or their values stopped it.
      */
     public List<String> missingInputs(Quantity q) {
         if (has(q)) return List.of();
-        boolean dry = !Double.isNaN(inputs.dryBulbC());
-        boolean humid = !Double.isNaN(inputs.rhPercent()) || !Double.isNaN(inputs.wetBulbC())
-                || !Double.isNaN(inputs.dewPointC());
-        boolean wind = !Double.isNaN(inputs.airSpeedMps());
+        Set<Quantity> given = EnumSet.noneOf(Quantity.class);
+        for (Quantity m : Derivable.MEASURED) if (!Double.isNaN(inputs.measured(m))) given.add(m);
         List<String> need = new ArrayList<>(3);
-        switch (q) {
-            case DRY_BULB: case AIR_SPEED: case GLOBE: case SOLAR:
-                if (!q.measurable() || Double.isNaN(rawInput(q))) need.add(q.id());
-                break;
-            case PRESSURE:
-                break;
-            case WIND_CHILL:
-                if (!dry) need.add("dry-bulb");
-                if (!wind) need.add("air-speed");
-                break;
-            case BGHI:
-                if (Double.isNaN(inputs.globeC())) need.add("globe");
-                addHumidity(need, dry || !Double.isNaN(inputs.dewPointC()), humid);
-                break;
-            case CCI:
-                addHumidity(need, dry, humid);
-                if (!wind) need.add("air-speed");
-                break;
-            case THI:
-                addHumidity(need, dry, humid);
-                if (inputs.thiVariant().needsAirSpeed() && !wind) need.add("air-speed");
-                break;
-            case DEW_POINT:
-                addHumidity(need, dry || !Double.isNaN(inputs.dewPointC()), humid);
-                break;
-            default:
-                addHumidity(need, dry, humid);
+        for (Set<Quantity> g : Derivable.unmet(q, given, inputs.thiVariant())) {
+            need.add(g.stream().map(Quantity::id).collect(Collectors.joining(" or ")));
         }
         return need;
     }
 
-    private double rawInput(Quantity q) {
-        switch (q) {
-            case DRY_BULB: return inputs.dryBulbC();
-            case AIR_SPEED: return inputs.airSpeedMps();
-            case GLOBE: return inputs.globeC();
-            case SOLAR: return inputs.solarWm2();
-            default: return Double.NaN;
-        }
-    }
-
-    private static void addHumidity(List<String> need, boolean dry, boolean humid) {
-        if (!dry) need.add("dry-bulb");
-        if (!humid) need.add("wet-bulb or rh");
-    }
-
     /** The method behind a value, for people: "psychrometer equation, WMO-No. 8 Annex 4.B, aspirated". */
     public String method(Quantity q) {
-        boolean derived = isDerived(q);
-        switch (q) {
-            case RH:
-                if (!derived) return "measured";
-                if (!Double.isNaN(inputs.wetBulbC())) {
-                    return inputs.psychrometer() == Psychrometer.ASPIRATED
-                            ? "psychrometer equation, WMO-No. 8 Annex 4.B, aspirated"
-                            : "psychrometer equation, FAO-56 screen coefficient";
-                }
-                return "from dew point, WMO-No. 8 Magnus form";
-            case DEW_POINT: return derived ? "inverse Magnus over water, WMO-No. 8 Annex 4.B" : "measured";
-            case WET_BULB: return derived ? "aspirated psychrometer equation solved for Tw, WMO-No. 8" : "measured";
-            case PRESSURE:
-                if (hasNote(Note.PRESSURE_FROM_ELEVATION)) return "standard atmosphere, ASHRAE 2017 ch. 1 eq. 3";
-                if (hasNote(Note.PRESSURE_STANDARD)) return "standard sea level";
-                return "measured";
-            case HUMIDITY_RATIO: return "ASHRAE 2017 ch. 1 eq. 20";
-            case ENTHALPY: return "ASHRAE 2017 ch. 1 eq. 30";
-            case VPD: return "e'w(p,T) - e', WMO-No. 8 Magnus form";
-            case THI: return inputs.thiVariant().method();
-            case HEAT_INDEX: return "NWS heat index (Rothfusz 1990)";
-            case WIND_CHILL: return "NWS/MSC 2001 wind chill";
-            case CCI: return "Mader, Johnson & Gaughan 2010";
-            case BGHI: return "Buffington et al. 1981";
-            case SOLAR: return has(q) ? "measured" : "";
-            default: return "measured";
+        Recipe r = recipes[q.ordinal()];
+        if (r != null) return r.method(inputs);
+        if (q == Quantity.PRESSURE) {
+            if (hasNote(Note.PRESSURE_FROM_ELEVATION)) return "standard atmosphere, ASHRAE 2017 ch. 1 eq. 3";
+            if (hasNote(Note.PRESSURE_STANDARD)) return "standard sea level";
+            return "measured";
         }
+        if (q == Quantity.SOLAR) return has(q) ? "measured" : "";
+        if (q.measurable()) return "measured";
+        // Not computed here: the method the zone would use.
+        for (Recipe each : Recipe.ALL) if (each.quantity() == q && each.appliesTo(inputs.thiVariant())) return each.method(inputs);
+        return "";
     }
+
+    // ---- for the recipes ----
+
+    /** Station pressure used, kPa (always present). */
+    double pressureKPa() { return values[Quantity.PRESSURE.ordinal()]; }
+
+    /** Vapour pressure behind the rh, kPa: rh x e'w(p, T). */
+    double vapourKPa() { return values[Quantity.RH.ordinal()] / 100.0 * ewKPa; }
+
+    /** Solar irradiance, 0 W/m2 when there is no sensor (indoors). */
+    double solarOrZero() { return has(Quantity.SOLAR) ? values[Quantity.SOLAR.ordinal()] : 0.0; }
 }

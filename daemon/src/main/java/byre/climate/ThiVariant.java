@@ -2,32 +2,27 @@ package byre.climate;
 
 /**
  * The temperature-humidity index forms a zone may choose (T and wet bulb/dew point in degC, RH in %).
- * NRC 1971 is byre's default. Each form is cited once here.
+ * NRC 1971 is byre's default. Each form is cited once here; its inputs and formula are its row of
+ * the {@link Recipe} table.
  */
 public enum ThiVariant {
     /** NRC 1971, A Guide to Environmental Research on Animals: (1.8T+32) - (0.55-0.0055RH)(1.8T-26). */
-    NRC_1971("nrc-1971", "NRC 1971", false, false, false),
+    NRC_1971("nrc-1971", "NRC 1971"),
     /** Thom 1959 (Weatherwise 12:57-61), dry and wet bulb: 0.4(Tdb+Twb)F + 15 = 0.72(Tdb+Twb)C + 40.6. */
-    THOM_WET_BULB("thom-wet-bulb", "Thom 1959 (dry and wet bulb)", true, false, false),
+    THOM_WET_BULB("thom-wet-bulb", "Thom 1959 (dry and wet bulb)"),
     /** Dew-point form (Yousef 1985, as listed by Dikmen and Hansen 2009): Tdb + 0.36 Tdp + 41.2. */
-    DEW_POINT("dew-point", "Yousef 1985 (dew-point form)", false, true, false),
+    DEW_POINT("dew-point", "Yousef 1985 (dew-point form)"),
     /** Mader et al. 2006 (J. Anim. Sci. 84:712-719): 0.8T + (RH/100)(T-14.4) + 46.4. */
-    MADER_2006("mader-2006", "Mader et al. 2006", false, false, false),
+    MADER_2006("mader-2006", "Mader et al. 2006"),
     /** Mader et al. 2006 adjusted for wind and sun: 4.51 + THI - 1.992 WS(m/s) + 0.0068 RAD(W/m2). */
-    MADER_2006_ADJUSTED("mader-2006-adjusted", "Mader et al. 2006, wind and solar adjusted", false, false, true);
+    MADER_2006_ADJUSTED("mader-2006-adjusted", "Mader et al. 2006, wind and solar adjusted");
 
     private final String id;
     private final String method;
-    private final boolean needsWetBulb;
-    private final boolean needsDewPoint;
-    private final boolean needsAirSpeed;
 
-    ThiVariant(String id, String method, boolean needsWetBulb, boolean needsDewPoint, boolean needsAirSpeed) {
+    ThiVariant(String id, String method) {
         this.id = id;
         this.method = method;
-        this.needsWetBulb = needsWetBulb;
-        this.needsDewPoint = needsDewPoint;
-        this.needsAirSpeed = needsAirSpeed;
     }
 
     public String id() { return id; }
@@ -35,26 +30,9 @@ public enum ThiVariant {
     /** Method name as shown to users. */
     public String method() { return method; }
 
-    public boolean needsAirSpeed() { return needsAirSpeed; }
-
-    boolean needsWetBulb() { return needsWetBulb; }
-
-    boolean needsDewPoint() { return needsDewPoint; }
-
     public static ThiVariant byId(String id) {
         for (ThiVariant v : values()) if (v.id.equalsIgnoreCase(id)) return v;
         return null;
-    }
-
-    /** All forms; pass NaN for what a form does not use. */
-    public double index(double tC, double rhPercent, double wetBulbC, double dewPointC, double airSpeedMps, double solarWm2) {
-        switch (this) {
-            case NRC_1971: return Thi.nrc1971(tC, rhPercent);
-            case THOM_WET_BULB: return Thi.thomWetBulb(tC, wetBulbC);
-            case DEW_POINT: return Thi.dewPointForm(tC, dewPointC);
-            case MADER_2006: return Thi.mader2006(tC, rhPercent);
-            default: return Thi.mader2006Adjusted(tC, rhPercent, airSpeedMps, solarWm2);
-        }
     }
 
     @Override

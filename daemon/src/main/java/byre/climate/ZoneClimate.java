@@ -4,8 +4,9 @@ import byre.units.Quantity;
 import java.util.Locale;
 
 /**
- * Derives every zone quantity from the zone's fresh inputs (design section 3). Pure and
- * allocation-light: the daemon calls it for a zone whenever one of its inputs changes.
+ * Derives every zone quantity from the zone's fresh inputs: checks the inputs, then runs the
+ * {@link Recipe} table in order. Pure and allocation-light: the daemon calls it for a zone whenever
+ * one of its inputs changes.
  *
  * <p>Humidity comes from an RH sensor if present, else from the psychrometer (dry and wet bulb at
  * station pressure), else from a dew-point sensor. Which saturation form feeds which stream: rh,
@@ -34,14 +35,11 @@ public final class ZoneClimate {
 
         double ws = in.airSpeedMps();
         if (ws < 0) {
-            out.problem(String.format(Locale.ROOT, "air speed %.2f m/s is negative: wind-chill and cci skipped", ws));
+            out.problem(String.format(Locale.ROOT, "air speed %.2f m/s is negative: %s skipped", ws,
+                    Derivable.readersOf(Quantity.AIR_SPEED, in.thiVariant())));
             ws = Double.NaN;
         }
         out.set(Quantity.AIR_SPEED, ws, false);
-
-        double ew = dry ? Magnus.moistOverWaterKPa(t, p) : Double.NaN;
-        double e = Double.NaN, rh = Double.NaN, tw = Double.NaN, td = Double.NaN;
-        boolean rhDerived = false, twDerived = false, tdDerived = false;
 
         double twIn = in.wetBulbC();
         if (!Double.isNaN(twIn) && dry && twIn > t + WET_ABOVE_DRY_TOLERANCE_C) {
@@ -60,99 +58,23 @@ public final class ZoneClimate {
             out.problem(String.format(Locale.ROOT, "dew point %.2f C is above dry bulb %.2f C: dew-point ignored", tdIn, t));
             tdIn = Double.NaN;
         }
+        out.set(Quantity.RH, rhIn, false);
+        out.set(Quantity.WET_BULB, twIn, false);
+        out.set(Quantity.DEW_POINT, tdIn, false);
+        out.ewKPa = dry ? Magnus.moistOverWaterKPa(t, p) : Double.NaN;
 
-        if (!Double.isNaN(rhIn)) {
-            rh = rhIn;
-            e = rh / 100.0 * ew;
-        } else if (!Double.isNaN(twIn) && dry) {
-            double twUsed = twIn;
-            if (twUsed > t) {
-                out.note(Note.WET_BULB_SLIGHTLY_HIGH);
-                twUsed = t;
-            }
-            if (twUsed < 0) out.note(Note.ICE_BULB);
-            double eP = in.psychrometer().vapourPressureKPa(t, twUsed, p);
-            double rhP = 100.0 * eP / ew;
-            if (rhP < 0) {
-                out.problem(String.format(Locale.ROOT,
-                        "dry bulb %.2f C with wet bulb %.2f C gives RH %.1f %% (below 0) for a %s psychrometer:"
-                                + " impossible reading, humidity values skipped", t, twIn, rhP, in.psychrometer().id()));
-            } else {
-                e = eP;
-                rh = rhP;
-                rhDerived = true;
-            }
-        } else if (!Double.isNaN(tdIn)) {
-            e = Magnus.moistOverWaterKPa(tdIn, p);
-            if (dry) {
-                rh = Math.min(100.0, 100.0 * e / ew);
-                rhDerived = true;
-            }
-        }
-
-        if (!Double.isNaN(twIn)) {
-            tw = twIn;
-        } else if (dry && e > 0) {
-            tw = Psychrometer.ASPIRATED.wetBulbC(t, e, p);
-            twDerived = true;
-        }
-        if (!Double.isNaN(tdIn)) {
-            td = tdIn;
-        } else if (e > 0) {
-            td = Math.min(Magnus.dewPointC(e, p), dry ? t : Double.POSITIVE_INFINITY);
-            tdDerived = true;
-        }
-        out.set(Quantity.RH, rh, rhDerived);
-        out.set(Quantity.WET_BULB, tw, twDerived);
-        out.set(Quantity.DEW_POINT, td, tdDerived);
-
-        if (dry && !Double.isNaN(e)) {
-            double w = Ashrae.humidityRatio(e, p);
-            out.set(Quantity.HUMIDITY_RATIO, w * 1000.0, true);
-            out.set(Quantity.ENTHALPY, Ashrae.enthalpyKJPerKg(t, w), true);
-            out.set(Quantity.VPD, Math.max(0.0, ew - e), true);
-        }
-
-        double solar = in.solarWm2();
-        boolean solarAbsent = Double.isNaN(solar);
-        if (solarAbsent) solar = 0.0;
-
-        if (dry && !Double.isNaN(rh)) {
-            ThiVariant variant = in.thiVariant();
-            boolean thiWind = !variant.needsAirSpeed() || !Double.isNaN(ws);
-            if (thiWind) {
-                if (variant.needsAirSpeed() && solarAbsent) out.note(Note.THI_SOLAR_ASSUMED_ZERO);
-                out.set(Quantity.THI, variant.index(t, rh, tw, td, ws, solar), true);
-            }
-            double tF = t * 1.8 + 32.0;
-            double hiF = HeatIndex.fahrenheit(tF, rh);
-            if (hiF < HeatIndex.REGRESSION_FROM_F) out.note(Note.HEAT_INDEX_SIMPLE);
-            out.set(Quantity.HEAT_INDEX, (hiF - 32.0) / 1.8, true);
-            if (!Double.isNaN(ws)) {
-                if (solarAbsent) out.note(Note.SOLAR_ASSUMED_ZERO);
-                if (t < Cci.MIN_C || t > Cci.MAX_C) out.note(Note.CCI_OUT_OF_RANGE);
-                out.set(Quantity.CCI, Cci.celsius(t, rh, ws, solar), true);
-            }
-        }
-
-        if (dry && !Double.isNaN(ws)) {
-            double v10 = WindChill.penTo10mKmh(ws);
-            if (t > WindChill.MAX_AIR_C) {
-                out.note(Note.WIND_CHILL_WARM);
-                out.set(Quantity.WIND_CHILL, t, true);
-            } else if (v10 < WindChill.MIN_WIND_KMH) {
-                out.note(Note.WIND_CHILL_CALM);
-                out.set(Quantity.WIND_CHILL, t, true);
-            } else {
-                out.note(Note.WIND_CHILL_PEN_WIND);
-                out.set(Quantity.WIND_CHILL, WindChill.formulaC(t, v10), true);
-            }
-        }
-
-        if (!Double.isNaN(in.globeC()) && !Double.isNaN(td)) {
-            out.set(Quantity.BGHI, Bghi.index(in.globeC(), td), true);
+        // The table, in order: a measured value wins, else the first recipe whose inputs are here.
+        ThiVariant variant = in.thiVariant();
+        for (Recipe r : Recipe.ALL) {
+            if (!r.appliesTo(variant) || out.has(r.quantity()) || !hasAll(out, r.inputs())) continue;
+            out.set(r, r.compute(out));
         }
         return out;
+    }
+
+    private static boolean hasAll(DerivedClimate d, java.util.List<Quantity> qs) {
+        for (int i = 0; i < qs.size(); i++) if (!d.has(qs.get(i))) return false;
+        return true;
     }
 
     private static double stationPressure(ClimateInputs in, DerivedClimate out) {

@@ -1,5 +1,7 @@
 package byre.daemon;
 
+import byre.climate.Derivable;
+import byre.climate.ThiVariant;
 import byre.config.ByreConfig;
 import byre.config.SensorConfig;
 import byre.config.ZoneConfig;
@@ -16,6 +18,8 @@ import java.util.Set;
 public final class ConfigRuleContext implements RuleContext {
     private final ByreConfig config;
     private final Map<String, Set<String>> groups = new LinkedHashMap<>();
+    private final Map<String, Set<Quantity>> measured = new LinkedHashMap<>();
+    /** Measured and derivable streams per zone, from the derivation's own recipe table. */
     private final Map<String, Set<Quantity>> streams = new LinkedHashMap<>();
 
     private final Map<String, Map<Quantity, Duration>> intervals;
@@ -30,12 +34,14 @@ public final class ConfigRuleContext implements RuleContext {
         this.intervals = intervals;
         for (ZoneConfig z : config.zones().values()) {
             for (String g : z.groups()) groups.computeIfAbsent(g, k -> new LinkedHashSet<>()).add(z.id());
-            streams.put(z.id(), streamsOf(z, config));
+            Set<Quantity> m = measuredBy(z, config);
+            measured.put(z.id(), m);
+            streams.put(z.id(), Derivable.streams(m, thiVariant(z)));
         }
     }
 
-    /** The measured quantities of a zone's sensors plus every quantity derivable from them. */
-    static Set<Quantity> streamsOf(ZoneConfig z, ByreConfig config) {
+    /** The quantities a zone's sensors measure. */
+    static Set<Quantity> measuredBy(ZoneConfig z, ByreConfig config) {
         Set<Quantity> q = EnumSet.noneOf(Quantity.class);
         for (String s : z.sensors()) {
             SensorConfig sc = config.sensors().get(s);
@@ -45,16 +51,13 @@ public final class ConfigRuleContext implements RuleContext {
             }
             if (sc != null) q.add(sc.quantity());
         }
-        boolean t = q.contains(Quantity.DRY_BULB);
-        boolean h = q.contains(Quantity.RH) || q.contains(Quantity.WET_BULB) || q.contains(Quantity.DEW_POINT);
-        boolean w = q.contains(Quantity.AIR_SPEED);
-        if (t && h) {
-            q.addAll(EnumSet.of(Quantity.RH, Quantity.DEW_POINT, Quantity.WET_BULB, Quantity.HUMIDITY_RATIO,
-                    Quantity.ENTHALPY, Quantity.VPD, Quantity.THI, Quantity.HEAT_INDEX, Quantity.CCI));
-        }
-        if (t && w) q.add(Quantity.WIND_CHILL);
-        if (q.contains(Quantity.GLOBE) && h) q.add(Quantity.BGHI);
         return q;
+    }
+
+    /** The THI form a zone derives by, as the derivation reads it (unset: the default). */
+    static ThiVariant thiVariant(ZoneConfig z) {
+        ThiVariant v = ThiVariant.byId(z.thiVariant());
+        return v == null ? ThiVariant.NRC_1971 : v;
     }
 
     @Override
@@ -86,6 +89,12 @@ public final class ConfigRuleContext implements RuleContext {
     @Override
     public Set<Quantity> quantities(String zone) {
         return streams.getOrDefault(zone, Set.of());
+    }
+
+    @Override
+    public java.util.Optional<String> whyNoStream(String zone, Quantity quantity) {
+        ZoneConfig z = config.zones().get(zone);
+        return z == null ? java.util.Optional.empty() : Derivable.whyNot(zone, quantity, measured.get(zone), thiVariant(z));
     }
 
     @Override

@@ -4,6 +4,7 @@ import byre.rules.eval.Plan;
 import byre.rules.lang.Ast;
 import byre.rules.lang.DiagnosticSink;
 import byre.rules.lang.Pos;
+import byre.rules.lang.RuleFunction;
 import byre.units.Dimension;
 import byre.units.Quantity;
 import byre.units.Suggest;
@@ -24,7 +25,7 @@ import java.util.regex.Pattern;
 
 /**
  * Resolves one parsed watch against the context: zones, groups, quantities, units and channels;
- * converts values to canonical units; reports errors and the warnings of design section 5.
+ * converts values to canonical units; reports errors and warnings.
  */
 final class Checker {
     static final Set<String> PLACEHOLDERS = new LinkedHashSet<>(List.of("watch", "zone", "quantity", "value", "unit", "level", "since", "site"));
@@ -200,7 +201,7 @@ final class Checker {
             Optional<Quantity> missing = instanceQuantities.stream().filter(q -> !have.contains(q)).findFirst();
             if (missing.isPresent()) {
                 sink.warning(multiTerm.selectorPos(), "zone '" + z + "' matched by '" + multiText + "' has no '" + missing.get().id()
-                        + "' stream; the watch skips it");
+                        + "' stream; the watch skips it" + ctx.whyNoStream(z, missing.get()).map(why -> " (" + why + ")").orElse(""));
             } else {
                 out.add(z);
             }
@@ -241,12 +242,12 @@ final class Checker {
     }
 
     private static String kindText(Typed t) {
-        if (t.quantity() == null) return "unknown";
-        switch (t.kind()) {
-            case HOURS: return "hours";
-            case CHANGE: return "a change of " + dimensionName(t.quantity().dimension());
-            default: return dimensionName(t.quantity().dimension());
-        }
+        if (t.quantity() == null) return t.kind() == Kind.LITERAL ? "a number" : "unknown";
+        return switch (t.kind()) {
+            case HOURS -> "hours";
+            case CHANGE -> "a change of " + dimensionName(t.quantity().dimension());
+            case ABSOLUTE, LITERAL -> dimensionName(t.quantity().dimension());
+        };
     }
 
     private static String literalText(Ast.Operand o) {
@@ -264,16 +265,16 @@ final class Checker {
         Plan.TermPlan t = term(f.term());
         long w = window(f.window());
         String text = f.name() + "(" + f.term().text() + ", ...)";
-        switch (f.name()) {
-            case "avg": return new Typed(new Plan.Window(Plan.WindowKind.AVG, t, w), Kind.ABSOLUTE, t.quantity(), text);
-            case "min": return new Typed(new Plan.Window(Plan.WindowKind.MIN, t, w), Kind.ABSOLUTE, t.quantity(), text);
-            case "max": return new Typed(new Plan.Window(Plan.WindowKind.MAX, t, w), Kind.ABSOLUTE, t.quantity(), text);
-            case "rise": return new Typed(new Plan.Window(Plan.WindowKind.RISE, t, w), Kind.CHANGE, t.quantity(), text);
-            default: {
+        return switch (RuleFunction.of(f.name())) {
+            case AVG -> new Typed(new Plan.Window(Plan.WindowKind.AVG, t, w), Kind.ABSOLUTE, t.quantity(), text);
+            case MIN -> new Typed(new Plan.Window(Plan.WindowKind.MIN, t, w), Kind.ABSOLUTE, t.quantity(), text);
+            case MAX -> new Typed(new Plan.Window(Plan.WindowKind.MAX, t, w), Kind.ABSOLUTE, t.quantity(), text);
+            case RISE -> new Typed(new Plan.Window(Plan.WindowKind.RISE, t, w), Kind.CHANGE, t.quantity(), text);
+            case HOURS_ABOVE -> {
                 double thr = literal(f.threshold(), new Typed(null, Kind.ABSOLUTE, t.quantity(), "'" + f.term().text() + "'"));
-                return new Typed(new Plan.HoursAbove(t, thr, w), Kind.HOURS, t.quantity(), text);
+                yield new Typed(new Plan.HoursAbove(t, thr, w), Kind.HOURS, t.quantity(), text);
             }
-        }
+        };
     }
 
     /** A literal converted to what the other side of its comparison is. */
@@ -342,9 +343,8 @@ final class Checker {
             error(t.quantityPos(), "unknown quantity '" + t.quantity() + "'" + Suggest.hint(t.quantity(), Quantity.ids()));
         }
         Quantity q = oq.orElse(null);
-        Plan.TermPlan plan;
-        switch (t.kind()) {
-            case ZONE: {
+        Plan.TermPlan plan = switch (t.kind()) {
+            case ZONE -> {
                 String z = t.selector();
                 if (!ctx.zones().contains(z)) {
                     if (ctx.groups().containsKey(z)) {
@@ -353,21 +353,20 @@ final class Checker {
                         error(t.selectorPos(), "unknown zone '" + z + "'" + Suggest.hint(z, ctx.zones()));
                     }
                 } else if (oq.isPresent() && !ctx.quantities(z).contains(q)) {
-                    error(t.quantityPos(), "zone '" + z + "' has no '" + q.id() + "' stream");
+                    // A stream the zone can never have: the watch could never fire. Say which sensor it lacks.
+                    error(t.quantityPos(), ctx.whyNoStream(z, q).orElse("zone '" + z + "' has no '" + q.id() + "' stream"));
                 }
-                plan = new Plan.TermPlan(z, q);
-                break;
+                yield new Plan.TermPlan(z, q);
             }
-            case GLOB: {
+            case GLOB -> {
                 Pattern p = glob(t.selector());
                 Set<String> matched = new LinkedHashSet<>();
                 for (String z : ctx.zones()) if (p.matcher(z).matches()) matched.add(z);
                 if (matched.isEmpty()) error(t.selectorPos(), "selector '" + t.selector() + "' matches no zone");
                 else multi(t, matched, t.selector());
-                plan = new Plan.TermPlan(null, q);
-                break;
+                yield new Plan.TermPlan(null, q);
             }
-            default: {
+            case GROUP -> {
                 Set<String> members = ctx.groups().get(t.selector());
                 if (members == null) {
                     List<String> known = ctx.groups().keySet().stream().map(g -> "@" + g).toList();
@@ -377,10 +376,9 @@ final class Checker {
                 } else {
                     multi(t, members, "@" + t.selector());
                 }
-                plan = new Plan.TermPlan(null, q);
-                break;
+                yield new Plan.TermPlan(null, q);
             }
-        }
+        };
         if (plan.zone() == null && q != null) instanceQuantities.add(q);
         terms.add(plan);
         return plan;

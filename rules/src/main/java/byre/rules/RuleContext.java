@@ -30,6 +30,12 @@ public interface RuleContext {
     /** Streams the zone provides (measured or derivable). A glob or group skips zones without the stream. */
     default Set<Quantity> quantities(String zone) { return EnumSet.allOf(Quantity.class); }
 
+    /**
+     * Why a zone can never have a stream, naming the sensors it lacks ("cow-shed has no air-speed sensor;
+     * cci needs ..."); empty when it can, or when this context cannot tell.
+     */
+    default Optional<String> whyNoStream(String zone, Quantity quantity) { return Optional.empty(); }
+
     /** Short site id for the {site} placeholder. */
     default String site() { return ""; }
 }

@@ -78,15 +78,15 @@ public enum Unit {
     }
 
     static Unit canonical(Dimension d) {
-        switch (d) {
-            case TEMPERATURE: return C;
-            case RELATIVE_HUMIDITY: return PERCENT;
-            case SPEED: return M_PER_S;
-            case PRESSURE: return KPA;
-            case IRRADIANCE: return W_PER_M2;
-            case HUMIDITY_RATIO: return G_PER_KG;
-            case ENTHALPY: return KJ_PER_KG;
-            default: return NONE;
-        }
+        return switch (d) {
+            case TEMPERATURE -> C;
+            case RELATIVE_HUMIDITY -> PERCENT;
+            case SPEED -> M_PER_S;
+            case PRESSURE -> KPA;
+            case IRRADIANCE -> W_PER_M2;
+            case HUMIDITY_RATIO -> G_PER_KG;
+            case ENTHALPY -> KJ_PER_KG;
+            case INDEX -> NONE;
+        };
     }
 }

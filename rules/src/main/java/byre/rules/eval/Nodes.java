@@ -87,13 +87,13 @@ final class Nodes {
         Plan.Cmp cmp = (Plan.Cmp) c;
         Num l = value(cmp.left());
         Num r = value(cmp.right());
-        switch (cmp.op()) {
-            case LT: return now -> { double a = l.value(now), b = r.value(now); return a != a || b != b ? U : a < b ? T : F; };
-            case LE: return now -> { double a = l.value(now), b = r.value(now); return a != a || b != b ? U : a <= b ? T : F; };
-            case GT: return now -> { double a = l.value(now), b = r.value(now); return a != a || b != b ? U : a > b ? T : F; };
-            case GE: return now -> { double a = l.value(now), b = r.value(now); return a != a || b != b ? U : a >= b ? T : F; };
-            default: return now -> { double a = l.value(now), b = r.value(now); return a != a || b != b ? U : a == b ? T : F; };
-        }
+        return switch (cmp.op()) {
+            case LT -> now -> { double a = l.value(now), b = r.value(now); return a != a || b != b ? U : a < b ? T : F; };
+            case LE -> now -> { double a = l.value(now), b = r.value(now); return a != a || b != b ? U : a <= b ? T : F; };
+            case GT -> now -> { double a = l.value(now), b = r.value(now); return a != a || b != b ? U : a > b ? T : F; };
+            case GE -> now -> { double a = l.value(now), b = r.value(now); return a != a || b != b ? U : a >= b ? T : F; };
+            case EQ -> now -> { double a = l.value(now), b = r.value(now); return a != a || b != b ? U : a == b ? T : F; };
+        };
     }
 
     private Num value(Plan.Value v) {
@@ -108,13 +108,11 @@ final class Nodes {
         } else if (v instanceof Plan.Window w) {
             Stream s = stream(w.term());
             long ms = w.windowMs();
-            Agg a = s.agg(w.kind() + "/" + ms, () -> {
-                switch (w.kind()) {
-                    case AVG: return new AvgWindow(ms);
-                    case MIN: return new ExtremeWindow(false, ms);
-                    case MAX: return new ExtremeWindow(true, ms);
-                    default: return new RiseWindow(ms);
-                }
+            Agg a = s.agg(w.kind() + "/" + ms, () -> switch (w.kind()) {
+                case AVG -> new AvgWindow(ms);
+                case MIN -> new ExtremeWindow(false, ms);
+                case MAX -> new ExtremeWindow(true, ms);
+                case RISE -> new RiseWindow(ms);
             });
             n = a::value;
         } else {

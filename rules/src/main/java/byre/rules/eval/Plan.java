@@ -11,25 +11,27 @@ public final class Plan {
     private Plan() {}
 
     public enum Op { LT, LE, GT, GE, EQ;
+        /** The operator the parser read; any other text is a bug, not user input. */
         public static Op of(String s) {
-            switch (s) {
-                case "<": return LT;
-                case "<=": return LE;
-                case ">": return GT;
-                case ">=": return GE;
-                default: return EQ;
-            }
+            return switch (s) {
+                case "<" -> LT;
+                case "<=" -> LE;
+                case ">" -> GT;
+                case ">=" -> GE;
+                case "==" -> EQ;
+                default -> throw new IllegalArgumentException("not a comparison: " + s);
+            };
         }
 
         /** The same test with the operands swapped ({@code 5 < x} is {@code x > 5}). */
         public Op flip() {
-            switch (this) {
-                case LT: return GT;
-                case LE: return GE;
-                case GT: return LT;
-                case GE: return LE;
-                default: return EQ;
-            }
+            return switch (this) {
+                case LT -> GT;
+                case LE -> GE;
+                case GT -> LT;
+                case GE -> LE;
+                case EQ -> EQ;
+            };
         }
     }
 

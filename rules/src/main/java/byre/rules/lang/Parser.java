@@ -16,7 +16,7 @@ import java.util.Set;
 public final class Parser {
     public static final int MAX_DEPTH = 32;
     static final List<String> KEYWORDS = List.of("watch", "raise", "clear", "level", "notify", "remind", "escalate", "only", "message");
-    static final List<String> FUNCTIONS = List.of("avg", "min", "max", "rise", "hours-above", "silent", "stuck");
+    static final List<String> FUNCTIONS = java.util.stream.Stream.concat(RuleFunction.ids().stream(), java.util.stream.Stream.of("silent", "stuck")).toList();
     private static final Set<String> RESERVED = Set.of("and", "or", "not", "for", "when", "to", "every", "after", "between");
 
     /** Thrown to abandon the current line; the diagnostic (if any) is already recorded. */
@@ -380,7 +380,7 @@ public final class Parser {
         Term term = term();
         comma(name);
         Num threshold = null;
-        if (n.equals("hours-above")) {
+        if (n.equals(RuleFunction.HOURS_ABOVE.id())) {
             if (!peek().is(Kind.NUMBER)) throw fail(peek(), "expected the threshold of hours-above(term, threshold, window), found " + peek().shown());
             threshold = number();
             comma(name);
