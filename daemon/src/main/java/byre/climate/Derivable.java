@@ -25,6 +25,8 @@ public final class Derivable {
 
     /** Per THI form and quantity: what the quantity needs, as groups of measured quantities (one of each). */
     private static final Map<ThiVariant, Map<Quantity, List<Set<Quantity>>>> NEEDS = new EnumMap<>(ThiVariant.class);
+    /** Per THI form and quantity: {@link #needsText}. */
+    private static final Map<ThiVariant, Map<Quantity, String>> NEEDS_TEXT = new EnumMap<>(ThiVariant.class);
 
     static {
         Set<Quantity> m = EnumSet.noneOf(Quantity.class);
@@ -32,8 +34,15 @@ public final class Derivable {
         MEASURED = java.util.Collections.unmodifiableSet(m);
         for (ThiVariant v : ThiVariant.values()) {
             Map<Quantity, List<Set<Quantity>>> byQuantity = new EnumMap<>(Quantity.class);
-            for (Quantity q : Quantity.values()) byQuantity.put(q, groups(q, v));
+            Map<Quantity, String> text = new EnumMap<>(Quantity.class);
+            for (Quantity q : Quantity.values()) {
+                byQuantity.put(q, groups(q, v, null));
+                if (!hasRecipe(q)) text.put(q, "its own sensor");
+                else if (q.measurable()) text.put(q, "its own sensor, or " + groupsText(groups(q, v, q)));
+                else text.put(q, groupsText(byQuantity.get(q)));
+            }
             NEEDS.put(v, byQuantity);
+            NEEDS_TEXT.put(v, text);
         }
     }
 
@@ -85,9 +94,16 @@ public final class Derivable {
         return Optional.of(sb.toString());
     }
 
-    /** "dry-bulb, wet-bulb or rh or dew-point, air-speed". */
+    /**
+     * What {@code q} needs, for people: "dry-bulb, wet-bulb or rh or dew-point, air-speed" (one of each
+     * comma-separated item); "its own sensor, or dry-bulb, wet-bulb or dew-point" for rh, which may be measured.
+     */
     public static String needsText(Quantity q, ThiVariant variant) {
-        return needs(q, variant).stream().map(g -> list(g, " or ", " or ")).collect(Collectors.joining(", "));
+        return NEEDS_TEXT.get(variant).get(q);
+    }
+
+    private static String groupsText(List<Set<Quantity>> groups) {
+        return groups.stream().map(g -> list(g, " or ", " or ")).collect(Collectors.joining(", "));
     }
 
     /** True when some recipe gives {@code q} (it is not measured only). */
@@ -112,9 +128,10 @@ public final class Derivable {
     /**
      * The needs of {@code q} as the smallest groups G of measured quantities such that, without any sensor
      * of G, the zone cannot have {@code q}: found by trying each subset of the (eight) measured quantities.
+     * {@code without}, when not null, is a sensor taken as absent (to state how a measurable quantity is derived).
      */
-    private static List<Set<Quantity>> groups(Quantity q, ThiVariant variant) {
-        Quantity[] measured = MEASURED.toArray(new Quantity[0]);
+    private static List<Set<Quantity>> groups(Quantity q, ThiVariant variant, Quantity without) {
+        Quantity[] measured = MEASURED.stream().filter(m -> m != without).toArray(Quantity[]::new);
         List<Set<Quantity>> found = new ArrayList<>();
         int all = 1 << measured.length;
         // Smaller groups first, so a group is kept only when no smaller one is part of it.
