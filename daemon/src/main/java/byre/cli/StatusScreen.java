@@ -151,7 +151,7 @@ final class StatusScreen {
             case RELATIVE_HUMIDITY, IRRADIANCE -> 0;
             case SPEED -> u == Unit.FT_PER_MIN ? 0 : 1;
             case PRESSURE -> q == Quantity.VPD ? 2 : (u == Unit.INHG ? 2 : 1);
-            default -> 1;
+            case TEMPERATURE, HUMIDITY_RATIO, ENTHALPY, INDEX -> 1;
         };
         return CalcCommand.fmt(v, decimals);
     }

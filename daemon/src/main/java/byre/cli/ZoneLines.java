@@ -72,23 +72,23 @@ final class ZoneLines implements Pipeline.ZoneListener {
 
     private Unit displayUnit(Quantity q) {
         if (!us) return q.canonicalUnit();
-        switch (q.dimension()) {
-            case TEMPERATURE: return Unit.F;
-            case SPEED: return Unit.MPH;
-            case PRESSURE: return Unit.INHG;
-            default: return q.canonicalUnit();
-        }
+        return switch (q.dimension()) {
+            case TEMPERATURE -> Unit.F;
+            case SPEED -> Unit.MPH;
+            case PRESSURE -> Unit.INHG;
+            case RELATIVE_HUMIDITY, IRRADIANCE, HUMIDITY_RATIO, ENTHALPY, INDEX -> q.canonicalUnit();
+        };
     }
 
     private static String label(Quantity q) {
-        switch (q) {
-            case DRY_BULB: return "air";
-            case AIR_SPEED: return "wind";
-            case DEW_POINT: return "dew";
-            case WIND_CHILL: return "chill";
-            case HEAT_INDEX: return "heat-index";
-            case THI: return "THI";
-            default: return q.id();
-        }
+        return switch (q) {
+            case DRY_BULB -> "air";
+            case AIR_SPEED -> "wind";
+            case DEW_POINT -> "dew";
+            case WIND_CHILL -> "chill";
+            case HEAT_INDEX -> "heat-index";
+            case THI -> "THI";
+            case WET_BULB, RH, SOLAR, GLOBE, PRESSURE, HUMIDITY_RATIO, ENTHALPY, VPD, CCI, BGHI -> q.id();
+        };
     }
 }
