@@ -26,6 +26,15 @@ class CalcCommandTest {
     }
 
     @Test
+    void missingInputsFollowTheZonesThiForm() {
+        // The wind- and solar-adjusted form (Mader et al. 2006) reads air speed, so without it THI is missing too.
+        CliRun r = run("calc", "--dry-bulb", "30C", "--rh", "60", "--thi-variant", "mader-2006-adjusted");
+        assertEquals(Main.OK, r.code(), r.err());
+        assertTrue(r.out().contains("missing: thi, wind-chill, cci: need --air-speed; bghi: need --globe"), r.out());
+        assertTrue(r.out().contains("Mader et al. 2006, wind and solar adjusted"), r.out());
+    }
+
+    @Test
     void conventionIsStated() {
         CliRun r = run("calc", "--dry-bulb", "5C", "--rh", "80", "--air-speed", "0.3m/s");
         assertEquals(Main.OK, r.code());
