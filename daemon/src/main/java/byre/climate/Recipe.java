@@ -138,6 +138,7 @@ public enum Recipe {
             d.problem(String.format(Locale.ROOT,
                     "dry bulb %.2f C with wet bulb %.2f C gives RH %.1f %% (below 0) for a %s psychrometer:"
                             + " impossible reading, humidity values skipped", t, tw, rhP, in.psychrometer().id()));
+            d.set(WET_BULB, Double.NaN, false); // a faulty wet bulb feeds nothing below (Thom's THI reads it too)
             return Double.NaN;
         }
         return rhP;

@@ -100,4 +100,17 @@ class ZoneClimateTest {
         assertTrue(impossible.hasProblems());
         assertFalse(impossible.has(Quantity.RH));
     }
+
+    @Test
+    void anImpossibleWetBulbFeedsNoIndexAndAnotherHumiditySensorStandsIn() {
+        DerivedClimate thom = ZoneClimate.derive(ClimateInputs.builder().dryBulbC(40).wetBulbC(10)
+                .thiVariant(ThiVariant.THOM_WET_BULB).build());
+        assertTrue(thom.hasProblems());
+        assertFalse(thom.has(Quantity.THI), "Thom's THI must not read the faulty wet bulb");
+        DerivedClimate withDew = ZoneClimate.derive(ClimateInputs.builder().dryBulbC(40).wetBulbC(10).dewPointC(15).build());
+        assertTrue(withDew.hasProblems());
+        // e_w(15 C) / e_w(40 C) = 17.02 / 73.68 hPa: computed by hand from the WMO-No. 8 Annex 4.B Magnus form over water.
+        assertEquals(23.10, withDew.value(Quantity.RH), 0.05);
+        assertTrue(withDew.has(Quantity.THI));
+    }
 }
