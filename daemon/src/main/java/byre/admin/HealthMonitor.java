@@ -10,7 +10,9 @@ import java.util.function.Supplier;
 /**
  * Turns the daemon's {@link HealthSnapshot} into a verdict. Healthy means: the broker is connected, or has been
  * reconnecting for less than {@code brokerGrace} (a broker restart or a short network cut is normal); the history
- * writer's last write succeeded; the pipeline thread turned its loop within {@code stallAfter}. The time of the
+ * writer's last write succeeded; the pipeline thread turned its loop within {@code stallAfter}; and the broker delivered
+ * something within the time the sensors' reporting intervals allow while connected (a link that is connected but
+ * hears nothing is as bad as none, and only a restart may cure it). The time of the
  * first disconnected sample is remembered here, so call {@link #check()} regularly (the watchdog does).
  */
 public final class HealthMonitor {
@@ -53,6 +55,11 @@ public final class HealthMonitor {
                         + blankAsUnknown(s.brokerError()) + ")");
             }
         }
+        if (s.receiveQuietLimitMillis() > 0 && s.receiveQuietMillis() >= s.receiveQuietLimitMillis()) {
+            problems.add("broker: connected but no message received for " + minutes(s.receiveQuietMillis()) + " (the sensors'"
+                    + " reporting intervals allow " + minutes(s.receiveQuietLimitMillis()) + "); check that the sensors report"
+                    + " and that the broker lets byre read their topics");
+        }
         if (!s.historyHealthy()) {
             problems.add("history: writes failing (" + blankAsUnknown(s.historyError()) + "); " + s.historyQueue() + " rows waiting");
         }
@@ -61,6 +68,10 @@ public final class HealthMonitor {
                     : "pipeline: no progress for " + s.pipelineIdleMillis() / 1000 + " s with " + s.pipelineQueue() + " zone readings queued");
         }
         return new Health(problems.isEmpty(), problems);
+    }
+
+    private static String minutes(long millis) {
+        return millis < 120_000 ? millis / 1000 + " s" : millis / 60_000 + " min";
     }
 
     private static String blankAsUnknown(String s) {

@@ -33,7 +33,9 @@ public final class Daemon implements AutoCloseable {
 
     private final ByreConfig config;
     private final Clock clock;
+    private final byre.time.Ticker ticker;
     private final MeterRegistry registry;
+    private volatile java.time.Duration quietLimit = java.time.Duration.ZERO;
     private EmbeddedBroker broker;
     private HistoryStore store;
     private HistoryWriter writer;
@@ -48,15 +50,21 @@ public final class Daemon implements AutoCloseable {
     private byre.notify.AlertService alerts;
     private volatile boolean reloadRequested;
 
-    private Daemon(ByreConfig config, Clock clock, MeterRegistry registry) {
+    private Daemon(ByreConfig config, Clock clock, byre.time.Ticker ticker, MeterRegistry registry) {
         this.config = config;
         this.clock = clock;
+        this.ticker = ticker;
         this.registry = registry;
     }
 
     /** Builds a daemon; {@link #start(ZoneDeriver)} brings it up. */
     public static Daemon create(ByreConfig config, Clock clock, MeterRegistry registry) {
-        return new Daemon(config, clock, registry);
+        return new Daemon(config, clock, byre.time.Ticker.SYSTEM, registry);
+    }
+
+    /** As {@link #create(ByreConfig, Clock, MeterRegistry)}, with the ticker that times elapsed time (tests). */
+    public static Daemon create(ByreConfig config, Clock clock, byre.time.Ticker ticker, MeterRegistry registry) {
+        return new Daemon(config, clock, ticker, registry);
     }
 
     /** Adds a consumer of zone streams (console lines in the demo, tests); call before start. */
@@ -88,13 +96,14 @@ public final class Daemon implements AutoCloseable {
             registerHistoryMeters();
 
             zones = new ZoneStage(new ArrayList<>(config.zones().values()), deriver, new ZoneMetrics(registry));
-            pipeline = new Pipeline(zones, writer, clock);
+            pipeline = new Pipeline(zones, writer, clock, ticker);
             Gauge.builder("byre.pipeline.queue", pipeline, Pipeline::depth).description("Zone readings waiting for the pipeline thread").register(registry);
 
             if (config.mqtt().embedded()) {
                 broker = EmbeddedBroker.start(config.mqtt().listenHost(), config.mqtt().listenPort());
             }
-            link = new MqttLink(config.mqtt(), config.site(), registry);
+            link = new MqttLink(config.mqtt(), config.site(), registry, ticker);
+            quietLimit = QuietLimit.of(config, ReportingIntervals.fromHistory(config, clock.instant()));
             publisher = new ZoneStreamPublisher(link, config.mqtt().publishPrefix(), config.site(), config.mqtt().publishEvery());
             pipeline.addListener(publisher);
             alerts = byre.notify.AlertServices.create(config, store, link, registry, clock);
@@ -121,7 +130,7 @@ public final class Daemon implements AutoCloseable {
             }));
             extraListeners.forEach(pipeline::addListener);
 
-            IngestStage ingest = new IngestStage(config.sensors().values(), clock, registry, pipeline::offer, FLOOD_LIMIT_PER_SENSOR);
+            IngestStage ingest = new IngestStage(config.sensors().values(), clock, ticker, registry, pipeline::offer, FLOOD_LIMIT_PER_SENSOR);
             for (SensorConfig s : config.sensors().values()) {
                 link.subscribeAcked(s.topic(), ingest::accept);
             }
@@ -206,8 +215,9 @@ public final class Daemon implements AutoCloseable {
         Pipeline p = pipeline;
         return new HealthSnapshot(l != null && l.isConnected(), l == null ? "not started" : l.lastError(),
                 w != null && w.isHealthy(), w == null ? "not started" : w.lastError().orElse(""),
-                p == null ? Long.MAX_VALUE : (System.nanoTime() - p.lastProgressNanos()) / 1_000_000L,
-                p == null ? 0 : p.depth(), processed(), w == null ? 0 : w.queueDepth());
+                p == null ? Long.MAX_VALUE : p.idleNanos() / 1_000_000L,
+                p == null ? 0 : p.depth(), processed(), w == null ? 0 : w.queueDepth(),
+                l == null ? 0 : l.quietWhileConnected().toMillis(), quietLimit.toMillis());
     }
 
     /** Waits until everything received so far is committed to the history. */
@@ -259,6 +269,14 @@ public final class Daemon implements AutoCloseable {
             Counter.builder("byre.derivations.skipped").tag("zone", zone).description("Zone derivations skipped for bad inputs")
                     .register(registry).increment();
             warnings.warn("skip:" + zone + why, "zone " + zone + ": " + why);
+        }
+
+        @Override
+        public void notLive(String zone, String sensorId, String why) {
+            Counter.builder("byre.readings.not.live").tag("zone", zone)
+                    .description("Readings stored but kept out of live evaluation (repeats, out of order, older than max-age)")
+                    .register(registry).increment();
+            if (!ZoneStage.REPEAT.equals(why)) warnings.warn("late:" + sensorId, "sensor " + sensorId + ": a reading " + why + " was stored but not evaluated live");
         }
 
         /** Looked up once per zone: derived() runs for every reading. */

@@ -58,11 +58,12 @@ public final class Pipeline implements AutoCloseable {
     private final ZoneStage zones;
     private final HistoryWriter history;
     private final Clock clock;
+    private final byre.time.Ticker ticker;
     private final List<ZoneListener> listeners = new CopyOnWriteArrayList<>();
     private final Thread thread;
     private final StoreThinning thinning = new StoreThinning(ZONE_STREAM_STORE_EVERY);
     private final AtomicLong processed = new AtomicLong();
-    private volatile long lastProgressNanos = System.nanoTime();
+    private volatile long lastProgressNanos;
     private volatile boolean closed;
 
     /** Guards {@link #zones} and {@link #derived}: one order of derivations for both threads. */
@@ -73,9 +74,16 @@ public final class Pipeline implements AutoCloseable {
     private boolean waiting;
 
     Pipeline(ZoneStage zones, HistoryWriter history, Clock clock) {
+        this(zones, history, clock, byre.time.Ticker.SYSTEM);
+    }
+
+    /** {@code ticker} times the loop's progress for {@link #idleNanos()}. */
+    Pipeline(ZoneStage zones, HistoryWriter history, Clock clock, byre.time.Ticker ticker) {
         this.zones = zones;
         this.history = history;
         this.clock = clock;
+        this.ticker = ticker;
+        this.lastProgressNanos = ticker.nanos();
         this.thread = new Thread(this::loop, "pipeline");
     }
 
@@ -106,7 +114,7 @@ public final class Pipeline implements AutoCloseable {
             }
             int before = derived.size();
             try {
-                zones.accept(r, derived::addLast);
+                zones.accept(r, clock.instant(), derived::addLast);
             } catch (RuntimeException e) {
                 LOG.error("zone derivation failed on a reading of {}: {}", r.sensorId(), e.toString(), e);
             }
@@ -126,9 +134,9 @@ public final class Pipeline implements AutoCloseable {
         }
     }
 
-    /** Nanos (System.nanoTime) of the last loop turn, for the watchdog and /health. */
-    long lastProgressNanos() {
-        return lastProgressNanos;
+    /** Time since the last loop turn, for the watchdog and /health. */
+    long idleNanos() {
+        return ticker.nanos() - lastProgressNanos;
     }
 
     private void loop() {
@@ -166,8 +174,8 @@ public final class Pipeline implements AutoCloseable {
             } catch (InterruptedException e) {
                 break;
             }
-            lastProgressNanos = System.nanoTime();
-            if (!batch.isEmpty()) lastBatchNanos = lastProgressNanos;
+            lastProgressNanos = ticker.nanos();
+            if (!batch.isEmpty()) lastBatchNanos = System.nanoTime();
             for (ZoneReading zr : batch) deliver(zr);
             if (tickDue) {
                 lastTick = now;

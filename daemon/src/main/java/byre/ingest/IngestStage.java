@@ -1,6 +1,7 @@
 package byre.ingest;
 
 import byre.config.SensorConfig;
+import byre.time.Ticker;
 import byre.units.Quantity;
 import io.micrometer.core.instrument.Counter;
 import io.micrometer.core.instrument.MeterRegistry;
@@ -45,15 +46,25 @@ public final class IngestStage {
     private final Counter unknownTopic;
     private final Counter clockBefore2020;
     private final Counter clockAhead;
-    private volatile long connectedAtNanos = System.nanoTime() - BACKLOG_GRACE.toNanos() - 1;
+    private final Counter retainedUntimed;
+    private final Ticker ticker;
+    private volatile long connectedAtNanos;
 
     public IngestStage(Collection<SensorConfig> sensors, Clock clock, MeterRegistry registry, Consumer<Reading> sink,
                        int maxReadingsPerSecondPerSensor) {
+        this(sensors, clock, Ticker.SYSTEM, registry, sink, maxReadingsPerSecondPerSensor);
+    }
+
+    /** With the {@link Ticker} that times the flood gate and the grace after a connection. */
+    public IngestStage(Collection<SensorConfig> sensors, Clock clock, Ticker ticker, MeterRegistry registry, Consumer<Reading> sink,
+                       int maxReadingsPerSecondPerSensor) {
         this.router = new TopicRouter(sensors);
         this.clock = clock;
+        this.ticker = ticker;
+        this.connectedAtNanos = ticker.nanos() - BACKLOG_GRACE.toNanos() - 1;
         this.sink = sink;
         this.registry = registry;
-        this.warnings = new RateLimitedLog(LOG, Duration.ofMinutes(1), System::nanoTime);
+        this.warnings = new RateLimitedLog(LOG, Duration.ofMinutes(1), ticker::nanos);
         this.floodGate = new FloodGate(maxReadingsPerSecondPerSensor, FLOOD_BURST);
         for (RejectReason r : RejectReason.values()) {
             rejected.put(r, Counter.builder("byre.readings.rejected").tag("reason", r.id())
@@ -65,11 +76,13 @@ public final class IngestStage {
                 .description("Payload times not believed; arrival time used instead").register(registry);
         clockAhead = Counter.builder("byre.readings.time.replaced").tag("reason", "ahead")
                 .description("Payload times not believed; arrival time used instead").register(registry);
+        retainedUntimed = Counter.builder("byre.readings.retained.untimed")
+                .description("Retained last values without a payload time, not taken as new readings").register(registry);
     }
 
     /** Handles one MQTT message; never throws for bad input. Returns the reading or null. */
     public Reading accept(String topic, byte[] payload) {
-        return accept(topic, payload, null);
+        return accept(topic, payload, false, null);
     }
 
     /**
@@ -77,12 +90,22 @@ public final class IngestStage {
      * the history, which runs it once committed; a message that yields no reading is acknowledged at once.
      */
     public Reading accept(String topic, byte[] payload, Runnable ack) {
-        Reading r = decode(topic, payload, ack);
+        return accept(topic, payload, false, ack);
+    }
+
+    /**
+     * As {@link #accept(String, byte[], Runnable)}; {@code retained}: the broker delivered the message with the
+     * retain flag, as the sensor's last known value on byre's subscribing, not as a reading just published. Such a
+     * value is taken at its payload time (a redelivery of a stored one is stored once); without a believable
+     * payload time its age is unknown, and it is not taken as a new reading at all.
+     */
+    public Reading accept(String topic, byte[] payload, boolean retained, Runnable ack) {
+        Reading r = decode(topic, payload, retained, ack);
         if (r == null && ack != null) ack.run();
         return r;
     }
 
-    private Reading decode(String topic, byte[] payload, Runnable ack) {
+    private Reading decode(String topic, byte[] payload, boolean retained, Runnable ack) {
         Instant arrival = clock.instant();
         TopicRouter.Route route = router.route(topic);
         if (route == null) {
@@ -92,7 +115,7 @@ public final class IngestStage {
         }
         String id = route.sensorId();
         SensorConfig sensor = route.sensor();
-        long nowNanos = System.nanoTime();
+        long nowNanos = ticker.nanos();
         if (nowNanos - connectedAtNanos > BACKLOG_GRACE.toNanos() && !floodGate.admit(id, nowNanos)) {
             return reject(id, RejectReason.FLOOD, "more than " + floodGate.limitPerSecond() + " readings per second");
         }
@@ -117,6 +140,12 @@ public final class IngestStage {
             } else {
                 at = d.payloadTime();
             }
+        }
+        if (at == arrival && retained) {
+            retainedUntimed.increment();
+            warnings.warn("retained:" + id, "sensor " + id + ": a retained value without its own time was not taken as a new"
+                    + " reading (its age is unknown); give the payload a time or publish without retain");
+            return null;
         }
         if (at == arrival) at = distinctArrival(id, arrival);
         receivedBySensor.computeIfAbsent(id, k -> Counter.builder("byre.readings.received").tag("sensor", k)
@@ -149,7 +178,7 @@ public final class IngestStage {
 
     /** Tells the stage that the broker connection was (re)established: a session backlog may follow. */
     public void connected() {
-        connectedAtNanos = System.nanoTime();
+        connectedAtNanos = ticker.nanos();
     }
 
     public TopicRouter router() {

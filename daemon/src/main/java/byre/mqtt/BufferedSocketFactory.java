@@ -9,10 +9,11 @@ import java.net.Socket;
 import javax.net.SocketFactory;
 
 /**
- * Plain TCP sockets whose input stream is buffered. The MQTT client reads each packet's fixed header a byte
- * at a time straight from the socket, which costs a system call per byte; behind a buffer a burst of small
- * readings costs one read per few kilobytes instead of several per message. (TLS sockets buffer by records
- * already and are left alone.)
+ * Plain TCP sockets whose input stream is buffered and guarded. The MQTT client reads each packet's fixed header
+ * a byte at a time straight from the socket, which costs a system call per byte; behind a buffer a burst of small
+ * readings costs one read per few kilobytes instead of several per message. The {@link PublishTopicGuard} on top
+ * keeps a topic the client cannot decode from stopping it. (TLS sockets buffer by records already; they get the
+ * guard from {@link GuardedSslSocketFactory}.)
  */
 final class BufferedSocketFactory extends SocketFactory {
     static final int BUFFER_BYTES = 16 * 1024;
@@ -54,7 +55,7 @@ final class BufferedSocketFactory extends SocketFactory {
 
         @Override
         public synchronized InputStream getInputStream() throws IOException {
-            if (in == null) in = new BufferedInputStream(super.getInputStream(), BUFFER_BYTES);
+            if (in == null) in = new PublishTopicGuard(new BufferedInputStream(super.getInputStream(), BUFFER_BYTES));
             return in;
         }
     }

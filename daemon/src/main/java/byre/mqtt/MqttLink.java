@@ -4,11 +4,14 @@ import byre.config.MqttSettings;
 import io.micrometer.core.instrument.Counter;
 import io.micrometer.core.instrument.Gauge;
 import io.micrometer.core.instrument.MeterRegistry;
+import byre.ingest.RateLimitedLog;
+import byre.time.Ticker;
 import java.io.InputStream;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.security.KeyStore;
+import java.time.Duration;
 import java.security.cert.Certificate;
 import java.security.cert.CertificateFactory;
 import java.util.ArrayList;
@@ -45,8 +48,8 @@ public final class MqttLink implements AutoCloseable {
     static {
         PahoLog.install(); // before the client's classes load (each takes its logger once)
     }
-    private static final long FIRST_BACKOFF_MS = 250;
-    private static final long MAX_BACKOFF_MS = 4000;
+    static final Duration FIRST_BACKOFF = Duration.ofMillis(250);
+    static final Duration MAX_BACKOFF = Duration.ofSeconds(4);
 
     private final MqttSettings settings;
     private final String statusTopic;
@@ -56,7 +59,8 @@ public final class MqttLink implements AutoCloseable {
      */
     @FunctionalInterface
     public interface Handler {
-        void accept(String topic, byte[] payload, Runnable ack);
+        /** {@code retained}: the broker sent it because byre subscribed (a last known value), not as it was published. */
+        void accept(String topic, byte[] payload, boolean retained, Runnable ack);
     }
 
 
@@ -74,9 +78,19 @@ public final class MqttLink implements AutoCloseable {
     private Thread connector;
     private final Counter publishDropped;
     private final Counter connectionLosses;
+    private final Counter invalidTopics;
+    private final RateLimitedLog warnings;
+    private final Ticker ticker;
+    private final Quiet quiet = new Quiet();
 
     public MqttLink(MqttSettings settings, String site, MeterRegistry registry) throws MqttException {
+        this(settings, site, registry, Ticker.SYSTEM);
+    }
+
+    public MqttLink(MqttSettings settings, String site, MeterRegistry registry, Ticker ticker) throws MqttException {
         this.settings = settings;
+        this.ticker = ticker;
+        this.warnings = new RateLimitedLog(LOG, Duration.ofHours(1), ticker::nanos);
         this.statusTopic = settings.publishPrefix() + "/" + site + "/status";
         this.client = new MqttAsyncClient(settings.connectUri(), settings.clientId(), new MemoryPersistence());
         client.setCallback(new Callback());
@@ -86,11 +100,13 @@ public final class MqttLink implements AutoCloseable {
         publishDropped = Counter.builder("byre.mqtt.publish.dropped")
                 .description("Derived-stream publications dropped while disconnected or saturated").register(registry);
         connectionLosses = Counter.builder("byre.mqtt.connection.lost").description("Broker connections lost").register(registry);
+        invalidTopics = Counter.builder("byre.mqtt.messages.dropped").tag("reason", "invalid-topic")
+                .description("Messages dropped because their topic is not a valid topic name").register(registry);
     }
 
     /** Adds a subscription (before {@link #start()}); the handler runs on the client's callback thread. */
     public void subscribe(String filter, BiConsumer<String, byte[]> handler) {
-        subscribeAcked(filter, (topic, payload, ack) -> {
+        subscribeAcked(filter, (topic, payload, retained, ack) -> {
             try {
                 handler.accept(topic, payload);
             } finally {
@@ -166,6 +182,7 @@ public final class MqttLink implements AutoCloseable {
 
     /** Starts connecting in the background; returns at once. */
     public void start() {
+        quiet.heard(ticker.nanos());
         connector = new Thread(this::connectLoop, "mqtt-connect");
         connector.setDaemon(true);
         connector.start();
@@ -177,6 +194,15 @@ public final class MqttLink implements AutoCloseable {
 
     public String lastError() {
         return lastError;
+    }
+
+    /**
+     * Connected time since the last message arrived (or since {@link #start()}), summed over connections: time
+     * without a connection does not count. A link that keeps connecting but hears nothing, for example because
+     * the client stops reading after each connection, adds up here although each connection is short.
+     */
+    public Duration quietWhileConnected() {
+        return Duration.ofNanos(quiet.nanos(ticker.nanos()));
     }
 
     /** Publishes without waiting; while disconnected the message is dropped and counted. */
@@ -213,7 +239,7 @@ public final class MqttLink implements AutoCloseable {
     }
 
     private void connectLoop() {
-        long backoff = FIRST_BACKOFF_MS;
+        Backoff backoff = new Backoff(ticker, FIRST_BACKOFF, MAX_BACKOFF);
         boolean warned = false;
         while (!closing.get()) {
             if (connected) {
@@ -224,7 +250,7 @@ public final class MqttLink implements AutoCloseable {
                         return;
                     }
                 }
-                backoff = FIRST_BACKOFF_MS;
+                backoff.connected();
                 continue;
             }
             try {
@@ -236,6 +262,7 @@ public final class MqttLink implements AutoCloseable {
                     client.subscribe(s.getKey(), settings.qos()).waitForCompletion(10_000);
                 }
                 connected = true;
+                quiet.connected(ticker.nanos());
                 lastError = "";
                 warned = false;
                 LOG.info("connected to MQTT broker {} as {}", settings.connectUri(), settings.clientId());
@@ -260,12 +287,12 @@ public final class MqttLink implements AutoCloseable {
                 } catch (MqttException ignored) {
                     // about to retry anyway
                 }
+                backoff.failed();
                 try {
-                    TimeUnit.MILLISECONDS.sleep(backoff);
+                    TimeUnit.NANOSECONDS.sleep(backoff.waitNanos());
                 } catch (InterruptedException ie) {
                     return;
                 }
-                backoff = Math.min(MAX_BACKOFF_MS, backoff * 2);
             }
         }
     }
@@ -281,9 +308,15 @@ public final class MqttLink implements AutoCloseable {
         o.setWill(statusTopic, "offline".getBytes(StandardCharsets.UTF_8), 1, true);
         if (settings.username() != null) o.setUserName(settings.username());
         if (settings.password() != null) o.setPassword(settings.password().reveal().toCharArray());
-        if (settings.caFile() != null) {
+        // Both kinds of socket pass what they receive through a PublishTopicGuard (a topic the client cannot decode
+        // would stop its reading thread). No per-subscription listeners: the client would match their filters
+        // against each topic and refuse the guard's mark.
+        if (settings.connectUri().startsWith("ssl://")) {
+            o.setSocketFactory(new GuardedSslSocketFactory(settings.caFile() != null ? trustingOnly(Path.of(settings.caFile()))
+                    : (javax.net.ssl.SSLSocketFactory) javax.net.ssl.SSLSocketFactory.getDefault()));
+        } else if (settings.caFile() != null) {
             o.setSocketFactory(trustingOnly(Path.of(settings.caFile())));
-        } else if (settings.connectUri().startsWith("tcp://")) {
+        } else {
             o.setSocketFactory(new BufferedSocketFactory());
         }
         return o;
@@ -346,6 +379,7 @@ public final class MqttLink implements AutoCloseable {
             LOG.debug("close: {}", e.toString());
         }
         connected = false;
+        quiet.lost(ticker.nanos());
         if (connector != null) {
             try {
                 connector.join(2000);
@@ -364,6 +398,7 @@ public final class MqttLink implements AutoCloseable {
         @Override
         public void connectionLost(Throwable cause) {
             connected = false;
+            quiet.lost(ticker.nanos());
             nextConnection();
             connectionLosses.increment();
             lastError = "connection lost: " + (cause == null ? "unknown" : cause.getMessage());
@@ -377,6 +412,11 @@ public final class MqttLink implements AutoCloseable {
         public void messageArrived(String topic, MqttMessage message) {
             // A topic never holds a wildcard, so a filter equal to it is an exact subscription: one hash lookup.
             if (intakePaused) return; // not acknowledged: the broker delivers it again after the restart
+            quiet.heard(ticker.nanos());
+            if (topic.indexOf('#') >= 0 || topic.indexOf('+') >= 0) {
+                dropInvalidTopic(topic, message);
+                return;
+            }
             Handler handler = subscriptions.get(topic);
             if (handler == null && !wildcardFilters.isEmpty()) {
                 String[] levels = topic.split("/", -1);
@@ -393,16 +433,70 @@ public final class MqttLink implements AutoCloseable {
                 return;
             }
             try {
-                handler.accept(topic, message.getPayload(), ack);
+                handler.accept(topic, message.getPayload(), message.isRetained(), ack);
             } catch (RuntimeException e) {
                 LOG.error("handler for {} failed on a message: {}", topic, e.toString(), e);
                 if (ack != null) ack.run();
             }
         }
 
+        /**
+         * A topic name holding a wildcard: the mark of {@link PublishTopicGuard} (bytes the client could not decode)
+         * or a broker passing on a name it should have refused. Dropped, counted, logged once an hour per topic,
+         * and acknowledged, so that the broker does not deliver it again.
+         */
+        private void dropInvalidTopic(String topic, MqttMessage message) {
+            invalidTopics.increment();
+            warnings.warn("invalid-topic:" + topic, "dropped a message whose topic is not a valid topic name (a NUL, a control character,"
+                    + " bytes that are not UTF-8, or a wildcard; shown as #): '" + topic + "'; fix the publisher");
+            Runnable ack = ackFor(message);
+            if (ack != null) ack.run();
+        }
+
         @Override
         public void deliveryComplete(IMqttDeliveryToken token) {
             // nothing to do: publications are fire-and-forget or awaited by the caller
+        }
+    }
+
+    /** Connected time without a message, summed over connections (see {@link #quietWhileConnected()}). */
+    private static final class Quiet {
+        private volatile long heardNanos;
+        private long foldedHeard;
+        private long beforeNanos;
+        private long fromNanos;
+        private boolean on;
+
+        /** On every message: one volatile write, the rest is worked out when asked. */
+        void heard(long now) {
+            heardNanos = now;
+        }
+
+        synchronized void connected(long now) {
+            fold();
+            fromNanos = now;
+            on = true;
+        }
+
+        synchronized void lost(long now) {
+            fold();
+            if (on) beforeNanos += Math.max(0, now - fromNanos);
+            on = false;
+        }
+
+        synchronized long nanos(long now) {
+            fold();
+            return beforeNanos + (on ? Math.max(0, now - fromNanos) : 0);
+        }
+
+        /** A message since the last look ends the quiet: count from it. */
+        private void fold() {
+            long h = heardNanos;
+            if (h != foldedHeard) {
+                foldedHeard = h;
+                beforeNanos = 0;
+                if (fromNanos < h) fromNanos = h;
+            }
         }
     }
 }

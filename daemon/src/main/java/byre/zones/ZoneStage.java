@@ -33,6 +33,9 @@ public final class ZoneStage {
         void derivationSkipped(String zone, String why);
 
         void derived(String zone);
+
+        /** A reading kept out of live evaluation (see {@link #accept(Reading, Instant, Consumer)}); it is stored all the same. */
+        default void notLive(String zone, String sensorId, String why) {}
     }
 
     private static final class ZoneState {
@@ -71,15 +74,23 @@ public final class ZoneStage {
         return s == null ? null : s.config.id();
     }
 
-    /** Feeds one sensor reading; emits the zone streams it produces. */
+    /** Feeds one sensor reading, time taken from the readings alone (replay); emits the zone streams it produces. */
     public void accept(Reading r, Consumer<ZoneReading> out) {
+        accept(r, null, out);
+    }
+
+    /**
+     * Feeds one sensor reading as of {@code now} (live; null in replay); emits the zone streams it produces.
+     * A reading that is not news (see {@link #notLiveBecause}) changes nothing and emits nothing.
+     */
+    public void accept(Reading r, Instant now, Consumer<ZoneReading> out) {
         ZoneState z = bySensor.get(r.sensorId());
         if (z == null) return;
         int q = r.quantity().ordinal();
         long t = r.at().toEpochMilli();
-        if (z.atMillis[q] > t && !Double.isNaN(z.values[q])) {
-            // An older reading redelivered after a newer one: keep the newer as the current input.
-            out.accept(new ZoneReading(r.at(), z.config.id(), r.quantity(), r.value()));
+        String notLive = notLiveBecause(z, q, t, now);
+        if (notLive != null) {
+            observer.notLive(z.config.id(), r.sensorId(), notLive);
             return;
         }
         z.values[q] = r.value();
@@ -91,6 +102,24 @@ public final class ZoneStage {
             return;
         }
         derive(z, r.at(), out);
+    }
+
+    /**
+     * Why a reading must not drive live evaluation, or null when it may. It is not news when it is no newer than
+     * the zone's current input of its quantity (a redelivery, a duplicate, a sensor's buffer replayed out of
+     * order), or, live, older than the zone's max-age before {@code now} (a buffer flushed after an outage, a clock
+     * far behind, a retained last value): fed to the watches it would count as the present. The history keeps it
+     * either way, and a replay, which reads the history in time order, sees it in its place.
+     */
+    /** The reason given for a reading at the very time of the current input: a redelivery, normal after a reconnect. */
+    public static final String REPEAT = "at the same time as the current input (a repeat)";
+
+    private static String notLiveBecause(ZoneState z, int q, long t, Instant now) {
+        if (!Double.isNaN(z.values[q]) && t <= z.atMillis[q]) {
+            return t == z.atMillis[q] ? REPEAT : "older than the current input";
+        }
+        if (now != null && now.toEpochMilli() - t > z.config.maxAge().toMillis()) return "older than the max-age before now";
+        return null;
     }
 
     /** Derives the zones whose derivation was put off and is now due (the interval has passed by {@code now}). */

@@ -37,7 +37,7 @@ class LateAckReconnectTest {
         List<Runnable> heldAcks = new CopyOnWriteArrayList<>();
         MqttLink link = new MqttLink(new MqttSettings(m.uri(), null, 0, "byre-late-ack-" + UUID.randomUUID().toString().substring(0, 8),
                 null, null, "byre", 1, null), "larkmoor", new SimpleMeterRegistry());
-        link.subscribeAcked("larkmoor/calf-barn/#", (topic, payload, ack) -> heldAcks.add(ack));
+        link.subscribeAcked("larkmoor/calf-barn/#", (topic, payload, retained, ack) -> heldAcks.add(ack));
         try {
             link.start();
             await().atMost(Duration.ofSeconds(10)).until(link::isConnected);
