@@ -1,16 +1,17 @@
 package byre.ingest;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
-import static org.junit.jupiter.api.Assertions.assertNotNull;
 import static org.junit.jupiter.api.Assertions.assertNull;
 
 import byre.config.PayloadFormat;
 import byre.config.SensorConfig;
+import byre.testing.ManualTicker;
 import byre.units.Quantity;
 import byre.units.Unit;
 import io.micrometer.core.instrument.simple.SimpleMeterRegistry;
 import java.nio.charset.StandardCharsets;
 import java.time.Clock;
+import java.time.Duration;
 import java.time.Instant;
 import java.time.ZoneOffset;
 import java.util.ArrayList;
@@ -107,18 +108,75 @@ class IngestStageTest {
     }
 
     @Test
-    void countsUnroutedTopicsAndThrottlesFloods() {
+    void countsUnroutedTopics() {
         assertNull(send("barn/elsewhere", "1"));
         assertEquals(1.0, registry.counter("byre.readings.unrouted").count());
+    }
+
+    /** The flood gate on a hand-moved ticker: exact counts, no timing. */
+    @Test
+    void throttlesAFloodToItsBurstThenItsRate() {
+        ManualTicker ticker = new ManualTicker();
+        IngestStage timed = timedStage(ticker);
+        ticker.advance(IngestStage.BACKLOG_GRACE.plusSeconds(1)); // the grace after start is over
+        assertEquals(IngestStage.FLOOD_BURST, admitted(timed, 3000), "a burst of 1000 passes (a session backlog)");
+        assertEquals(3000 - IngestStage.FLOOD_BURST, (int) rejected("flood"));
+        assertEquals(0, admitted(timed, 10), "the bucket is empty while no time passes");
+        ticker.advance(Duration.ofSeconds(1));
+        assertEquals(50, admitted(timed, 100), "then 50 per second");
+        ticker.advance(Duration.ofMillis(100));
+        assertEquals(5, admitted(timed, 100));
+    }
+
+    /** After a (re)connection the broker delivers the session's backlog at once: no flood limit for 30 s. */
+    @Test
+    void aConnectionOpensAGracePeriodForTheBacklog() {
+        ManualTicker ticker = new ManualTicker();
+        IngestStage timed = timedStage(ticker);
+        ticker.advance(Duration.ofMinutes(5));
+        timed.connected();
+        assertEquals(5000, admitted(timed, 5000));
+        ticker.advance(IngestStage.BACKLOG_GRACE);
+        assertEquals(3000, admitted(timed, 3000), "still within the grace at exactly 30 s");
+        ticker.advance(Duration.ofNanos(1));
+        assertEquals(IngestStage.FLOOD_BURST, admitted(timed, 3000), "after it, the gate's burst and no more");
+    }
+
+    private IngestStage timedStage(ManualTicker ticker) {
+        return new IngestStage(List.of(new SensorConfig("pen1-dry", "barn/pen1/dry", Quantity.DRY_BULB, Unit.F, PayloadFormat.NUMBER, null, 0, 1)),
+                Clock.fixed(NOW, ZoneOffset.UTC), ticker, registry, accepted::add, 50);
+    }
+
+    private static int admitted(IngestStage s, int n) {
         int ok = 0;
-        for (int i = 0; i < 3000; i++) {
-            if (send("barn/pen1/dry", "68") != null) ok++;
+        for (int i = 0; i < n; i++) {
+            if (s.accept("barn/pen1/dry", "68".getBytes(StandardCharsets.UTF_8)) != null) ok++;
         }
-        assertNotNull(accepted.get(0));
-        // The bucket holds 50; a tight loop refills it only a little.
-        assertEquals(3000 - ok, (int) rejected("flood"));
-        // A burst of 1000 passes (a session backlog after a restart), then about 50 per second.
-        org.junit.jupiter.api.Assertions.assertTrue(ok >= 1000 && ok < 1500, "flood not throttled: " + ok);
+        return ok;
+    }
+
+    /**
+     * A message delivered with the retain flag is the sensor's last value from before byre subscribed, delivered
+     * again on every (re)connection. With its own time it is a reading of that time; without one its age is unknown,
+     * and taking it at the arrival time made a dead sensor look alive after every reconnect.
+     */
+    @Test
+    void aRetainedValueIsTakenAtItsOwnTimeOrNotAtAll() {
+        int[] acks = {0};
+        Instant twoDaysAgo = NOW.minus(Duration.ofDays(2));
+        Reading timed = stage.accept("barn/pen1/air", ("{\"speed\":100,\"ts\":\"" + twoDaysAgo + "\"}").getBytes(StandardCharsets.UTF_8),
+                true, () -> acks[0]++);
+        assertEquals(twoDaysAgo, timed.at());
+        assertEquals(1, accepted.size());
+
+        assertNull(stage.accept("barn/pen1/dry", "68".getBytes(StandardCharsets.UTF_8), true, () -> acks[0]++));
+        assertNull(stage.accept("barn/pen1/air", "{\"speed\":100,\"ts\":86400}".getBytes(StandardCharsets.UTF_8), true, () -> acks[0]++),
+                "a time from an unset clock is no time");
+        assertEquals(1, accepted.size(), "untimed retained values are not readings");
+        assertEquals(2, acks[0], "and are acknowledged, so the broker does not send them again on this session");
+        assertEquals(2.0, registry.counter("byre.readings.retained.untimed").count());
+        // The same message without the flag is an ordinary new reading at its arrival time.
+        assertEquals(NOW, stage.accept("barn/pen1/dry", "68".getBytes(StandardCharsets.UTF_8), false, null).at());
     }
 
     @Test

@@ -77,4 +77,42 @@ class ZoneStageTest {
         assertEquals(List.of(), skipped, "one fault, one report");
         assertFalse(has(out, Quantity.RH), "no humidity from a wet bulb that cannot be right");
     }
+
+    List<ZoneReading> feedLive(Reading r, Instant now) {
+        List<ZoneReading> out = new ArrayList<>();
+        stage.accept(r, now, out::add);
+        return out;
+    }
+
+    /**
+     * Readings that are not news are kept out of live evaluation: a repeat or an older reading of a stream, and one
+     * older than the zone's max-age before now (a sensor's buffer flushed after an outage, a retained last value).
+     * Fed on, they counted at the present time: a value of two days ago raised an alert "since now". Before the
+     * change an older reading was still passed on.
+     */
+    @Test
+    void readingsThatAreNotNewsDoNotReachTheWatches() {
+        Instant now = T0.plus(Duration.ofDays(2));
+        assertEquals(List.of(), feedLive(new Reading("pen1-dry", Quantity.DRY_BULB, 35.0, T0), now), "two days old");
+        assertEquals(List.of(), feedLive(new Reading("pen1-dry", Quantity.DRY_BULB, 35.0, now.minus(Duration.ofHours(3))), now),
+                "a buffer of three hours ago");
+        assertTrue(Double.isNaN(stage.latest("calf-pen-1", Quantity.DRY_BULB)), "nor do they become the zone's input");
+
+        // Exactly max-age old is still fresh (a sensor reporting every max-age must count).
+        assertTrue(has(feedLive(new Reading("pen1-dry", Quantity.DRY_BULB, 5.0, now.minus(Duration.ofMinutes(5))), now), Quantity.DRY_BULB));
+        assertTrue(has(feedLive(new Reading("pen1-dry", Quantity.DRY_BULB, 5.5, now), now), Quantity.DRY_BULB));
+        assertEquals(List.of(), feedLive(new Reading("pen1-dry", Quantity.DRY_BULB, 5.5, now), now), "a repeat (a redelivery)");
+        assertEquals(List.of(), feedLive(new Reading("pen1-dry", Quantity.DRY_BULB, 9.0, now.minusSeconds(30)), now), "older than the current input");
+        assertEquals(5.5, stage.latest("calf-pen-1", Quantity.DRY_BULB));
+        // Another stream of the zone a little behind the dry bulb is news for its own stream.
+        assertTrue(has(feedLive(new Reading("pen1-wet", Quantity.WET_BULB, 4.0, now.minusSeconds(2)), now), Quantity.WET_BULB));
+    }
+
+    /** Replay has no clock: readings in time order all count, however old. */
+    @Test
+    void replayTakesOldReadingsInOrder() {
+        assertTrue(has(feed(new Reading("pen1-dry", Quantity.DRY_BULB, 5.0, T0)), Quantity.DRY_BULB));
+        assertTrue(has(feed(new Reading("pen1-dry", Quantity.DRY_BULB, 5.1, T0.plusSeconds(60))), Quantity.DRY_BULB));
+        assertEquals(List.of(), feed(new Reading("pen1-dry", Quantity.DRY_BULB, 5.1, T0.plusSeconds(60))), "a duplicate row counts once");
+    }
 }
