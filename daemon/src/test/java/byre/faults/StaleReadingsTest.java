@@ -75,7 +75,6 @@ class StaleReadingsTest {
             SimpleMeterRegistry registry = new SimpleMeterRegistry();
             try (Daemon d = Daemon.create(config(m.uri(), clientId), Clock.systemUTC(), registry).start(new ClimateDeriver())) {
                 await().atMost(Duration.ofSeconds(15)).until(() -> d.link().isConnected());
-                await().atMost(Duration.ofSeconds(10)).until(() -> registry.counter("byre.readings.retained.untimed").count() == 1);
                 // A sensor flushing its buffer after an outage: readings of three hours ago, a minute apart.
                 for (int i = 0; i < 10; i++) sensors.publish("larkmoor/cow-shed/dry", dry(36, now - Duration.ofHours(3).toMillis() + i * 60_000L));
                 await().atMost(Duration.ofSeconds(10)).until(() -> d.processed() >= 11);
@@ -83,13 +82,15 @@ class StaleReadingsTest {
                 assertEquals(11, rows("shed-dry"), "the retained timed value and the buffer are stored");
                 assertEquals(0, rows("shed-rh"), "a retained value of unknown age is not a reading");
                 assertEquals(AlertState.CLEAR, d.watches().engine().state("hot-shed", "cow-shed"));
+                assertEquals(1.0, registry.counter("byre.readings.retained.untimed").count());
             }
             // Restarted: the broker sends the retained values again.
             SimpleMeterRegistry again = new SimpleMeterRegistry();
             try (Daemon d = Daemon.create(config(m.uri(), clientId), Clock.systemUTC(), again).start(new ClimateDeriver())) {
                 await().atMost(Duration.ofSeconds(15)).until(() -> d.link().isConnected());
-                await().atMost(Duration.ofSeconds(10)).until(() -> again.counter("byre.readings.retained.untimed").count() == 1);
-                await().atMost(Duration.ofSeconds(10)).until(() -> d.processed() >= 1);
+                // Both retained values handled: the untimed one counted (or, wrongly, taken as a second reading).
+                await().atMost(Duration.ofSeconds(10)).until(() -> d.processed() >= 1
+                        && (again.counter("byre.readings.retained.untimed").count() == 1 || d.processed() >= 2));
                 d.flush();
                 assertEquals(11, rows("shed-dry"), "the retained value is stored once");
                 assertEquals(0, rows("shed-rh"));
