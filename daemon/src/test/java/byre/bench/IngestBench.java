@@ -42,7 +42,8 @@ import org.eclipse.paho.client.mqttv3.persist.MemoryPersistence;
  * full GC, database bytes per reading, and the zone derivation rate ({@link DerivationBench}).
  * byre's configuration holds 50 watches, one per zone on the derived THI with hold times and hysteresis, notifying a
  * webhook channel that posts to a local HTTP server ({@link BenchRules}, {@link HookSink}). Then, as separate phases:
- * alert latency p50/p99 under background load ({@link AlertLatencyBench}) and replay throughput ({@link ReplayBench}).
+ * alert latency p50/p99 under background load ({@link AlertLatencyBench}), a normal sensor's latency while another
+ * floods ({@link FloodBench}) and replay throughput ({@link ReplayBench}).
  *
  * <p>Run: {@code daemon/src/test/bench/run.sh} (builds, then runs this main; options: --rounds N --count0 N --count1 N --warmup N
  * --watches N, where 0 runs the ingest rounds without watches for comparison; --ingest-only true skips the later phases).
@@ -161,6 +162,10 @@ public final class IngestBench {
                 System.out.println("alert latency phase ...");
                 AlertLatencyBench.rows(AlertLatencyBench.run(m, 100, Duration.ofSeconds(50)), table);
             }
+        }
+        if (!ingestOnly) {
+            System.out.println("flood phase ...");
+            FloodBench.rows(table);
         }
         if (!ingestOnly) {
             derivation(table);

@@ -39,7 +39,11 @@ import org.junit.jupiter.api.io.TempDir;
  * retained zone streams.
  */
 class BrokerRestartTest {
-    static final long RECONNECT_LIMIT_MS = 5000;
+    /**
+     * Only a safety stop for a link that never comes back: how soon it comes back is the reconnect schedule's
+     * (byre.mqtt.BackoffTest, on a hand-moved ticker); the time taken here is printed, not judged.
+     */
+    static final Duration RECONNECT_GIVE_UP = Duration.ofSeconds(30);
 
     @TempDir
     Path dir;
@@ -60,10 +64,10 @@ class BrokerRestartTest {
         return Mosquitto.start(port, stateDir);
     }
 
-    /** Milliseconds from now until byre is connected again; fails beyond {@link #RECONNECT_LIMIT_MS}. */
+    /** Milliseconds from now until byre is connected again (printed). */
     static long awaitReconnect(Daemon d) {
         long t0 = System.nanoTime();
-        await().atMost(Duration.ofMillis(RECONNECT_LIMIT_MS)).pollInterval(Duration.ofMillis(10)).until(() -> d.link().isConnected());
+        await().atMost(RECONNECT_GIVE_UP).pollInterval(Duration.ofMillis(10)).until(() -> d.link().isConnected());
         long ms = (System.nanoTime() - t0) / 1_000_000;
         System.out.println("byre reconnected " + ms + " ms after the broker's return");
         return ms;
@@ -101,7 +105,6 @@ class BrokerRestartTest {
             m = killAndRestart(m, d, stateDir, Duration.ofMillis(800));
             long sentAtReturn = sensors.sent();
             long reconnectMs = awaitReconnect(d);
-            assertTrue(reconnectMs <= RECONNECT_LIMIT_MS);
             long readingsAfterReturn = sensors.sent();
             await().atMost(Duration.ofSeconds(20)).until(() -> sensors.sent() >= readingsAfterReturn + 300);
             sensors.close();
@@ -137,7 +140,7 @@ class BrokerRestartTest {
             Mosquitto empty = killAndRestart(m, d, null, Duration.ofMillis(500));
             try {
                 assertTrue(retainedZoneStreams(empty.uri()).size() <= 1, "the restarted broker starts with no zone streams");
-                assertTrue(awaitReconnect(d) <= RECONNECT_LIMIT_MS);
+                awaitReconnect(d);
                 // Nothing publishes a zone stream now: what a new client finds came from byre's republishing.
                 await().atMost(Duration.ofSeconds(5)).untilAsserted(() -> {
                     Map<String, String> retained = retainedZoneStreams(empty.uri());
