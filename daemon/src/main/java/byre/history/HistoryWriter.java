@@ -148,6 +148,7 @@ public final class HistoryWriter implements AutoCloseable {
     private final HistoryStore store;
     private final Retention retention;
     private final Clock clock;
+    private final byre.time.Ticker ticker;
     private final Settings settings;
     private final BlockingQueue<Item> queue;
     private final Thread thread;
@@ -188,8 +189,9 @@ public final class HistoryWriter implements AutoCloseable {
     private volatile long retentionRowsDeleted;
     private volatile long maxRetentionStepRows;
 
-    private HistoryWriter(HistoryStore store, Retention retention, Clock clock, Settings settings) {
+    private HistoryWriter(HistoryStore store, Retention retention, Clock clock, Settings settings, byre.time.Ticker ticker) {
         this.store = store;
+        this.ticker = ticker;
         this.retention = retention;
         this.clock = clock;
         this.settings = settings;
@@ -210,13 +212,18 @@ public final class HistoryWriter implements AutoCloseable {
      * @throws HistoryException when the database cannot be opened for writing
      */
     public static HistoryWriter start(HistoryStore store, Retention retention, Clock clock, Settings settings) {
-        HistoryWriter w = new HistoryWriter(store, retention, clock, settings);
+        return start(store, retention, clock, settings, byre.time.Ticker.SYSTEM);
+    }
+
+    /** As {@link #start(HistoryStore, Retention, Clock, Settings)}; {@code ticker} times batch delays, retries and pruning rounds. */
+    public static HistoryWriter start(HistoryStore store, Retention retention, Clock clock, Settings settings, byre.time.Ticker ticker) {
+        HistoryWriter w = new HistoryWriter(store, retention, clock, settings, ticker);
         try {
             w.conn = store.openWriterConnection();
         } catch (SQLException e) {
             throw new HistoryException("history " + store.path() + ": cannot open for writing: " + e.getMessage(), e);
         }
-        w.nextRetentionNanos = System.nanoTime();
+        w.nextRetentionNanos = ticker.nanos();
         w.thread.start();
         return w;
     }
@@ -396,7 +403,7 @@ public final class HistoryWriter implements AutoCloseable {
                     queue.drainTo(drained, settings.batchRows());
                     for (Item it : drained) absorb(it);
                 }
-                long now = System.nanoTime();
+                long now = ticker.nanos();
                 if (commitDue(now)) {
                     commitBatch();
                 } else if (backlog.isEmpty() || now - firstPendingNanos < settings.maxBatchDelay().toNanos()) {
@@ -424,7 +431,7 @@ public final class HistoryWriter implements AutoCloseable {
     }
 
     private long waitNanos() {
-        long now = System.nanoTime();
+        long now = ticker.nanos();
         if (!backlog.isEmpty()) {
             // The very first batch goes at once: an installer watching the log sees the first stored
             // reading within a second of start, not after a batch delay.
@@ -450,7 +457,7 @@ public final class HistoryWriter implements AutoCloseable {
 
     private void absorb(Item it) {
         if (it instanceof Row r) {
-            if (backlog.isEmpty()) firstPendingNanos = System.nanoTime();
+            if (backlog.isEmpty()) firstPendingNanos = ticker.nanos();
             if (backlog.size() >= settings.backlogLimit()) {
                 Row dropped = backlog.pollFirst();
                 if (dropped.onStored != null) {
@@ -504,7 +511,7 @@ public final class HistoryWriter implements AutoCloseable {
     private void commitBatch() {
         int n = Math.min(settings.batchRows(), backlog.size());
         long cutoff = clock.millis() - retention.keepRaw().toMillis();
-        long t0 = System.nanoTime();
+        long t0 = ticker.nanos();
         Map<StreamKey, Integer> newIds = new HashMap<>();
         int inserted = 0;
         int duplicate = 0;
@@ -568,7 +575,7 @@ public final class HistoryWriter implements AutoCloseable {
                 pendingCallbacks--;
             }
         }
-        if (!backlog.isEmpty()) firstPendingNanos = Math.min(firstPendingNanos, System.nanoTime());
+        if (!backlog.isEmpty()) firstPendingNanos = Math.min(firstPendingNanos, ticker.nanos());
         backlogRows = backlog.size();
         streamIds.putAll(newIds);
         rowsWritten += inserted;
@@ -576,7 +583,7 @@ public final class HistoryWriter implements AutoCloseable {
         rowsTooOld += tooOld;
         batches++;
         lastBatchRows = n;
-        lastCommitMillis = TimeUnit.NANOSECONDS.toMillis(System.nanoTime() - t0);
+        lastCommitMillis = TimeUnit.NANOSECONDS.toMillis(ticker.nanos() - t0);
         if (!healthy) log.info("history {}: writing again, {} readings still waiting", store.path(), backlog.size());
         healthy = true;
         retryDelayNanos = INITIAL_RETRY_NANOS;
@@ -614,7 +621,7 @@ public final class HistoryWriter implements AutoCloseable {
         lastError = msg;
         healthy = false;
         releaseAll();
-        nextRetryNanos = System.nanoTime() + retryDelayNanos;
+        nextRetryNanos = ticker.nanos() + retryDelayNanos;
         retryDelayNanos = Math.min(retryDelayNanos * 2, settings.maxRetryDelay().toNanos());
     }
 

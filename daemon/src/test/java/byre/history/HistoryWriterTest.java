@@ -6,6 +6,7 @@ import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import byre.rules.ZoneReading;
+import byre.testing.ManualTicker;
 import byre.units.Quantity;
 import java.nio.file.Path;
 import java.time.Duration;
@@ -84,9 +85,16 @@ class HistoryWriterTest {
 
     @Test
     void commitsAPartialBatchWhenTheOldestRowHasWaitedLongEnough() {
-        // 1000 rows would never be reached: only the delay can trigger this commit.
-        start(HistoryWriter.Settings.DEFAULT.withBatch(1000, Duration.ofMillis(300)));
+        // 1000 rows would never be reached, and an hour of real time does not pass here: only the delay, on the
+        // hand-moved ticker, can trigger this commit.
+        ManualTicker ticker = new ManualTicker();
+        store = HistoryStore.open(dir.resolve("history.db"), clock);
+        writer = HistoryWriter.start(store, Retention.DEFAULT, clock, HistoryWriter.Settings.DEFAULT.withBatch(1000, Duration.ofHours(1)), ticker);
         for (int i = 0; i < 5; i++) writer.append(PEN1_DRY, T0.plusSeconds(i), i);
+        await().atMost(Duration.ofSeconds(10)).until(() -> writer.backlogRows() == 5); // taken by the writer: the delay runs
+        ticker.advance(Duration.ofMinutes(59));
+        assertEquals(0, writer.rowsWritten());
+        ticker.advance(Duration.ofMinutes(1));
         await().atMost(Duration.ofSeconds(10)).until(() -> writer.rowsWritten() == 5);
         assertEquals(1, writer.batches());
         assertEquals(5, Sql.number(store.path(), "SELECT count(*) FROM reading"));
