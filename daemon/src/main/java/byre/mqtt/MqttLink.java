@@ -1,19 +1,19 @@
 package byre.mqtt;
 
 import byre.config.MqttSettings;
+import byre.ingest.RateLimitedLog;
+import byre.time.Ticker;
 import io.micrometer.core.instrument.Counter;
 import io.micrometer.core.instrument.Gauge;
 import io.micrometer.core.instrument.MeterRegistry;
-import byre.ingest.RateLimitedLog;
-import byre.time.Ticker;
 import java.io.InputStream;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.security.KeyStore;
-import java.time.Duration;
 import java.security.cert.Certificate;
 import java.security.cert.CertificateFactory;
+import java.time.Duration;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Map;
