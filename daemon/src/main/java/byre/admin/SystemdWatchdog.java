@@ -11,7 +11,8 @@ import org.slf4j.LoggerFactory;
 
 /**
  * Pets the systemd watchdog ({@code WatchdogSec=} in the unit) while {@link HealthMonitor} says healthy, so a hung
- * or wedged daemon (broker gone for good, database not writable, pipeline stuck) is restarted by systemd.
+ * or wedged daemon (broker gone for good, connected but hearing nothing, database not writable, pipeline stuck) is
+ * restarted by systemd.
  *
  * <p>Why through the {@code systemd-notify} program: the notification socket is a Unix datagram socket, and Java 17
  * speaks Unix sockets only as streams. {@code systemd-notify} runs as a child, so the unit needs

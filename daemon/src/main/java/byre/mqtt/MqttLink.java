@@ -460,7 +460,7 @@ public final class MqttLink implements AutoCloseable {
     }
 
     /** Connected time without a message, summed over connections (see {@link #quietWhileConnected()}). */
-    private static final class Quiet {
+    static final class Quiet {
         private volatile long heardNanos;
         private long foldedHeard;
         private long beforeNanos;
