@@ -119,7 +119,7 @@ public final class Daemon implements AutoCloseable {
             pipeline.addListener(watches);
             for (byre.rules.eval.AlertState st : byre.rules.eval.AlertState.values()) {
                 if (st == byre.rules.eval.AlertState.CLEAR) continue;
-                Gauge.builder("byre.watches", watches, w -> w.openCount(st)).tag("state", st.name().toLowerCase())
+                Gauge.builder("byre.watches", watches, w -> w.openCount(st)).tag("state", st.id())
                         .description("Watch instances by state (clear ones are not counted)").register(registry);
             }
             pipeline.addListener(new SelfWatch(writer, alerts));

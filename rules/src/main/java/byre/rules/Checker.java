@@ -96,15 +96,12 @@ final class Checker {
         String template = Watch.DEFAULT_MESSAGE;
         if (w.message() != null) {
             template = w.message().text();
-            Matcher m = PLACEHOLDER.matcher(template);
-            while (m.find()) {
-                if (!PLACEHOLDERS.contains(m.group(1))) {
-                    Pos p = w.message().pos();
-                    error(new Pos(p.line(), p.col() + 1 + m.start(), m.end() - m.start()), "unknown placeholder '{" + m.group(1) + "}'"
-                            + Suggest.closest(m.group(1), PLACEHOLDERS).map(s -> " (did you mean '{" + s + "}'?)").orElse("")
-                            + "; placeholders are {watch} {zone} {quantity} {value} {unit} {level} {since} {site}");
-                }
-            }
+            placeholders(w.message());
+        }
+        String clearTemplate = null;
+        if (w.clearMessage() != null) {
+            clearTemplate = w.clearMessage().text();
+            placeholders(w.clearMessage());
         }
         TimeWindow only = w.only() == null ? null
                 : new TimeWindow(LocalTime.of(w.only().startMinute() / 60, w.only().startMinute() % 60),
@@ -127,8 +124,21 @@ final class Checker {
         if (w.clear() != null) intervalWarning(w.clear(), clearHold, terms.subList(raiseTermCount, terms.size()), zones);
 
         Quantity quantity = terms.get(0).quantity();
-        return Optional.of(new Watch(w.name(), w.file(), w.pos().line(), level, notify, remind, escalate, escalateTo, template, only,
-                zones, Duration.ofMillis(raiseHold), Duration.ofMillis(clearHold), quantity, raise, clear));
+        return Optional.of(new Watch(w.name(), w.file(), w.pos().line(), level, notify, remind, escalate, escalateTo, template, clearTemplate,
+                only, zones, Duration.ofMillis(raiseHold), Duration.ofMillis(clearHold), quantity, raise, clear));
+    }
+
+    /** Every {@code {name}} of a message must be a known placeholder; the caret points at the unknown one. */
+    private void placeholders(Ast.Text text) {
+        Matcher m = PLACEHOLDER.matcher(text.text());
+        while (m.find()) {
+            if (!PLACEHOLDERS.contains(m.group(1))) {
+                Pos p = text.pos();
+                error(new Pos(p.line(), p.col() + 1 + m.start(), m.end() - m.start()), "unknown placeholder '{" + m.group(1) + "}'"
+                        + Suggest.closest(m.group(1), PLACEHOLDERS).map(s -> " (did you mean '{" + s + "}'?)").orElse("")
+                        + "; placeholders are {watch} {zone} {quantity} {value} {unit} {level} {since} {site}");
+            }
+        }
     }
 
     private void error(Pos p, String message) {

@@ -23,6 +23,7 @@ public final class Watch {
     private final Duration escalateAfter;
     private final List<String> escalateTo;
     private final String messageTemplate;
+    private final String clearMessageTemplate;
     private final TimeWindow onlyBetween;
     private final List<String> zones;
     private final Duration raiseHold;
@@ -33,7 +34,7 @@ public final class Watch {
     private final Plan.Cond clear;
 
     Watch(String name, String file, int line, Level level, List<String> notify, Duration remindEvery, Duration escalateAfter,
-          List<String> escalateTo, String messageTemplate, TimeWindow onlyBetween, List<String> zones, Duration raiseHold,
+          List<String> escalateTo, String messageTemplate, String clearMessageTemplate, TimeWindow onlyBetween, List<String> zones, Duration raiseHold,
           Duration clearHold, Quantity quantity, Plan.Cond raise, Plan.Cond clear) {
         this.name = name;
         this.file = file;
@@ -44,6 +45,7 @@ public final class Watch {
         this.escalateAfter = escalateAfter;
         this.escalateTo = List.copyOf(escalateTo);
         this.messageTemplate = messageTemplate;
+        this.clearMessageTemplate = clearMessageTemplate;
         this.onlyBetween = onlyBetween;
         this.zones = List.copyOf(zones);
         this.raiseHold = raiseHold;
@@ -73,6 +75,12 @@ public final class Watch {
 
     /** The {@code message} text with its placeholders, or {@link #DEFAULT_MESSAGE}. */
     public String messageTemplate() { return messageTemplate; }
+
+    /** The {@code clear message} text with its placeholders; empty when the watch has none (the all-clear then says what ended). */
+    public Optional<String> clearMessageTemplate() { return Optional.ofNullable(clearMessageTemplate); }
+
+    /** True when the watch has its own {@code message} line (not {@link #DEFAULT_MESSAGE}). */
+    public boolean hasOwnMessage() { return !DEFAULT_MESSAGE.equals(messageTemplate); }
 
     public Optional<TimeWindow> onlyBetween() { return Optional.ofNullable(onlyBetween); }
 

@@ -35,8 +35,8 @@ class ClockJumpYearTest {
     }
 
     @Test
-    void aYearForwardNeitherCompletesAPendingRaiseNorAClear() {
-        thi(T0, 10, 73);                                  // pending for 10 of its 30 minutes
+    void aYearForwardNeitherCompletesAHoldingRaiseNorAClear() {
+        thi(T0, 10, 73);                                  // holding for 10 of its 30 minutes
         Instant later = T0.plus(Duration.ofDays(365));
         assertEquals(List.of(), engine.tick(later), "the jump itself must not complete the 30-minute hold");
         thi(later, 25, 73);

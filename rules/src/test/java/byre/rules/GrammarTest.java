@@ -206,6 +206,14 @@ class GrammarTest {
                 inWatch("raise when silent(cows.thi)", "level critcal"));
         assertEquals(List.of("barn.rules:4:13: unknown placeholder '{zoen}' (did you mean '{zone}'?); placeholders are {watch} {zone} {quantity} {value} {unit} {level} {since} {site}"),
                 inWatch("raise when silent(cows.thi)", "message \"in {zoen}\""));
+        assertEquals(List.of("barn.rules:4:16: unknown placeholder '{vaule}' (did you mean '{value}'?); placeholders are {watch} {zone} {quantity} {value} {unit} {level} {since} {site}"),
+                inWatch("raise when silent(cows.thi)", "clear message \"{vaule}\""));
+        assertEquals(List.of("barn.rules:4:7: expected 'when' or 'message' after 'clear', found 'mesage' (did you mean 'message'?)"),
+                inWatch("raise when silent(cows.thi)", "clear mesage \"done\""));
+        assertEquals(List.of("barn.rules:4:14: expected a quoted message after 'clear message', found the end of the line"),
+                inWatch("raise when silent(cows.thi)", "clear message"));
+        assertEquals(List.of("barn.rules:5:1: second 'clear message' in watch 'w'"),
+                inWatch("raise when silent(cows.thi)", "clear message \"a\"", "clear message \"b\""));
         assertEquals(List.of("barn.rules:3:7: watch 'w' is already defined at barn.rules:1"),
                 headlines("watch w\n raise when silent(cows.thi)\nwatch w\n raise when silent(cows.rh)\n notify office\n").stream()
                         .filter(s -> !s.contains("warning")).toList());

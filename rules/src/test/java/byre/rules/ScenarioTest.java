@@ -146,7 +146,7 @@ class ScenarioTest {
         Scenario s = new Scenario(chill, Scenario.farm());
         assertEquals(List.of("18:20 RAISED calf-chill/calf-pen-1 2.0", "2026-01-16 10:15 CLEARED calf-chill/calf-pen-1 9.0"), s.run(
                 series("calf-pen-1", "wind-chill", "16:00", "+1 09:59", 5, "2") + series("calf-pen-1", "wind-chill", "+1 10:00", "+1 10:30", 5, "9")));
-        // Cold from 07:50: pending, but the window closes at 08:00 before the hold completes.
+        // Cold from 07:50: holding, but the window closes at 08:00 before the hold completes.
         Scenario morning = new Scenario(chill, Scenario.farm());
         assertEquals(List.of(), morning.run(series("calf-pen-1", "wind-chill", "07:50", "09:00", 5, "2")));
     }
@@ -208,9 +208,36 @@ class ScenarioTest {
         assertEquals("Heat stress in cows: THI 73.4. Check fans and water.", ts.get(0).message());
         assertEquals("", ts.get(0).unit());
         assertEquals("cold at larkmoor: cows dry-bulb 0.0 C (warning) since 2026-01-15 10:31", ts.get(1).message());
-        assertEquals("All clear: cold at larkmoor: cows dry-bulb 2.5 C (warning) since 2026-01-15 10:31", ts.get(2).message());
+        // The all-clear never repeats the raise's advice: without a 'clear message' its text is left to the alert stage.
+        assertEquals("", ts.get(2).message());
         assertEquals(Transition.Kind.CLEARED, ts.get(2).kind());
         assertEquals(Scenario.time("10:31"), ts.get(2).since());
+    }
+
+    @Test
+    void aClearMessageIsFilledWithTheValueNowAndAWatchWithoutMessageLeavesTheRaiseTextEmpty() {
+        Scenario s = new Scenario("""
+                watch cold
+                  raise when cows.dry-bulb < 0 C
+                  clear when cows.dry-bulb > 2 C
+                  notify office
+                  clear message "{zone} is back to {value} {unit}; jackets can come off at {site}."
+                """, Scenario.farm());
+        List<Transition> ts = new ArrayList<>();
+        ts.addAll(s.engine.accept(new ZoneReading(Scenario.time("10:31"), "cows", Quantity.DRY_BULB, -0.04)));
+        ts.addAll(s.engine.accept(new ZoneReading(Scenario.time("10:32"), "cows", Quantity.DRY_BULB, 2.54)));
+        assertEquals("", ts.get(0).message(), "no message line: the alert stage writes the raise");
+        assertEquals("cows is back to 2.5 C; jackets can come off at larkmoor.", ts.get(1).message());
+    }
+
+    @Test
+    void aSnapshotSavedWithThePendingStateOfEarlierVersionsRestoresAsHolding() {
+        Scenario b = new Scenario(HEAT, Scenario.farm());
+        assertEquals(List.of(), b.engine.restore(Map.of("heat/cows", "PENDING since=2026-01-15T10:00:00Z value=73.0")));
+        assertEquals(AlertState.HOLDING, b.engine.state("heat", "cows"));
+        assertTrue(b.engine.snapshot().get("heat/cows").startsWith("HOLDING since="), b.engine.snapshot().toString());
+        // the hold restarts at the first evaluation after the restart, as for any restored hold
+        assertEquals(List.of("10:50 RAISED heat/cows 73.0"), b.run(series("cows", "thi", "10:20", "10:50", 1, "73")));
     }
 
     @Test

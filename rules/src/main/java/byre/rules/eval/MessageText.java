@@ -6,7 +6,7 @@ import java.util.Locale;
 import java.util.regex.Matcher;
 import java.util.regex.Pattern;
 
-/** Fills a message template: {watch} {zone} {quantity} {value} {unit} {level} {since} {site}. */
+/** Fills a message template ({@code message} or {@code clear message}): {watch} {zone} {quantity} {value} {unit} {level} {since} {site}. */
 public final class MessageText {
     private static final Pattern P = Pattern.compile("\\{([a-z]+)\\}");
 
@@ -19,8 +19,7 @@ public final class MessageText {
         return s.equals("-0.0") ? "0.0" : s;
     }
 
-    static String render(Watch w, String zone, Unit display, double value, String site, String since) {
-        String template = w.messageTemplate();
+    static String render(String template, Watch w, String zone, Unit display, double value, String site, String since) {
         if (display.symbol().isEmpty()) template = template.replace(" {unit}", "");
         Matcher m = P.matcher(template);
         StringBuilder sb = new StringBuilder();

@@ -10,7 +10,8 @@ import java.time.Instant;
  * @param value    the value of the first value in the raise condition at {@code at}, canonical unit; NaN if none
  * @param unit     canonical unit symbol of {@code quantity} ("" for indices)
  * @param since    when the episode began: the raise condition first became true
- * @param message  the watch's message with placeholders filled; a cleared event starts with "All clear: "
+ * @param message  raised: the watch's own {@code message} with placeholders filled ("" without a message line);
+ *                 cleared: its {@code clear message} filled ("" without one: the all-clear never repeats the raise's advice)
  */
 public record Transition(Kind kind, String watch, String zone, Level level, String quantity, double value, String unit,
                          Instant since, Instant at, String message) {

@@ -182,13 +182,13 @@ public final class WatchEngine {
         switch (inst.state) {
             case CLEAR:
                 if (r == Nodes.T && inWindow(inst, t)) {
-                    inst.state = AlertState.PENDING;
+                    inst.state = AlertState.HOLDING;
                     inst.since = t;
                     inst.holdStart = t;
                     if (inst.raiseHold == 0) raise(inst, t);
                 }
                 break;
-            case PENDING:
+            case HOLDING:
                 if (r != Nodes.T || !inWindow(inst, t)) {
                     inst.state = AlertState.CLEAR;
                     inst.since = NONE;
@@ -226,7 +226,7 @@ public final class WatchEngine {
 
     private void schedule(Instance inst, long t) {
         long next = NONE;
-        if (inst.state == AlertState.PENDING && inst.holdStart != NONE) next = inst.holdStart + inst.raiseHold;
+        if (inst.state == AlertState.HOLDING && inst.holdStart != NONE) next = inst.holdStart + inst.raiseHold;
         else if (inst.state == AlertState.CLEARING && inst.holdStart != NONE) next = inst.holdStart + inst.clearHold;
         for (Stream s : inst.silentStreams) {
             if (!s.silent(t, start)) {
@@ -265,8 +265,12 @@ public final class WatchEngine {
         Quantity q = w.quantity();
         Instant since = Instant.ofEpochMilli(inst.since + offset);
         Instant at = Instant.ofEpochMilli(t + offset);
-        String msg = MessageText.render(w, inst.zone, displayUnit(q), inst.value, rules.site(), since.atZone(siteZone).format(SINCE));
-        if (kind == Transition.Kind.CLEARED) msg = "All clear: " + msg;
+        // A raise carries the watch's own message (its advice); an all-clear carries only its own 'clear message',
+        // never the raise's advice. Empty text: the alert stage says what happened in its own words.
+        String template = kind == Transition.Kind.RAISED ? (w.hasOwnMessage() ? w.messageTemplate() : null)
+                : w.clearMessageTemplate().orElse(null);
+        String msg = template == null ? ""
+                : MessageText.render(template, w, inst.zone, displayUnit(q), inst.value, rules.site(), since.atZone(siteZone).format(SINCE));
         return new Transition(kind, w.name(), inst.zone, w.level(), q.id(), inst.value, q.canonicalUnit().symbol(), since, at, msg);
     }
 
@@ -298,7 +302,7 @@ public final class WatchEngine {
 
     /**
      * Restores a {@link #snapshot} before the first reading. A raised alert stays raised without a new
-     * {@code raised} event; a pending raise or a running clear keeps its state but its hold restarts at
+     * {@code raised} event; a holding raise or a running clear keeps its state but its hold restarts at
      * the first evaluation (the time in between was not observed). Entries for watches or zones no
      * longer in the rules are skipped; the returned list says which and why (empty when all applied).
      */
@@ -313,7 +317,7 @@ public final class WatchEngine {
             }
             try {
                 String[] parts = e.getValue().trim().split("\\s+");
-                AlertState st = AlertState.valueOf(parts[0]);
+                AlertState st = AlertState.fromSaved(parts[0]);
                 long since = NONE;
                 long raised = NONE;
                 double value = Double.NaN;

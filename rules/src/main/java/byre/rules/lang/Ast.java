@@ -9,10 +9,11 @@ public final class Ast {
     /**
      * One {@code watch} block as written; clauses the user left out are null (lists: empty). {@code raise}
      * is null only when its line had a syntax error (already reported); the rest is still checked.
+     * {@code clearMessage} is the text of {@code clear message "…"}, null without one.
      */
     public record Watch(String file, String name, Pos pos, When raise, When clear, Word level, List<Word> notifyTo,
                         Dur remind, Dur escalateAfter, List<Word> escalateTo, Between only, Text message,
-                        boolean hadSyntaxErrors) {
+                        Text clearMessage, boolean hadSyntaxErrors) {
     }
 
     /** {@code raise when ... [for D]} or {@code clear when ... [for D]}; hold null when there is no {@code for}. */

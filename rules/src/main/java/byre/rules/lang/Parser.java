@@ -111,7 +111,19 @@ public final class Parser {
                 break;
             }
             case "clear": {
-                expectWord("when", "after 'clear'");
+                if (peek().isWord("message")) {
+                    next();
+                    Text text = message("'clear message'");
+                    if (cur.clearMessage != null) sink.error(t.pos(), "second 'clear message' in watch '" + cur.name + "'");
+                    else cur.clearMessage = text;
+                    break;
+                }
+                Token w = peek();
+                if (!w.isWord("when")) {
+                    throw fail(w, "expected 'when' or 'message' after 'clear', found " + w.shown()
+                            + (w.is(Kind.WORD) ? Suggest.hint(w.text(), List.of("when", "message")) : ""));
+                }
+                next();
                 When when = when(t);
                 if (cur.clear != null) sink.error(t.pos(), "second 'clear when' in watch '" + cur.name + "' (the first is on line " + cur.clear.pos().line() + ")");
                 else cur.clear = when;
@@ -169,17 +181,23 @@ public final class Parser {
                 break;
             }
             case "message": {
-                Token s = peek();
-                if (!s.is(Kind.STRING)) throw fail(s, "expected a quoted message after 'message', found " + s.shown());
-                next();
-                expectEol();
+                Text text = message("'message'");
                 if (cur.message != null) sink.error(t.pos(), "second 'message' in watch '" + cur.name + "'");
-                else cur.message = new Text(s.text(), s.pos());
+                else cur.message = text;
                 break;
             }
             default:
                 throw new IllegalStateException(kw);
         }
+    }
+
+    /** The quoted text of a {@code message} or {@code clear message} line, up to the end of the line. */
+    private Text message(String after) {
+        Token s = peek();
+        if (!s.is(Kind.STRING)) throw fail(s, "expected a quoted message after " + after + ", found " + s.shown());
+        next();
+        expectEol();
+        return new Text(s.text(), s.pos());
     }
 
     private void watchLine() {
@@ -201,7 +219,7 @@ public final class Parser {
             if (cur.raise == null && !cur.raiseBroken) sink.error(cur.pos, "watch '" + cur.name + "' has no 'raise when' line");
             else watches.add(new Watch(sink.file(), cur.name, cur.pos, cur.raise, cur.clear, cur.level, List.copyOf(cur.notify),
                     cur.remind, cur.escalateAfter, cur.escalateTo == null ? List.of() : List.copyOf(cur.escalateTo), cur.only, cur.message,
-                    cur.broken));
+                    cur.clearMessage, cur.broken));
         }
         cur = null;
     }
@@ -429,6 +447,7 @@ public final class Parser {
         List<Word> escalateTo;
         Between only;
         Text message;
+        Text clearMessage;
         boolean raiseBroken;
         boolean broken;
 
