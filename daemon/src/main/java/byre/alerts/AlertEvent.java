@@ -9,7 +9,7 @@ import java.util.List;
 import java.util.Map;
 
 /**
- * One event of an incident, in the shape of design section 6. {@code channels} names where it must go
+ * One event of an incident, in the documented event shape. {@code channels} names where it must go
  * (not part of the JSON); {@code by} is set only on {@code acknowledged}; {@code folded} lists the ids of
  * events a {@code summary} stands for. {@code value} is NaN when there is none (JSON null).
  */
@@ -27,12 +27,16 @@ public record AlertEvent(String id, String incident, EventKind kind, String site
                 folded, targets);
     }
 
-    /** The event JSON of design section 6 (field order as there); {@code by} and {@code folded} only when set. */
+    /**
+     * The event JSON (field order as documented); {@code by} and {@code folded} only when set. {@code value} is
+     * rounded to the decimals that carry meaning for its quantity ({@link EventText#decimals}), so a receiver sees
+     * {@code 83.7}, not {@code 83.70250000000001}.
+     */
     public String toJson() {
         JsonWriter w = new JsonWriter()
                 .field("id", id).field("incident", incident).field("event", kind.id()).field("site", site)
                 .field("watch", watch).field("zone", zone).field("level", level).field("quantity", quantity)
-                .field("value", value).field("unit", unit)
+                .field("value", EventText.rounded(quantity, value)).field("unit", unit)
                 .field("since", since == null ? null : since.toString())
                 .field("at", at == null ? null : at.toString())
                 .field("message", message);
@@ -76,7 +80,7 @@ public record AlertEvent(String id, String incident, EventKind kind, String site
         }
     }
 
-    /** A one-line headline for subjects and console lines: "RAISED heat-stress cows (warning)". */
+    /** A few words for mail subjects and summaries: "ALERT: heat-stress cows (warning)". */
     public String headline() {
         String what = switch (kind) {
             case RAISED -> "ALERT";

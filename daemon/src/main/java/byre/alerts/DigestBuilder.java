@@ -12,7 +12,7 @@ import java.util.List;
 import java.util.Locale;
 import java.util.Map;
 
-/** Renders the morning digest as short plain text, and says when the next one is due. Pure. */
+/** Renders the morning digest as short plain text (the {@code digest} event's text, see {@link EventText}), and says when the next one is due. Pure. */
 public final class DigestBuilder {
     private static final DateTimeFormatter HM = DateTimeFormatter.ofPattern("HH:mm", Locale.ROOT);
 
@@ -27,11 +27,11 @@ public final class DigestBuilder {
             for (Map.Entry<String, double[]> e : z.extremes().entrySet()) {
                 String unit = z.units().getOrDefault(e.getKey(), "");
                 String u = unit.isEmpty() ? "" : " " + unit;
-                sb.append("  ").append(e.getKey()).append(' ').append(num(e.getValue()[0])).append(u).append(" to ")
+                sb.append("  ").append(EventText.label(e.getKey())).append(' ').append(num(e.getValue()[0])).append(u).append(" to ")
                         .append(num(e.getValue()[1])).append(u).append('\n');
             }
             if (!z.thiCategories().isEmpty()) {
-                sb.append("  THI:");
+                sb.append("  THI bands:");
                 boolean first = true;
                 for (Map.Entry<String, Duration> c : z.thiCategories().entrySet()) {
                     if (c.getValue().isZero()) continue;
@@ -51,7 +51,7 @@ public final class DigestBuilder {
                 sb.append("  ").append(i.watch()).append(' ').append(i.zone()).append(" (").append(i.level()).append(") ")
                         .append(HM.format(i.start().atZone(zone)));
                 if (i.end() == null) sb.append(", still open");
-                else sb.append('-').append(HM.format(i.end().atZone(zone))).append(", ").append(IncidentBook.human(Duration.between(i.start(), i.end())));
+                else sb.append('-').append(HM.format(i.end().atZone(zone))).append(", ").append(EventText.duration(Duration.between(i.start(), i.end())));
                 sb.append('\n');
             }
         }
@@ -62,7 +62,7 @@ public final class DigestBuilder {
     /** The digest as an event (kind {@code digest}) addressed to {@code channels}. */
     public static AlertEvent event(String id, String site, NightDigest n, ZoneId zone, List<String> channels) {
         return new AlertEvent(id, null, EventKind.DIGEST, site, "digest", null, null, null, Double.NaN, null, n.from(), n.to(),
-                render(site, n, zone), null, List.of(), channels);
+                EventText.metric(site).digest(n, zone), null, List.of(), channels);
     }
 
     /**
@@ -78,8 +78,9 @@ public final class DigestBuilder {
         throw new IllegalStateException("no next digest time after " + after);
     }
 
+    /** One decimal, as in every alert text. */
     private static String num(double v) {
-        return JsonWriter.format(Math.round(v * 10) / 10.0);
+        return byre.rules.eval.MessageText.value(v, byre.units.Unit.NONE);
     }
 
     private static String hours(Duration d) {

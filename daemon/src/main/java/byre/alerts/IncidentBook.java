@@ -36,10 +36,26 @@ public final class IncidentBook {
     private final IdSource ids;
     private final Map<String, Incident> open = new LinkedHashMap<>();
     private List<String> selfAlertChannels = List.of();
+    private EventText text;
 
+    /** Texts in metric units without acknowledgement links. */
     public IncidentBook(String site, IdSource ids) {
+        this(site, ids, EventText.metric(site));
+    }
+
+    public IncidentBook(String site, IdSource ids, EventText text) {
         this.site = site;
         this.ids = ids;
+        this.text = text;
+    }
+
+    /** How events are worded from now on (e.g. with acknowledgement links); events already made keep their text. */
+    public synchronized void setText(EventText text) {
+        this.text = text;
+    }
+
+    public synchronized EventText text() {
+        return text;
     }
 
     /** Channels told about byre's own trouble (self-alerts); a failing channel is left out of its own alert. */
@@ -63,16 +79,13 @@ public final class IncidentBook {
             inc = new Incident(key, ids.incidentId(o.at()), o.watch(), o.zone(), o.level(), o.quantity(), o.value(), o.unit(),
                     o.since() == null ? o.at() : o.since(), o.at(), o.message(), policy);
             open.put(key, inc);
-            return List.of(tell(inc, EventKind.RAISED, o.at(), o.message(), null, policy.channels()));
+            return List.of(tell(inc, EventKind.RAISED, o.at(), text.raised(inc), null, policy.channels()));
         }
         if (inc == null) return List.of();
         inc.value = o.value();
         open.remove(key);
-        String text = "All clear: " + inc.watch + (inc.zone == null || inc.zone.isEmpty() ? "" : " in " + inc.zone)
-                + " after " + human(Duration.between(inc.since, o.at()))
-                + (Double.isFinite(o.value()) && inc.quantity != null ? "; " + inc.quantity + " now " + JsonWriter.format(round(o.value())) + unitSuffix(inc.unit) : "")
-                + ".";
-        return List.of(event(inc, EventKind.CLEARED, o.at(), text, null, new ArrayList<>(inc.told)));
+        String msg = text.cleared(inc, o.value(), o.message(), Duration.between(inc.raisedAt, o.at()));
+        return List.of(event(inc, EventKind.CLEARED, o.at(), msg, null, new ArrayList<>(inc.told)));
     }
 
     /** Reminders and escalations due at {@code now}; call it every few seconds (or on every rule tick). */
@@ -87,9 +100,8 @@ public final class IncidentBook {
                     && !now.isBefore(inc.raisedAt.plus(p.escalateAfter()))) {
                 inc.escalated = true;
                 Instant due = inc.raisedAt.plus(p.escalateAfter());
-                String text = "Escalated: nobody acknowledged for " + human(Duration.between(inc.raisedAt, due)) + ". "
-                        + nullToEmpty(inc.message) + " (ack " + inc.id + ")";
-                out.add(tell(inc, EventKind.ESCALATED, due, text, null, p.escalateTo()));
+                String msg = text.escalated(inc, Duration.between(inc.raisedAt, due));
+                out.add(tell(inc, EventKind.ESCALATED, due, msg, null, p.escalateTo()));
             }
             if (p.remindEvery() != null && !now.isBefore(inc.lastReminderAt.plus(p.remindEvery()))) {
                 Instant due = inc.lastReminderAt.plus(p.remindEvery());
@@ -98,9 +110,8 @@ public final class IncidentBook {
                 Instant at = inc.lastReminderAt;
                 List<String> to = new ArrayList<>(p.channels());
                 if (inc.escalated) for (String c : p.escalateTo()) if (!to.contains(c)) to.add(c);
-                String text = "Still active after " + human(Duration.between(inc.since, at)) + ": "
-                        + nullToEmpty(inc.message) + " (ack " + inc.id + ")";
-                out.add(tell(inc, EventKind.REMINDER, at, text, null, to));
+                String msg = text.reminder(inc, Duration.between(inc.raisedAt, at));
+                out.add(tell(inc, EventKind.REMINDER, at, msg, null, to));
             }
         }
         return out;
@@ -116,14 +127,15 @@ public final class IncidentBook {
         String id = incidentId.strip();
         for (Incident inc : open.values()) {
             if (!inc.id.equals(id)) continue;
+            Duration open = Duration.between(inc.raisedAt, now);
             if (inc.acknowledged()) {
-                return new AckResult(AckResult.Status.ALREADY, id, "already acknowledged by " + inc.ackBy + " at " + inc.ackAt, List.of());
+                return new AckResult(AckResult.Status.ALREADY, id, "already " + EventText.ackSentence(inc, open) + " (by " + inc.ackBy + ", "
+                        + EventText.duration(Duration.between(inc.ackAt, now)) + " ago)", List.of());
             }
             inc.ackBy = who;
             inc.ackAt = now;
-            String text = "Acknowledged by " + who + ": " + nullToEmpty(inc.message);
-            AlertEvent e = event(inc, EventKind.ACKNOWLEDGED, now, text, who, new ArrayList<>(inc.told));
-            return new AckResult(AckResult.Status.ACKNOWLEDGED, id, "acknowledged by " + who, List.of(e));
+            AlertEvent e = event(inc, EventKind.ACKNOWLEDGED, now, text.acknowledged(inc, who, open), who, new ArrayList<>(inc.told));
+            return new AckResult(AckResult.Status.ACKNOWLEDGED, id, EventText.ackSentence(inc, open), List.of(e));
         }
         return new AckResult(AckResult.Status.UNKNOWN, id, "no open incident '" + id + "'"
                 + (open.isEmpty() ? " (none is open)" : "; open: " + String.join(", ", open.values().stream().map(i -> i.id).toList())),
@@ -154,13 +166,12 @@ public final class IncidentBook {
             inc = new Incident(key, ids.incidentId(now), watch, SELF_ZONE, "critical", null, Double.NaN, null, now, now,
                     message, policy);
             open.put(key, inc);
-            return List.of(tell(inc, EventKind.RAISED, now, message, null, to));
+            return List.of(tell(inc, EventKind.RAISED, now, text.raised(inc), null, to));
         }
         if (inc == null) return List.of();
         open.remove(key);
-        String text = "All clear: " + (message == null || message.isBlank() ? watch + " " + subject : message)
-                + " (after " + human(Duration.between(inc.since, now)) + ")";
-        return List.of(event(inc, EventKind.CLEARED, now, text, null, new ArrayList<>(inc.told)));
+        String msg = text.cleared(inc, Double.NaN, message, Duration.between(inc.raisedAt, now));
+        return List.of(event(inc, EventKind.CLEARED, now, msg, null, new ArrayList<>(inc.told)));
     }
 
     /** The open incidents, oldest first. */
@@ -247,28 +258,9 @@ public final class IncidentBook {
         return watch + "/" + (zone == null ? "" : zone);
     }
 
-    /** "45m", "1h 20m", "2d 3h": how long, for people. */
+    /** "45 s", "42 min", "2 h 5 min": how long, for people (see {@link EventText#duration}). */
     public static String human(Duration d) {
-        long min = Math.max(0, d.toMinutes());
-        if (min < 1) return Math.max(0, d.getSeconds()) + "s";
-        long days = min / 1440;
-        long hours = (min % 1440) / 60;
-        long mins = min % 60;
-        if (days > 0) return days + "d" + (hours > 0 ? " " + hours + "h" : "");
-        if (hours > 0) return hours + "h" + (mins > 0 ? " " + mins + "m" : "");
-        return mins + "m";
-    }
-
-    private static double round(double v) {
-        return Math.round(v * 10.0) / 10.0;
-    }
-
-    private static String unitSuffix(String unit) {
-        return unit == null || unit.isEmpty() ? "" : " " + unit;
-    }
-
-    private static String nullToEmpty(String s) {
-        return s == null ? "" : s;
+        return EventText.duration(d);
     }
 
     private static String list(List<String> l) {

@@ -48,35 +48,56 @@ final class AckCommand implements Callable<Integer> {
     }
 
     static int post(URI uri, String token, String incident, String by) {
+        return post(uri, token, incident, by, System.out, System.err);
+    }
+
+    /**
+     * Posts the acknowledgement and prints one plain sentence: the daemon's own words on success
+     * ("acknowledged: heat-stress in cow-shed, open 42 min"), the reason on failure; never raw HTTP or JSON.
+     */
+    static int post(URI uri, String token, String incident, String by, java.io.PrintStream out, java.io.PrintStream err) {
         String body = new JsonWriter().field("incident", incident).field("by", by).toString();
         HttpRequest req = HttpRequest.newBuilder(uri).timeout(Duration.ofSeconds(10))
                 .header("Content-Type", "application/json").header("Authorization", "Bearer " + token)
                 .POST(HttpRequest.BodyPublishers.ofString(body)).build();
         try {
-            HttpResponse<String> r = HttpClient.newBuilder().connectTimeout(Duration.ofSeconds(5)).build()
-                    .send(req, HttpResponse.BodyHandlers.ofString());
-            String detail = r.body();
-            try {
-                if (Json.parse(r.body()) instanceof Map<?, ?> m && m.get("detail") != null) detail = m.get("detail").toString();
-            } catch (RuntimeException ignored) {
-                // not JSON: show it as it came
-            }
+            HttpResponse<String> r = HttpClient.newBuilder().version(HttpClient.Version.HTTP_1_1)
+                    .connectTimeout(Duration.ofSeconds(5)).build().send(req, HttpResponse.BodyHandlers.ofString());
+            String said = said(r.body());
             if (r.statusCode() == 200) {
-                System.out.println("incident " + incident + ": " + detail);
+                out.println(said != null ? said : "acknowledged: incident " + incident);
                 return Main.OK;
             }
-            System.err.println("byre: " + (r.statusCode() == 401 || r.statusCode() == 403 ? "the daemon refused the admin token" : "HTTP " + r.statusCode())
-                    + ": " + detail);
+            String why = switch (r.statusCode()) {
+                case 401, 403 -> "the daemon refused the admin token (see admin.token-file)";
+                case 404 -> said != null ? said : "no open incident '" + incident + "'";
+                default -> said != null ? said : "the daemon answered with status " + r.statusCode();
+            };
+            err.println("byre: " + why);
             return Main.FAILURE;
         } catch (ConnectException e) {
-            System.err.println("byre: no daemon answers at " + uri + " (is byre running?)");
+            err.println("byre: no daemon answers at " + uri + " (is byre running?)");
             return Main.FAILURE;
         } catch (IOException e) {
-            System.err.println("byre: asking the daemon at " + uri + " failed: " + e.getMessage());
+            err.println("byre: asking the daemon at " + uri + " failed: " + e.getMessage());
             return Main.FAILURE;
         } catch (InterruptedException e) {
             Thread.currentThread().interrupt();
             return Main.FAILURE;
         }
+    }
+
+    /** The sentence in the daemon's answer ({@code message}, or {@code error}), or null when there is none. */
+    private static String said(String body) {
+        try {
+            if (Json.parse(body) instanceof Map<?, ?> m) {
+                for (String key : new String[] {"message", "error", "detail"}) {
+                    if (m.get(key) instanceof String s && !s.isBlank()) return s;
+                }
+            }
+        } catch (RuntimeException ignored) {
+            // not JSON: no sentence to show
+        }
+        return null;
     }
 }

@@ -29,6 +29,7 @@ public final class Main implements Runnable {
     }
 
     public static void main(String[] args) {
+        LogTime.configure(); // before the first logger: the console pattern reads it
         byre.mqtt.PahoLog.install(); // the MQTT client logs into byre's log (also the demo's feed, which starts first)
         System.exit(execute(args));
     }

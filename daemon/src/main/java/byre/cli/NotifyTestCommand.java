@@ -2,6 +2,7 @@ package byre.cli;
 
 import byre.alerts.AlertEvent;
 import byre.alerts.EventKind;
+import byre.alerts.EventText;
 import byre.alerts.IdSource;
 import byre.config.ByreConfig;
 import byre.config.ChannelConfig;
@@ -43,9 +44,10 @@ final class NotifyTestCommand implements Callable<Integer> {
             return Main.USAGE;
         }
         Instant now = Instant.now();
-        AlertEvent test = new AlertEvent(IdSource.random().eventId(now), "test-" + now.getEpochSecond(), EventKind.TEST, cfg.site(),
+        String incident = "test-" + now.getEpochSecond();
+        AlertEvent test = new AlertEvent(IdSource.random().eventId(now), incident, EventKind.TEST, cfg.site(),
                 "notify-test", "byre", "info", null, Double.NaN, null, now, now,
-                "Test from byre at " + cfg.site() + ": if you can read this, channel " + channel + " works.", null, List.of(), List.of(channel));
+                EventText.metric(cfg.site()).test(channel, incident), null, List.of(), List.of(channel));
         DeliveryResult r;
         if ("mqtt".equals(cc.type())) {
             r = mqtt(cfg.mqtt(), cc.string("topic", ""), test.toJson());

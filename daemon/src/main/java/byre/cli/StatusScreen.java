@@ -1,6 +1,8 @@
 package byre.cli;
 
 import byre.admin.OpenAlert;
+import byre.alerts.AckLinks;
+import byre.alerts.EventText;
 import byre.climate.ThiScale;
 import byre.config.ByreConfig;
 import byre.units.Quantity;
@@ -43,6 +45,7 @@ final class StatusScreen {
 
     private String draw(ByreConfig cfg, StatusData data, Instant now) {
         boolean us = cfg.units() == ByreConfig.DisplayUnits.US;
+        EventText words = new EventText(cfg.site(), us, AckLinks.NONE);
         line(paint(BOLD, "byre status: " + cfg.site()) + ", " + ZonedDateTime.ofInstant(now, cfg.timezone()).format(WHEN)
                 + " (" + (us ? "US units" : "metric units") + ")");
         StatusData.Daemon d = data.daemon();
@@ -97,16 +100,13 @@ final class StatusScreen {
             for (OpenAlert a : data.alerts()) {
                 String level = a.level() == null ? "?" : a.level();
                 String lvl = paint(level.equals("critical") ? RED : level.equals("warning") ? YELLOW : "", String.format(Locale.ROOT, "%-8s", level));
-                String value = "";
-                Quantity q = a.quantity() == null ? null : Quantity.byId(a.quantity()).orElse(null);
-                if (q != null && !Double.isNaN(a.value())) {
-                    Unit u = CalcCommand.displayUnit(q, us);
-                    value = " " + q.id() + " " + number(u.fromCanonical(a.value()), q, u) + (u.symbol().isEmpty() ? "" : " " + u.symbol());
-                }
-                String since = a.since() == null ? "" : ", open " + age(Duration.between(a.since(), now));
+                // The value reads as in the alert's messages (the same wording, one decimal, the THI band).
+                String value = a.quantity() == null || Double.isNaN(a.value()) ? "" : " " + words.reading(a.quantity(), a.value()) + ",";
+                String since = a.since() == null ? "" : " open " + EventText.duration(Duration.between(a.since(), now));
                 String ack = a.acknowledgedBy() == null ? paint(BOLD, "not acknowledged")
                         : "acknowledged by " + a.acknowledgedBy() + (a.acknowledgedAt() == null ? "" : " " + age(Duration.between(a.acknowledgedAt(), now)) + " ago");
-                line("  " + lvl + " " + a.watch() + " in " + a.zone() + ":" + value + since + "; " + ack);
+                String incident = a.incident() == null ? "" : "; incident " + a.incident();
+                line(("  " + lvl + " " + a.watch() + " in " + a.zone() + ":" + value + since).replaceAll(",$", "") + "; " + ack + incident);
             }
         }
 

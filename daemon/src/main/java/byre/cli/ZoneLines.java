@@ -1,9 +1,11 @@
 package byre.cli;
 
-import byre.climate.ThiScale;
+import byre.alerts.EventText;
+import byre.climate.HeatIndex;
 import byre.config.ByreConfig;
 import byre.daemon.Pipeline;
 import byre.rules.ZoneReading;
+import byre.rules.eval.MessageText;
 import byre.units.Quantity;
 import byre.units.Unit;
 import java.io.PrintStream;
@@ -18,12 +20,15 @@ import java.util.Map;
 
 /**
  * One live line per zone on the console (the demo): the zone's current values in the site's units,
- * printed every {@code every} of (possibly simulated) time.
+ * printed every {@code every} of (possibly simulated) time; wind chill and heat index only when they add something.
  */
 final class ZoneLines implements Pipeline.ZoneListener {
     private static final Quantity[] SHOWN = {Quantity.DRY_BULB, Quantity.RH, Quantity.AIR_SPEED, Quantity.DEW_POINT,
             Quantity.WIND_CHILL, Quantity.HEAT_INDEX, Quantity.THI};
     private static final DateTimeFormatter CLOCK = DateTimeFormatter.ofPattern("EEE HH:mm", Locale.ROOT);
+
+    /** 80 F: below it the NWS heat index is the simple formula, close to the air temperature. */
+    static final double HEAT_INDEX_FROM_C = (HeatIndex.REGRESSION_FROM_F - 32.0) / 1.8;
 
     private final PrintStream out;
     private final Duration every;
@@ -62,12 +67,35 @@ final class ZoneLines implements Pipeline.ZoneListener {
         StringBuilder sb = new StringBuilder(String.format(Locale.ROOT, "%s  %-11s", time, zoneId));
         for (Quantity q : SHOWN) {
             Double v = values.get(q);
-            if (v == null) continue;
+            if (v == null || !matters(q, v, values)) continue;
             Unit u = displayUnit(q);
-            sb.append(String.format(Locale.ROOT, "  %s %.1f%s", label(q), u.fromCanonical(v), u.symbol().isEmpty() ? "" : " " + u.symbol()));
-            if (q == Quantity.THI) sb.append(" (").append(ThiScale.LWSI.category(v)).append(')');
+            sb.append(String.format(Locale.ROOT, "  %s %s%s", label(q), shown(v, u), u.symbol().isEmpty() ? "" : " " + u.symbol()));
+            // the band in the words of the alert messages ("THI 76.3, alert band"), never a bare "(alert)"
+            String band = EventText.band(q, v);
+            if (band != null) sb.append(", ").append(band);
         }
         return sb.toString();
+    }
+
+    /**
+     * Whether a value says something at this moment: wind chill only when it differs from the air temperature
+     * as shown (NWS wind chill equals the air temperature outside its range: above 10 C or in calm air), the
+     * heat index only from 80 F (26.7 C) air temperature, where the NWS heat index starts to apply (Rothfusz 1990).
+     */
+    private boolean matters(Quantity q, double v, Map<Quantity, Double> values) {
+        Double air = values.get(Quantity.DRY_BULB);
+        switch (q) {
+            case WIND_CHILL:
+                return air == null || !shown(v, displayUnit(q)).equals(shown(air, displayUnit(Quantity.DRY_BULB)));
+            case HEAT_INDEX:
+                return (air != null ? air : v) >= HEAT_INDEX_FROM_C;
+            default:
+                return true;
+        }
+    }
+
+    private static String shown(double canonical, Unit u) {
+        return MessageText.value(canonical, u);
     }
 
     private Unit displayUnit(Quantity q) {

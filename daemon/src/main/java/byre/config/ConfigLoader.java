@@ -430,6 +430,11 @@ public final class ConfigLoader {
             String u = string(raw.get("url"), name + ".url", "");
             if (!u.startsWith("http://") && !u.startsWith("https://")) problem(raw.get("url"), name + ".url must start with https:// or http://, not '" + u + "'");
         }
+        if ("webhook".equals(type) && raw.get("template") != null) {
+            for (String p : byre.notify.Template.unknown(string(raw.get("template"), name + ".template", ""))) {
+                problem(raw.get("template"), name + ".template: " + p);
+            }
+        }
         if ("command".equals(type) && raw.get("argv") != null && !(raw.get("argv") instanceof SequenceNode)) {
             problem(raw.get("argv"), name + ".argv must be a list such as [/usr/local/bin/send-sms, \"+440000000000\"] (no shell is used)");
         }

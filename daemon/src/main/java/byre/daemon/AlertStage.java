@@ -2,6 +2,7 @@ package byre.daemon;
 
 import byre.alerts.AlertEvent;
 import byre.alerts.AlertPolicy;
+import byre.alerts.EventKind;
 import byre.alerts.NightDigest;
 import byre.alerts.WatchOutcome;
 import byre.mqtt.MqttLink;
@@ -49,17 +50,19 @@ final class AlertStage implements WatchStage.Outcomes {
         this.base = prefix + "/" + site + "/alerts/";
         this.zone = zone;
         this.console = console;
+        alerts.onEvent(this::told);
+    }
+
+    /** The log and the console show each event's message: the very text its channels get. */
+    private void told(AlertEvent e) {
+        String text = e.message() == null ? e.headline() : e.message();
+        if (e.kind() == EventKind.RAISED || e.kind() == EventKind.ESCALATED) LOG.warn("{}", text);
+        else LOG.info("{}", text);
+        if (console != null && e.at() != null) console.accept(CLOCK.format(e.at().atZone(zone)) + "  " + text);
     }
 
     @Override
     public void transition(Transition t, Watch watch) {
-        String line = t.kind().event() + " " + t.level().id() + " " + t.watch() + " " + t.zone() + ": " + t.message();
-        if (t.kind() == Transition.Kind.RAISED) {
-            LOG.warn(line);
-        } else {
-            LOG.info(line);
-        }
-        if (console != null) console.accept(CLOCK.format(t.at().atZone(zone)) + "  ALERT " + line);
         remember(t);
         AlertPolicy policy = watch == null ? new AlertPolicy(List.of(), null, null, List.of())
                 : new AlertPolicy(watch.notifyChannels(), watch.remindEvery().orElse(null), watch.escalateAfter().orElse(null),

@@ -40,6 +40,7 @@ public final class AlertService implements AckService, AutoCloseable {
     private volatile String lastSaved = "";
     /** A channel that gets every event whatever its watch names (the site's event stream), or null. */
     private volatile String everyEventTo;
+    private final List<java.util.function.Consumer<AlertEvent>> listeners = new java.util.concurrent.CopyOnWriteArrayList<>();
     private Digest digest;
     private Instant nextDigest;
 
@@ -166,6 +167,19 @@ public final class AlertService implements AckService, AutoCloseable {
         everyEventTo = channel;
     }
 
+    /**
+     * Tells {@code listener} every event once it is committed (the log and the demo console show the event's
+     * message, the same text the channels get). Called on the thread that made the event; must not block.
+     */
+    public void onEvent(java.util.function.Consumer<AlertEvent> listener) {
+        listeners.add(listener);
+    }
+
+    /** From now on messages carry the acknowledgement link of each incident (the barn page's signed links). */
+    public void useAckLinks(byre.alerts.AckLinks links) {
+        book.setText(book.text().withLinks(links));
+    }
+
     /** Commits events to the outbox, saves the incident state and wakes the dispatcher. */
     void send(List<AlertEvent> events) {
         saveState();
@@ -178,6 +192,22 @@ public final class AlertService implements AckService, AutoCloseable {
                 return e.to(to);
             }).toList();
         }
+        try {
+            enqueue(events);
+        } finally {
+            for (AlertEvent e : events) {
+                for (java.util.function.Consumer<AlertEvent> l : listeners) {
+                    try {
+                        l.accept(e);
+                    } catch (RuntimeException ex) {
+                        LOG.warn("alert listener failed on {}: {}", e.id(), ex.toString());
+                    }
+                }
+            }
+        }
+    }
+
+    private void enqueue(List<AlertEvent> events) {
         try {
             outbox.enqueue(events, clock.instant());
         } catch (SQLException | RuntimeException e) {

@@ -1,5 +1,7 @@
 package byre.notify;
 
+import byre.alerts.AckLinks;
+import byre.alerts.EventText;
 import byre.alerts.IdSource;
 import byre.alerts.IncidentBook;
 import byre.config.AlertSettings;
@@ -57,6 +59,7 @@ public final class AlertServices {
                 prefix -> store.loadState(prefix), clock, new SecureRandom(), IdSource.random(), registry,
                 a.selfAlertNotify(), a.channelFailingAfter(), base + "/ack");
         if (eventsChannel != null) service.sendEveryEventTo(eventsChannel);
+        service.book().setText(new EventText(config.site(), config.units() == ByreConfig.DisplayUnits.US, AckLinks.NONE));
         return service;
     }
 

@@ -2,6 +2,7 @@ package byre.notify;
 
 import byre.alerts.AlertEvent;
 import byre.alerts.EventKind;
+import byre.alerts.EventText;
 import byre.alerts.IdSource;
 import java.sql.SQLException;
 import java.time.Clock;
@@ -152,7 +153,7 @@ public final class Dispatcher implements AutoCloseable {
             int free = policy.perTenMinutes() - window.size();
             if (free <= 0) return window.get(window.size() - 1).plus(RATE_WINDOW);
             if (free == 1 && rows.size() > 1 && !EventKind.SUMMARY.id().equals(head.kind())) {
-                outbox.fold(name, rows, summary(rows, now), now);
+                outbox.fold(name, rows, summary(name, rows, now), now);
                 metrics.folded(name, rows.size());
                 LOG.warn("notify {}: rate limit of {} per 10 min reached; {} events folded into one summary", name,
                         policy.perTenMinutes(), rows.size());
@@ -191,27 +192,22 @@ public final class Dispatcher implements AutoCloseable {
         return Duration.ofMillis(Math.min(MAX_RETRY.toMillis(), Math.round(base * jitter)));
     }
 
-    private AlertEvent summary(List<Outbox.Row> rows, Instant now) {
+    private AlertEvent summary(String channel, List<Outbox.Row> rows, Instant now) {
         List<String> ids = new ArrayList<>();
-        StringBuilder sb = new StringBuilder();
-        sb.append(rows.size()).append(" more alerts held back: ");
-        int listed = 0;
+        List<AlertEvent> listed = new ArrayList<>();
         for (Outbox.Row r : rows) {
             ids.add(r.eventId());
-            if (listed < 12) {
+            if (listed.size() < 12) {
                 try {
-                    AlertEvent e = AlertEvent.fromJson(r.body());
-                    if (listed > 0) sb.append("; ");
-                    sb.append(e.headline());
-                    listed++;
+                    listed.add(AlertEvent.fromJson(r.body()));
                 } catch (RuntimeException ignored) {
                     // a row we cannot read is still counted
                 }
             }
         }
-        if (rows.size() > listed) sb.append("; and ").append(rows.size() - listed).append(" more");
+        String text = EventText.metric(site).summary(channel, listed, rows.size());
         return new AlertEvent(this.ids.eventId(now), null, EventKind.SUMMARY, site, null, null, null, null, Double.NaN, null,
-                rows.get(0).created(), now, sb.toString(), null, ids, List.of());
+                rows.get(0).created(), now, text, null, ids, List.of());
     }
 
     private void dropUnknownChannels() {

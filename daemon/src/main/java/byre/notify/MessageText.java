@@ -1,14 +1,12 @@
 package byre.notify;
 
 import byre.alerts.AlertEvent;
-import byre.alerts.EventKind;
-import byre.json.JsonWriter;
 import java.time.Instant;
 import java.time.ZoneId;
 import java.time.format.DateTimeFormatter;
 import java.util.Locale;
 
-/** Human text for an event: a subject line and a short plain body that reads well on a phone. */
+/** Mail text for an event: a subject line and the event's message as the body. */
 public final class MessageText {
     private static final DateTimeFormatter CLOCK = DateTimeFormatter.ofPattern("EEE d MMM HH:mm z", Locale.ROOT);
 
@@ -22,23 +20,14 @@ public final class MessageText {
         return "[byre " + e.site() + "] " + e.headline();
     }
 
+    /**
+     * The event's message, the same text every other channel carries (made by {@link byre.alerts.EventText}),
+     * then the event's time on the farm's clock.
+     */
     public String body(AlertEvent e) {
         StringBuilder sb = new StringBuilder();
-        sb.append(e.headline()).append('\n');
-        if (e.message() != null && !e.message().isBlank()) sb.append(e.message()).append('\n');
-        sb.append('\n');
-        if (e.quantity() != null && Double.isFinite(e.value())) {
-            sb.append(e.quantity()).append(": ").append(JsonWriter.format(Math.round(e.value() * 10) / 10.0));
-            if (e.unit() != null && !e.unit().isEmpty()) sb.append(' ').append(e.unit());
-            sb.append('\n');
-        }
-        if (e.since() != null && e.kind() != EventKind.TEST) sb.append("Since: ").append(time(e.since())).append('\n');
-        if (e.at() != null) sb.append("At: ").append(time(e.at())).append('\n');
-        if (e.by() != null) sb.append("By: ").append(e.by()).append('\n');
-        if (e.incident() != null && (e.kind() == EventKind.RAISED || e.kind() == EventKind.REMINDER || e.kind() == EventKind.ESCALATED)) {
-            sb.append("Acknowledge: byre ack ").append(e.incident()).append('\n');
-        }
-        sb.append("Site: ").append(e.site()).append('\n');
+        if (e.message() != null && !e.message().isBlank()) sb.append(e.message().strip()).append('\n');
+        if (e.at() != null) sb.append('\n').append("Farm time: ").append(time(e.at())).append('\n');
         return sb.toString();
     }
 

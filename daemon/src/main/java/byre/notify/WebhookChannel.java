@@ -38,7 +38,10 @@ public final class WebhookChannel implements Channel {
         this.headers = Map.copyOf(headers);
         this.secret = secret;
         this.timeout = timeout;
-        this.client = HttpClient.newBuilder().connectTimeout(timeout).followRedirects(HttpClient.Redirect.NEVER).build();
+        // HTTP/1.1: the JDK's default (HTTP/2) asks a plain-http server to upgrade with "Upgrade: h2c", which some
+        // proxies and small servers reject; one short POST gains nothing from HTTP/2.
+        this.client = HttpClient.newBuilder().version(HttpClient.Version.HTTP_1_1).connectTimeout(timeout)
+                .followRedirects(HttpClient.Redirect.NEVER).build();
     }
 
     @Override

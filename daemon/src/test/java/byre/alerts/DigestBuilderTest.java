@@ -33,11 +33,11 @@ class DigestBuilderTest {
 
                 calf-pen-1
                   wind-chill 1.8 C to 6.2 C
-                  thi 44 to 51.3
-                  THI: normal 12 h
+                  THI 44.0 to 51.3
+                  THI bands: normal 12 h
 
                 Alerts (2):
-                  calf-chill calf-pen-1 (critical) 02:10-04:35, 2h 25m
+                  calf-chill calf-pen-1 (critical) 02:10-04:35, 2 h 25 min
                   quiet-sensor cow-shed (warning) 06:00, still open
                 Silent sensors: shed-rh
                 """, DigestBuilder.render("larkmoor", n, LONDON));

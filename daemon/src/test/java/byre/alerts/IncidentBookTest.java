@@ -77,8 +77,9 @@ class IncidentBookTest {
         List<AlertEvent> c = b.accept(cleared(T0.plus(Duration.ofHours(10))));
         assertEquals("cleared->night-phone", brief(c));
         assertEquals("i1", c.get(0).incident());
-        // since 13:05, cleared at 23:35: 10 h 30 m
-        assertEquals("All clear: heat-stress in cows after 10h 30m; thi now 69.8.", c.get(0).message());
+        // raised 13:35, cleared 23:35: open 10 h; the all-clear does not repeat "Check fans and water."
+        assertEquals("All clear at larkmoor, cows: heat-stress ended after 10 h; THI now 69.8, normal band. Incident i1.", c.get(0).message());
+        assertEquals("acknowledged: heat-stress in cows, open 10 min", ack.detail(), "the sentence byre ack prints");
     }
 
     @Test
@@ -134,7 +135,8 @@ class IncidentBookTest {
         assertEquals("{\"id\":\"e1\",\"incident\":\"i1\",\"event\":\"raised\",\"site\":\"larkmoor\",\"watch\":\"heat-stress\","
                 + "\"zone\":\"cows\",\"level\":\"warning\",\"quantity\":\"thi\",\"value\":73.4,\"unit\":\"\","
                 + "\"since\":\"2026-07-14T13:05:00Z\",\"at\":\"2026-07-14T13:35:00Z\","
-                + "\"message\":\"Heat stress in cows: THI 73.4. Check fans and water.\"}", json);
+                + "\"message\":\"ALERT at larkmoor, cows: heat-stress (warning), THI 73.4, normal band. Heat stress in cows: THI 73.4."
+                + " Check fans and water. Incident i1; acknowledge: byre ack i1.\"}", json);
         AlertEvent back = AlertEvent.fromJson(json);
         assertEquals(json, back.toJson());
         AlertEvent ack = b.acknowledge("i1", "Dana", T0).events().get(0);

@@ -61,6 +61,7 @@ class AlertConfigTest {
             tls word          | notify:\\n  x: { type: email, smtp: "h:25", from: a@b, to: c@d, tls: startls } | byre.yaml:5: x.tls must be starttls, implicit or none, not 'startls' (did you mean 'starttls'?)
             argv not a list   | notify:\\n  x: { type: command, argv: "/bin/send sms" } | byre.yaml:5: x.argv must be a list such as [/usr/local/bin/send-sms, "+440000000000"] (no shell is used)
             webhook url       | notify:\\n  x: { type: webhook, url: "push.larkmoor.test" } | byre.yaml:5: x.url must start with https:// or http://, not 'push.larkmoor.test'
+            template typo     | notify:\\n  x: { type: webhook, url: "https://h.test/", template: "{message} {incdent}" } | byre.yaml:5: x.template: unknown placeholder '{incdent}' (did you mean '{incident}'?); placeholders are {id} {incident} {event} {site} {watch} {zone} {level} {quantity} {value} {unit} {since} {at} {message} {by}
             """)
     void problemsNameFileAndLine(String name, String yaml, String expected) {
         // a second notify: would be a duplicate key, so channel snippets join the first section (line 5 either way)
@@ -73,5 +74,11 @@ class AlertConfigTest {
             List<String> got = e.problems().stream().map(Object::toString).toList();
             assertTrue(got.stream().anyMatch(p -> p.startsWith(expected)), () -> "expected " + expected + "\n got " + got);
         }
+    }
+
+    @Test
+    void aTemplateWithKnownPlaceholdersAndJsonBracesIsAccepted() throws Exception {
+        ByreConfig c = parse(CHANNELS.replace("rate-limit: 6,", "rate-limit: 6, template: '{\"text\":\"{message}\",\"id\":\"{incident}\"}',"));
+        assertTrue(c.channels().get("night-phone").fields().containsKey("template"));
     }
 }

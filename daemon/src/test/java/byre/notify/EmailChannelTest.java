@@ -123,9 +123,10 @@ class EmailChannelTest {
         assertTrue(mail.contains("Heat stress in cows: THI 73.4.\n"), mail);
         // dot-stuffing (RFC 5321 4.5.2): a line starting with '.' travels as '..'
         assertTrue(mail.contains("\n..Check fans\n"), mail);
-        // 13:05 UTC is 14:05 in London in July (BST, UTC+1)
-        assertTrue(mail.contains("Since: Tue 14 Jul 14:05 BST\n"), mail);
-        assertTrue(mail.contains("Acknowledge: byre ack i1\n"), mail);
+        // the body is the event's message, as on every other channel, then the farm's time:
+        // 13:35 UTC is 14:35 in London in July (BST, UTC+1)
+        assertTrue(mail.contains("\nFarm time: Tue 14 Jul 14:35 BST\n"), mail);
+        assertTrue(!mail.contains("Since:"), mail);
     }
 
     @Test

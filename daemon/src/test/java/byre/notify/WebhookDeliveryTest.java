@@ -106,6 +106,29 @@ class WebhookDeliveryTest {
     }
 
     @Test
+    void postsOverPlainHttp11WithoutAnH2cUpgrade() throws Exception {
+        service = service(receiver.url(), Duration.ofSeconds(2));
+        service.accept(raise("cows"));
+        service.runOnce();
+        Receiver.Request r = receiver.requests().get(0);
+        // The JDK client's default (HTTP/2) sends "Connection: Upgrade, HTTP2-Settings" and "Upgrade: h2c" on plain http.
+        assertEquals(null, r.header("Upgrade"), r.headers().toString());
+        assertEquals(null, r.header("HTTP2-Settings"), r.headers().toString());
+    }
+
+    @Test
+    void theValueIsRoundedToItsMeaningfulDecimalsAndTheMessageIsTheEventText() throws Exception {
+        service = service(receiver.url(), Duration.ofSeconds(2));
+        service.accept(new WatchOutcome(WatchOutcome.Kind.RAISED, "heat-danger", "cow-shed", "critical", "thi", 83.70250000000001, "",
+                T0, T0, "Cool the cows now.", AlertPolicy.notifyOnly(List.of("night-phone"))));
+        service.runOnce();
+        String body = receiver.requests().get(0).body();
+        assertTrue(body.contains("\"value\":83.7,"), body);
+        assertEquals("ALERT at larkmoor, cow-shed: heat-danger (critical), THI 83.7, danger band. Cool the cows now."
+                + " Incident i1; acknowledge: byre ack i1.", ((Map<?, ?>) Json.parse(body)).get("message"));
+    }
+
+    @Test
     void retriesAfterHttp500WithBackoffAndReportsStatusAndBody() throws Exception {
         service = service(receiver.url(), Duration.ofSeconds(2));
         receiver.status.set(500);

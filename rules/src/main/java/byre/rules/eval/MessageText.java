@@ -1,6 +1,8 @@
 package byre.rules.eval;
 
 import byre.rules.Watch;
+import byre.units.Dimension;
+import byre.units.Quantity;
 import byre.units.Unit;
 import java.util.Locale;
 import java.util.regex.Matcher;
@@ -17,6 +19,13 @@ public final class MessageText {
         if (Double.isNaN(canonical)) return "n/a";
         String s = String.format(Locale.ROOT, "%.1f", display.fromCanonical(canonical));
         return s.equals("-0.0") ? "0.0" : s;
+    }
+
+    /** The unit values are shown in: the canonical one, or with {@code us} F for temperatures and mph for speeds. */
+    public static Unit displayUnit(Quantity q, boolean us) {
+        if (us && q.dimension() == Dimension.TEMPERATURE) return Unit.F;
+        if (us && q.dimension() == Dimension.SPEED) return Unit.MPH;
+        return q.canonicalUnit();
     }
 
     static String render(String template, Watch w, String zone, Unit display, double value, String site, String since) {

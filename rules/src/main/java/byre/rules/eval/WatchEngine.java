@@ -3,7 +3,6 @@ package byre.rules.eval;
 import byre.rules.RuleSet;
 import byre.rules.Watch;
 import byre.rules.ZoneReading;
-import byre.units.Dimension;
 import byre.units.Quantity;
 import byre.units.Unit;
 import java.time.Duration;
@@ -275,9 +274,7 @@ public final class WatchEngine {
     }
 
     private Unit displayUnit(Quantity q) {
-        if (usUnits && q.dimension() == Dimension.TEMPERATURE) return Unit.F;
-        if (usUnits && q.dimension() == Dimension.SPEED) return Unit.MPH;
-        return q.canonicalUnit();
+        return MessageText.displayUnit(q, usUnits);
     }
 
     // ---- persistence without I/O ----
