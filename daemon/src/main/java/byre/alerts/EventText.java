@@ -19,7 +19,8 @@ import java.util.Optional;
  * and, for THI, its band of the Livestock Weather Safety Index ("THI 83.7, danger band"), then the watch's own
  * advice. Reminders and escalations say how long the alert has been open and that nobody acknowledged it. An
  * all-clear never repeats the raise's advice: it gives the watch's {@code clear message}, or says what ended,
- * after how long, and the value now. Every text ends with the incident id and, when {@link AckLinks} has one,
+ * after how long, and the value now. Durations count from the episode's start (the event's {@code since}, as
+ * {@code byre status} shows it). Every text ends with the incident id and, when {@link AckLinks} has one,
  * the link that acknowledges it.
  */
 public final class EventText {

@@ -84,7 +84,7 @@ public final class IncidentBook {
         if (inc == null) return List.of();
         inc.value = o.value();
         open.remove(key);
-        String msg = text.cleared(inc, o.value(), o.message(), Duration.between(inc.raisedAt, o.at()));
+        String msg = text.cleared(inc, o.value(), o.message(), Duration.between(inc.since, o.at()));
         return List.of(event(inc, EventKind.CLEARED, o.at(), msg, null, new ArrayList<>(inc.told)));
     }
 
@@ -100,7 +100,7 @@ public final class IncidentBook {
                     && !now.isBefore(inc.raisedAt.plus(p.escalateAfter()))) {
                 inc.escalated = true;
                 Instant due = inc.raisedAt.plus(p.escalateAfter());
-                String msg = text.escalated(inc, Duration.between(inc.raisedAt, due));
+                String msg = text.escalated(inc, Duration.between(inc.since, due));
                 out.add(tell(inc, EventKind.ESCALATED, due, msg, null, p.escalateTo()));
             }
             if (p.remindEvery() != null && !now.isBefore(inc.lastReminderAt.plus(p.remindEvery()))) {
@@ -110,7 +110,7 @@ public final class IncidentBook {
                 Instant at = inc.lastReminderAt;
                 List<String> to = new ArrayList<>(p.channels());
                 if (inc.escalated) for (String c : p.escalateTo()) if (!to.contains(c)) to.add(c);
-                String msg = text.reminder(inc, Duration.between(inc.raisedAt, at));
+                String msg = text.reminder(inc, Duration.between(inc.since, at));
                 out.add(tell(inc, EventKind.REMINDER, at, msg, null, to));
             }
         }
@@ -127,7 +127,7 @@ public final class IncidentBook {
         String id = incidentId.strip();
         for (Incident inc : open.values()) {
             if (!inc.id.equals(id)) continue;
-            Duration open = Duration.between(inc.raisedAt, now);
+            Duration open = Duration.between(inc.since, now);
             if (inc.acknowledged()) {
                 return new AckResult(AckResult.Status.ALREADY, id, "already " + EventText.ackSentence(inc, open) + " (by " + inc.ackBy + ", "
                         + EventText.duration(Duration.between(inc.ackAt, now)) + " ago)", List.of());
@@ -170,7 +170,7 @@ public final class IncidentBook {
         }
         if (inc == null) return List.of();
         open.remove(key);
-        String msg = text.cleared(inc, Double.NaN, message, Duration.between(inc.raisedAt, now));
+        String msg = text.cleared(inc, Double.NaN, message, Duration.between(inc.since, now));
         return List.of(event(inc, EventKind.CLEARED, now, msg, null, new ArrayList<>(inc.told)));
     }
 

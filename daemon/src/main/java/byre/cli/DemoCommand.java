@@ -39,14 +39,14 @@ final class DemoCommand implements Callable<Integer> {
             description = "Real time to run, e.g. 60s or 10m (default ${DEFAULT-VALUE}); Ctrl-C stops it sooner.")
     String duration;
 
-    @Option(names = "--speed", paramLabel = "N", defaultValue = "120",
-            description = "Simulated seconds per real second (default ${DEFAULT-VALUE}: one simulated day in 12 minutes).")
-    double speed;
+    @Option(names = "--speed", paramLabel = "N",
+            description = "Simulated seconds per real second (default: the whole simulated day within --duration).")
+    Double speed;
 
     @Option(names = "--seed", defaultValue = "1", description = "Seed of the simulated farm (default ${DEFAULT-VALUE}).")
     long seed;
 
-    @Option(names = "--every", paramLabel = "D", defaultValue = "30m",
+    @Option(names = "--every", paramLabel = "D", defaultValue = "1h",
             description = "Simulated time between zone lines (default ${DEFAULT-VALUE}).")
     String every;
 
@@ -54,6 +54,7 @@ final class DemoCommand implements Callable<Integer> {
     public Integer call() throws Exception {
         Duration realDuration = Durations.parse(duration).orElse(null);
         Duration lineEvery = Durations.parse(every).orElse(null);
+        double speed = realDuration == null ? 0 : this.speed != null ? this.speed : wholeDaySpeed(realDuration);
         if (realDuration == null || lineEvery == null || !(speed > 0) || speed > 100_000) {
             System.err.println("byre demo: --duration and --every take durations like 60s or 10m, --speed a number from 1 to 100000");
             return Main.USAGE;
@@ -141,6 +142,20 @@ final class DemoCommand implements Callable<Integer> {
                 // Ctrl-C: the JVM is already stopping, which is what we want
             }
         }
+    }
+
+    /** Simulated time the demo covers by default: one Larkmoor day, from noon to noon. */
+    static final Duration SIMULATED_DAY = Duration.ofHours(24);
+    /** Real time the start-up takes before the simulated clock runs (the broker, the daemon, the first connection). */
+    static final Duration START_UP = Duration.ofSeconds(3);
+
+    /**
+     * The speed that fits the whole simulated day into {@code realDuration} after start-up, so that even
+     * {@code --duration 60s} shows the afternoon heat, the silent sensor and the cold night with their alerts.
+     */
+    static double wholeDaySpeed(Duration realDuration) {
+        long ms = Math.max(1000, realDuration.minus(START_UP).toMillis());
+        return Math.ceil(SIMULATED_DAY.toMillis() / (double) ms);
     }
 
     private static void copyRules(Path dir) throws IOException {

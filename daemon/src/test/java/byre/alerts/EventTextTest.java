@@ -55,15 +55,15 @@ class EventTextTest {
                 // THI 83.7 is in the LWSI danger band, 79 to 83 (LCI 1970, as given by Harrington and Bowles 2002)
                 "raised: ALERT at larkmoor, cow-shed: heat-danger (critical), THI 83.7, danger band. THI danger in cow-shed: 83.7."
                         + " Cool the cows now. Incident i1; acknowledge: byre ack i1.",
-                "escalated: ESCALATED at larkmoor, cow-shed: heat-danger (critical) open 45 min, not acknowledged;"
+                "escalated: ESCALATED at larkmoor, cow-shed: heat-danger (critical) open 1 h 5 min, not acknowledged;"
                         + " THI 83.7, danger band when raised. THI danger in cow-shed: 83.7. Cool the cows now. Incident i1; acknowledge: byre ack i1.",
-                "reminder: Reminder at larkmoor, cow-shed: heat-danger (critical) open 1 h, not acknowledged;"
+                "reminder: Reminder at larkmoor, cow-shed: heat-danger (critical) open 1 h 20 min, not acknowledged;"
                         + " THI 83.7, danger band when raised. THI danger in cow-shed: 83.7. Cool the cows now. Incident i1; acknowledge: byre ack i1.",
-                "acknowledged: Acknowledged by Dana at larkmoor, cow-shed: heat-danger (critical), open 2 h 10 min;"
+                "acknowledged: Acknowledged by Dana at larkmoor, cow-shed: heat-danger (critical), open 2 h 30 min;"
                         + " no more reminders or escalation. Incident i1.",
-                "ack sentence: acknowledged: heat-danger in cow-shed, open 2 h 10 min",
+                "ack sentence: acknowledged: heat-danger in cow-shed, open 2 h 30 min",
                 // 76.9 is in the LWSI alert band, 75 to 78
-                "cleared: All clear at larkmoor, cow-shed: heat-danger ended after 3 h 5 min; THI now 76.9, alert band. Incident i1."),
+                "cleared: All clear at larkmoor, cow-shed: heat-danger ended after 3 h 25 min; THI now 76.9, alert band. Incident i1."),
                 texts);
     }
 
@@ -76,13 +76,13 @@ class EventTextTest {
         assertEquals(List.of(
                 "raised: ALERT at larkmoor, calf-pen-2: calf-cold (warning), dry-bulb 8.0 C. Calves in calf-pen-2 are below their lower"
                         + " critical temperature. Check bedding and jackets. Incident i1; acknowledge: byre ack i1.",
-                "escalated: ESCALATED at larkmoor, calf-pen-2: calf-cold (warning) open 30 min, not acknowledged; dry-bulb 8.0 C when raised."
+                "escalated: ESCALATED at larkmoor, calf-pen-2: calf-cold (warning) open 1 h, not acknowledged; dry-bulb 8.0 C when raised."
                         + " Calves in calf-pen-2 are below their lower critical temperature. Check bedding and jackets. Incident i1; acknowledge: byre ack i1.",
-                "reminder: Reminder at larkmoor, calf-pen-2: calf-cold (warning) open 2 h, not acknowledged; dry-bulb 8.0 C when raised."
+                "reminder: Reminder at larkmoor, calf-pen-2: calf-cold (warning) open 2 h 30 min, not acknowledged; dry-bulb 8.0 C when raised."
                         + " Calves in calf-pen-2 are below their lower critical temperature. Check bedding and jackets. Incident i1; acknowledge: byre ack i1.",
-                "acknowledged: Acknowledged by Dana at larkmoor, calf-pen-2: calf-cold (warning), open 2 h 10 min; no more reminders or escalation. Incident i1.",
-                "ack sentence: acknowledged: calf-cold in calf-pen-2, open 2 h 10 min",
-                "cleared: All clear at larkmoor, calf-pen-2 (calf-cold, 3 h 20 min): calf-pen-2 is back to 12.3 C; jackets can come off. Incident i1."),
+                "acknowledged: Acknowledged by Dana at larkmoor, calf-pen-2: calf-cold (warning), open 2 h 40 min; no more reminders or escalation. Incident i1.",
+                "ack sentence: acknowledged: calf-cold in calf-pen-2, open 2 h 40 min",
+                "cleared: All clear at larkmoor, calf-pen-2 (calf-cold, 3 h 50 min): calf-pen-2 is back to 12.3 C; jackets can come off. Incident i1."),
                 texts);
     }
 
@@ -94,7 +94,7 @@ class EventTextTest {
         assertEquals("ALERT at larkmoor, calf-pen-2: calf-cold (warning), dry-bulb 46.5 F. Incident i1;"
                 + " acknowledge: https://barn.larkmoor.test/a/i1/1784040000/5f2c", b.accept(cold(WatchOutcome.Kind.RAISED, T0, 8.04, "")).get(0).message());
         // the all-clear carries the id only: there is nothing left to acknowledge
-        assertEquals("All clear at larkmoor, calf-pen-2: calf-cold ended after 40 min; dry-bulb now 54.1 F. Incident i1.",
+        assertEquals("All clear at larkmoor, calf-pen-2: calf-cold ended after 1 h 10 min; dry-bulb now 54.1 F. Incident i1.",
                 b.accept(cold(WatchOutcome.Kind.CLEARED, T0.plus(Duration.ofMinutes(40)), 12.3, "")).get(0).message());
     }
 

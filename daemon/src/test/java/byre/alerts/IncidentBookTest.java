@@ -77,9 +77,9 @@ class IncidentBookTest {
         List<AlertEvent> c = b.accept(cleared(T0.plus(Duration.ofHours(10))));
         assertEquals("cleared->night-phone", brief(c));
         assertEquals("i1", c.get(0).incident());
-        // raised 13:35, cleared 23:35: open 10 h; the all-clear does not repeat "Check fans and water."
-        assertEquals("All clear at larkmoor, cows: heat-stress ended after 10 h; THI now 69.8, normal band. Incident i1.", c.get(0).message());
-        assertEquals("acknowledged: heat-stress in cows, open 10 min", ack.detail(), "the sentence byre ack prints");
+        // since 13:05, cleared 23:35: 10 h 30 min; the all-clear does not repeat "Check fans and water."
+        assertEquals("All clear at larkmoor, cows: heat-stress ended after 10 h 30 min; THI now 69.8, normal band. Incident i1.", c.get(0).message());
+        assertEquals("acknowledged: heat-stress in cows, open 40 min", ack.detail(), "the sentence byre ack prints");
     }
 
     @Test

@@ -88,12 +88,27 @@ class NotifyTestCommandTest {
     @Test
     void ackPostsToTheAdminApiWithTheToken() throws Exception {
         List<String> got = new CopyOnWriteArrayList<>();
-        HttpServer admin = server(200, "{\"status\":\"acknowledged\",\"incident\":\"k7q2m9xw3c\",\"detail\":\"acknowledged by Dana\"}", got);
+        // the admin API's answer, as AdminServer sends it for POST /ack
+        HttpServer admin = server(200, "{\"outcome\":\"acknowledged\",\"message\":\"acknowledged: heat-stress in cow-shed, open 42 min\"}\n", got);
         try {
             CliRun r = run("ack", "k7q2m9xw3c", "--by", "Dana", "--config", config(9, admin.getAddress().getPort()).toString());
             assertEquals(0, r.code(), r.err());
-            assertEquals("incident k7q2m9xw3c: acknowledged by Dana\n", r.out());
+            assertEquals("acknowledged: heat-stress in cow-shed, open 42 min\n", r.out(), "one plain sentence, no JSON");
             assertEquals("POST /ack Bearer t0ken-larkmoor {\"incident\":\"k7q2m9xw3c\",\"by\":\"Dana\"}", got.get(0));
+        } finally {
+            admin.stop(0);
+        }
+    }
+
+    @Test
+    void ackOfAnUnknownIncidentSaysSoInASentence() throws Exception {
+        HttpServer admin = server(404, "{\"outcome\":\"unknown-incident\",\"message\":\"no open incident 'k7q2m9xw3d'; open: k7q2m9xw3c\"}\n",
+                new CopyOnWriteArrayList<>());
+        try {
+            CliRun r = run("ack", "k7q2m9xw3d", "--by", "Dana", "--config", config(9, admin.getAddress().getPort()).toString());
+            assertEquals(1, r.code());
+            assertEquals("", r.out());
+            assertEquals("byre: no open incident 'k7q2m9xw3d'; open: k7q2m9xw3c\n", r.err());
         } finally {
             admin.stop(0);
         }

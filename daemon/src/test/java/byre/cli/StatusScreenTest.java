@@ -45,7 +45,8 @@ class StatusScreenTest {
         assertTrue(thiLine.contains("LWSI danger"), thiLine);
         assertTrue(thiLine.contains(" 4m ") && !thiLine.contains("stale"), thiLine);
         assertTrue(out.contains("open alerts (from the database; the daemon is not answering):"), out);
-        assertTrue(out.contains("warning  heat-stress in cow-shed: thi 73.4, open 60m; not acknowledged"), out);
+        // the value as the alert's messages word it, and the incident id to acknowledge with
+        assertTrue(out.contains("warning  heat-stress in cow-shed: THI 73.4, normal band, open 1 h; not acknowledged; incident i1"), out);
         assertFalse(out.contains("calf-chill"), "a cleared alert is not open:\n" + out);
         assertTrue(out.contains("  pen1-wet (calf-pen-1): last reading 3h ago"), out);
         assertTrue(out.contains("  pen1-air (calf-pen-1): never reported"), out);
