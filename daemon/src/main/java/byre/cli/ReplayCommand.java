@@ -122,7 +122,8 @@ final class ReplayCommand implements Callable<Integer> {
         RuleSet ruleSet = compiled.ruleSet().orElseThrow();
 
         Replay replay = new Replay(ruleSet, zone, config != null ? config.site() : "replay",
-                config != null ? new ArrayList<>(config.zones().values()) : null, new ClimateDeriver());
+                config != null ? new ArrayList<>(config.zones().values()) : null, new ClimateDeriver(),
+                config != null && config.units() == ByreConfig.DisplayUnits.US);
         List<AlertEvent> events = new ArrayList<>();
         Instant end;
         if (readings != null) {

@@ -115,7 +115,8 @@ public final class Daemon implements AutoCloseable {
                         byre.alerts.IdSource.random(), (from, to) -> NightDigestReader.read(store, config, from, to, alertStage::episodes),
                         last == null ? null : java.time.Instant.parse(last));
             }
-            watches = new WatchStage(ruleSet, store, config.timezone(), alertStage, clock.instant());
+            watches = new WatchStage(ruleSet, store, config.timezone(), alertStage, clock.instant(),
+                    config.units() == ByreConfig.DisplayUnits.US);
             pipeline.addListener(watches);
             for (byre.rules.eval.AlertState st : byre.rules.eval.AlertState.values()) {
                 if (st == byre.rules.eval.AlertState.CLEAR) continue;

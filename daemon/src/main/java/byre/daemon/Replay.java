@@ -3,6 +3,8 @@ package byre.daemon;
 import byre.alerts.AlertEvent;
 import byre.alerts.AlertPolicy;
 import byre.alerts.IdSource;
+import byre.alerts.AckLinks;
+import byre.alerts.EventText;
 import byre.alerts.IncidentBook;
 import byre.alerts.WatchOutcome;
 import byre.config.ZoneConfig;
@@ -31,8 +33,13 @@ public final class Replay {
     private Instant now;
 
     public Replay(RuleSet rules, ZoneId siteZone, String site, List<ZoneConfig> zoneConfigs, ZoneDeriver deriver) {
-        this.engine = new WatchEngine(rules, siteZone, WatchEngine.Options.replay());
-        this.book = new IncidentBook(site, IdSource.counting());
+        this(rules, siteZone, site, zoneConfigs, deriver, false);
+    }
+
+    /** @param usUnits word values in F and mph, as the live daemon does for {@code units: us} */
+    public Replay(RuleSet rules, ZoneId siteZone, String site, List<ZoneConfig> zoneConfigs, ZoneDeriver deriver, boolean usUnits) {
+        this.engine = new WatchEngine(rules, siteZone, new WatchEngine.Options(null, usUnits));
+        this.book = new IncidentBook(site, IdSource.counting(), new EventText(site, usUnits, AckLinks.NONE));
         this.zones = zoneConfigs == null ? null : new ZoneStage(zoneConfigs, deriver, new ZoneStage.Observer() {
             @Override
             public void wetBulbAboveDryBulb(String zone, double excessC) {}

@@ -40,20 +40,27 @@ public final class WatchStage implements Pipeline.ZoneListener {
     private final HistoryStore store;
     private final ZoneId siteZone;
     private final Outcomes outcomes;
+    private final WatchEngine.Options options;
     private WatchEngine engine;
     private Map<String, String> lastSaved = Map.of();
     private Instant lastSave = Instant.MIN;
     private volatile int[] openCounts = new int[byre.rules.eval.AlertState.values().length];
 
     public WatchStage(RuleSet rules, HistoryStore store, ZoneId siteZone, Outcomes outcomes, Instant now) {
+        this(rules, store, siteZone, outcomes, now, false);
+    }
+
+    /** @param usUnits messages show {value} in F and mph (configuration {@code units: us}) */
+    public WatchStage(RuleSet rules, HistoryStore store, ZoneId siteZone, Outcomes outcomes, Instant now, boolean usUnits) {
         this.store = store;
         this.siteZone = siteZone;
         this.outcomes = outcomes;
+        this.options = new WatchEngine.Options(WatchEngine.Options.live().maxClockStep(), usUnits);
         this.engine = build(rules, load(), now);
     }
 
     private WatchEngine build(RuleSet rules, Map<String, String> state, Instant now) {
-        WatchEngine e = new WatchEngine(rules, siteZone, WatchEngine.Options.live());
+        WatchEngine e = new WatchEngine(rules, siteZone, options);
         for (String skipped : e.restore(state)) LOG.info("alert state not carried over: {}", skipped);
         prime(e, now);
         return e;
