@@ -137,7 +137,6 @@ public final class AlertService implements AckService, AutoCloseable {
     public AckResult acknowledge(String incidentId, String by) {
         AckResult r = book.acknowledge(incidentId, by, clock.instant());
         send(r.events());
-        if (r.status() == AckResult.Status.ACKNOWLEDGED) LOG.info("incident {} {}", r.incident(), r.detail());
         return r;
     }
 
