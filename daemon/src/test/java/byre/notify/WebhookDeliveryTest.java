@@ -119,11 +119,15 @@ class WebhookDeliveryTest {
     @Test
     void theValueIsRoundedToItsMeaningfulDecimalsAndTheMessageIsTheEventText() throws Exception {
         service = service(receiver.url(), Duration.ofSeconds(2));
+        List<AlertEvent> seen = new java.util.concurrent.CopyOnWriteArrayList<>();
+        service.onEvent(seen::add);
         service.accept(new WatchOutcome(WatchOutcome.Kind.RAISED, "heat-danger", "cow-shed", "critical", "thi", 83.70250000000001, "",
                 T0, T0, "Cool the cows now.", AlertPolicy.notifyOnly(List.of("night-phone"))));
         service.runOnce();
         String body = receiver.requests().get(0).body();
         assertTrue(body.contains("\"value\":83.7,"), body);
+        // the log and the demo console get the event through onEvent: the very text the webhook carried
+        assertEquals(((Map<?, ?>) Json.parse(body)).get("message"), seen.get(0).message());
         assertEquals("ALERT at larkmoor, cow-shed: heat-danger (critical), THI 83.7, danger band. Cool the cows now."
                 + " Incident i1; acknowledge: byre ack i1.", ((Map<?, ?>) Json.parse(body)).get("message"));
     }
