@@ -200,17 +200,6 @@ final class CalcCommand implements Callable<Integer> {
         return sb.append("}\n").toString();
     }
 
-    private static final int[] DECIMALS = new int[Quantity.values().length];
-
-    static {
-        Arrays.fill(DECIMALS, 1);
-        DECIMALS[Quantity.AIR_SPEED.ordinal()] = 2;
-        DECIMALS[Quantity.SOLAR.ordinal()] = 0;
-        DECIMALS[Quantity.PRESSURE.ordinal()] = 2;
-        DECIMALS[Quantity.HUMIDITY_RATIO.ordinal()] = 2;
-        DECIMALS[Quantity.VPD.ordinal()] = 3;
-    }
-
     static Unit displayUnit(Quantity q, boolean us) {
         Unit canonical = q.canonicalUnit();
         if (!us) return canonical;
@@ -236,7 +225,7 @@ final class CalcCommand implements Callable<Integer> {
                 List<String> need = d.missingInputs(q);
                 if (!need.isEmpty() && Derivable.hasRecipe(q)) missing.computeIfAbsent(needText(need), k -> new ArrayList<>()).add(q.id());
             } else {
-                int decimals = DECIMALS[q.ordinal()];
+                int decimals = byre.alerts.EventText.decimals(q); // the same decimals as event JSON
                 if (u == Unit.FT_PER_MIN) decimals = 0;
                 if (u == Unit.INHG) decimals = 2;
                 value = fmt(u.fromCanonical(v), decimals);
