@@ -155,8 +155,15 @@ final class DemoCommand implements Callable<Integer> {
      */
     static double wholeDaySpeed(Duration realDuration) {
         long ms = Math.max(1000, realDuration.minus(START_UP).toMillis());
-        return Math.ceil(SIMULATED_DAY.toMillis() / (double) ms);
+        return Math.min(MAX_DEFAULT_SPEED, Math.ceil(SIMULATED_DAY.toMillis() / (double) ms));
     }
+
+    /**
+     * The fastest default: each simulated sensor reports once a simulated minute, so this speed keeps its readings
+     * at 60 % of the daemon's flood limit per sensor (which would drop the rest): 1800x, 30 readings a real second.
+     * A shorter --duration then shows part of the day.
+     */
+    static final double MAX_DEFAULT_SPEED = Daemon.FLOOD_LIMIT_PER_SENSOR * 0.6 * 60;
 
     private static void copyRules(Path dir) throws IOException {
         for (String name : RULE_FILES) {

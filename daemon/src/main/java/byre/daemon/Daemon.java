@@ -29,7 +29,7 @@ import org.slf4j.LoggerFactory;
 public final class Daemon implements AutoCloseable {
     private static final Logger LOG = LoggerFactory.getLogger(Daemon.class);
     /** Readings per second one sensor may send before it is throttled (a normal one sends one a minute or so). */
-    static final int FLOOD_LIMIT_PER_SENSOR = 50;
+    public static final int FLOOD_LIMIT_PER_SENSOR = 50;
 
     private final ByreConfig config;
     private final Clock clock;

@@ -1,6 +1,7 @@
 package byre.cli;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import byre.units.Quantity;
 import java.nio.file.Path;
@@ -61,5 +62,8 @@ class ZoneLinesTest {
         // 60 s, less 3 s of start-up: 86400 s / 57 s = 1515.8, rounded up
         assertEquals(1516.0, DemoCommand.wholeDaySpeed(Duration.ofSeconds(60)));
         assertEquals(Math.ceil(86400 / 597.0), DemoCommand.wholeDaySpeed(Duration.ofMinutes(10)));
+        // never so fast that a sensor's readings meet the daemon's flood limit (50 a second; one reading a simulated minute)
+        assertEquals(1800.0, DemoCommand.wholeDaySpeed(Duration.ofSeconds(15)));
+        assertTrue(DemoCommand.MAX_DEFAULT_SPEED / 60 < byre.daemon.Daemon.FLOOD_LIMIT_PER_SENSOR);
     }
 }
