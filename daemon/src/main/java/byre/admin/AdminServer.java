@@ -211,43 +211,40 @@ public final class AdminServer implements AutoCloseable {
     /** {@code {"site":…,"at":…,"zones":{zone:{quantity:{value,unit,at,age}}},"alerts":[…]|null}}; age in seconds. */
     String statusJson() {
         Instant now = clock.instant();
-        StringBuilder zones = new StringBuilder("{");
+        JsonWriter w = new JsonWriter().field("site", site).field("at", now.toString()).beginObject("zones");
         String current = null;
         for (ZoneReading r : values.snapshot()) {
             if (!r.zone().equals(current)) {
-                if (current != null) zones.append("},");
+                if (current != null) w.end();
                 current = r.zone();
-                JsonWriter.quote(zones, current);
-                zones.append(":{");
-            } else {
-                zones.append(',');
+                w.beginObject(current);
             }
-            JsonWriter.quote(zones, r.quantity().id());
-            zones.append(':').append(new JsonWriter().field("value", r.value()).field("unit", r.quantity().canonicalUnit().symbol())
-                    .field("at", r.at().toString()).field("age", Math.max(0, Duration.between(r.at(), now).toSeconds())));
+            w.beginObject(r.quantity().id()).field("value", r.value()).field("unit", r.quantity().canonicalUnit().symbol())
+                    .field("at", r.at().toString()).field("age", Math.max(0, Duration.between(r.at(), now).toSeconds())).end();
         }
-        if (current != null) zones.append('}');
-        zones.append('}');
+        if (current != null) w.end();
+        w.end();
         AlertSource a = alerts;
-        String alertJson = "null";
-        if (a != null) {
-            StringBuilder arr = new StringBuilder("[");
-            for (OpenAlert o : a.openAlerts()) {
-                if (arr.length() > 1) arr.append(',');
-                arr.append(alertJson(o));
-            }
-            alertJson = arr.append(']').toString();
+        if (a == null) {
+            w.field("alerts", (String) null);
+        } else {
+            w.beginArray("alerts");
+            for (OpenAlert o : a.openAlerts()) alertJson(w.beginObject(), o).end();
+            w.end();
         }
-        return new JsonWriter().field("site", site).field("at", now.toString()).raw("zones", zones.toString())
-                .raw("alerts", alertJson) + "\n";
+        return w + "\n";
     }
 
     static String alertJson(OpenAlert o) {
-        return new JsonWriter().field("incident", o.incident()).field("watch", o.watch()).field("zone", o.zone())
+        return alertJson(new JsonWriter(), o).toString();
+    }
+
+    private static JsonWriter alertJson(JsonWriter w, OpenAlert o) {
+        return w.field("incident", o.incident()).field("watch", o.watch()).field("zone", o.zone())
                 .field("level", o.level()).field("quantity", o.quantity()).field("value", o.value())
                 .field("since", o.since() == null ? null : o.since().toString())
                 .field("acknowledged-by", o.acknowledgedBy())
-                .field("acknowledged-at", o.acknowledgedAt() == null ? null : o.acknowledgedAt().toString()).toString();
+                .field("acknowledged-at", o.acknowledgedAt() == null ? null : o.acknowledgedAt().toString());
     }
 
     private static String error(String message) {

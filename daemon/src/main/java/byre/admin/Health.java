@@ -11,11 +11,6 @@ public record Health(boolean healthy, List<String> problems) {
 
     /** {@code {"healthy":false,"problems":["..."]}}. */
     public String toJson() {
-        StringBuilder arr = new StringBuilder("[");
-        for (String p : problems) {
-            if (arr.length() > 1) arr.append(',');
-            JsonWriter.quote(arr, p);
-        }
-        return new JsonWriter().field("healthy", healthy).raw("problems", arr.append(']').toString()) + "\n";
+        return new JsonWriter().field("healthy", healthy).field("problems", problems) + "\n";
     }
 }

@@ -41,14 +41,7 @@ public record AlertEvent(String id, String incident, EventKind kind, String site
                 .field("at", at == null ? null : at.toString())
                 .field("message", message);
         if (by != null) w.field("by", by);
-        if (!folded.isEmpty()) {
-            StringBuilder sb = new StringBuilder("[");
-            for (int i = 0; i < folded.size(); i++) {
-                if (i > 0) sb.append(',');
-                JsonWriter.quote(sb, folded.get(i));
-            }
-            w.raw("folded", sb.append(']').toString());
-        }
+        if (!folded.isEmpty()) w.field("folded", folded);
         return w.toString();
     }
 

@@ -188,26 +188,23 @@ public final class IncidentBook {
 
     /** All open incidents as one JSON text; {@link #restore} reads it back. */
     public synchronized String snapshot() {
-        StringBuilder sb = new StringBuilder("[");
-        boolean first = true;
+        JsonWriter w = JsonWriter.array();
         for (Incident i : open.values()) {
-            if (!first) sb.append(',');
-            first = false;
-            JsonWriter w = new JsonWriter().field("key", i.key).field("id", i.id).field("watch", i.watch).field("zone", i.zone)
+            w.beginObject().field("key", i.key).field("id", i.id).field("watch", i.watch).field("zone", i.zone)
                     .field("level", i.level).field("quantity", i.quantity).field("value", i.value).field("unit", i.unit)
                     .field("since", i.since.toString()).field("raisedAt", i.raisedAt.toString()).field("message", i.message)
-                    .raw("notify", list(i.policy.channels()))
+                    .field("notify", i.policy.channels())
                     .field("remindEverySec", i.policy.remindEvery() == null ? -1 : i.policy.remindEvery().getSeconds())
                     .field("escalateAfterSec", i.policy.escalateAfter() == null ? -1 : i.policy.escalateAfter().getSeconds())
-                    .raw("escalateTo", list(i.policy.escalateTo()))
-                    .raw("told", list(new ArrayList<>(i.told)))
+                    .field("escalateTo", i.policy.escalateTo())
+                    .field("told", i.told)
                     .field("lastReminderAt", i.lastReminderAt.toString())
                     .field("escalated", i.escalated)
                     .field("ackBy", i.ackBy)
-                    .field("ackAt", i.ackAt == null ? null : i.ackAt.toString());
-            sb.append(w);
+                    .field("ackAt", i.ackAt == null ? null : i.ackAt.toString())
+                    .end();
         }
-        return sb.append(']').toString();
+        return w.toString();
     }
 
     /**
@@ -261,15 +258,6 @@ public final class IncidentBook {
     /** "45 s", "42 min", "2 h 5 min": how long, for people (see {@link EventText#duration}). */
     public static String human(Duration d) {
         return EventText.duration(d);
-    }
-
-    private static String list(List<String> l) {
-        StringBuilder sb = new StringBuilder("[");
-        for (int i = 0; i < l.size(); i++) {
-            if (i > 0) sb.append(',');
-            JsonWriter.quote(sb, l.get(i));
-        }
-        return sb.append(']').toString();
     }
 
     private static List<String> strings(Object o) {
