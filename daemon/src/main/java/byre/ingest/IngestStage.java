@@ -49,6 +49,8 @@ public final class IngestStage {
     private final Counter retainedUntimed;
     private final Ticker ticker;
     private volatile long connectedAtNanos;
+    /** Families whose id cap was reached and said so (once each: the refused ids are not kept). */
+    private final java.util.Set<String> fullFamiliesLogged = ConcurrentHashMap.newKeySet();
 
     public IngestStage(Collection<SensorConfig> sensors, Clock clock, MeterRegistry registry, Consumer<Reading> sink,
                        int maxReadingsPerSecondPerSensor) {
@@ -115,6 +117,15 @@ public final class IngestStage {
         }
         String id = route.sensorId();
         SensorConfig sensor = route.sensor();
+        if (route.overCap()) {
+            rejected.get(RejectReason.ID_LIMIT).increment();
+            if (fullFamiliesLogged.add(sensor.id())) {
+                LOG.warn("sensor family {} ({}) has reached its {} distinct ids (max-ids); readings from new ids such as {}"
+                        + " are ignored and counted as rejected (id-limit); raise max-ids if the barn really has more",
+                        sensor.id(), sensor.topic(), sensor.maxIds(), id);
+            }
+            return null;
+        }
         long nowNanos = ticker.nanos();
         if (nowNanos - connectedAtNanos > BACKLOG_GRACE.toNanos() && !floodGate.admit(id, nowNanos)) {
             return reject(id, RejectReason.FLOOD, "more than " + floodGate.limitPerSecond() + " readings per second");

@@ -8,7 +8,8 @@ public enum RejectReason {
     NOT_FINITE("not-finite", "value is NaN or infinite"),
     OUT_OF_RANGE("out-of-range", "value outside the plausible range of its quantity"),
     BAD_UNIT("bad-unit", "payload names a unit that does not fit the quantity"),
-    FLOOD("flood", "sensor sends faster than the per-sensor limit");
+    FLOOD("flood", "sensor sends faster than the per-sensor limit"),
+    ID_LIMIT("id-limit", "a new id in a wildcard family that already has its max-ids distinct ids");
 
     private final String id;
     private final String description;

@@ -4,21 +4,55 @@ import byre.config.SensorConfig;
 import java.util.ArrayList;
 import java.util.Collection;
 import java.util.HashMap;
+import java.util.HashSet;
 import java.util.List;
 import java.util.Map;
+import java.util.Set;
 
-/** Finds the sensor a topic belongs to: exact topics by hash, wildcard families by matching. */
+/**
+ * Finds the sensor a topic belongs to: exact topics by hash, wildcard families by matching. A family
+ * takes in at most its {@code max-ids} distinct ids; a route to a further id is marked {@code overCap},
+ * and the ids are not remembered beyond the cap, so any number of invented topics costs no memory.
+ */
 public final class TopicRouter {
-    /** A sensor resolved from a topic: its configuration and its concrete id. */
-    public record Route(SensorConfig sensor, String sensorId) {}
+    /** A sensor resolved from a topic: its configuration, its concrete id, and whether its family is full. */
+    public record Route(SensorConfig sensor, String sensorId, boolean overCap) {
+        public Route(SensorConfig sensor, String sensorId) {
+            this(sensor, sensorId, false);
+        }
+    }
 
     private final Map<String, Route> exact = new HashMap<>();
-    private final List<SensorConfig> families = new ArrayList<>();
+    private final List<Family> families = new ArrayList<>();
+
+    /** A wildcard entry, its split filter and the ids it has taken in. */
+    private static final class Family {
+        final SensorConfig sensor;
+        final String[] filter;
+        final Set<String> ids = new HashSet<>();
+
+        Family(SensorConfig sensor) {
+            this.sensor = sensor;
+            this.filter = sensor.topic().split("/", -1);
+        }
+
+        /** True when the id is known or there is room for it. */
+        synchronized boolean admit(String id) {
+            if (ids.contains(id)) return true;
+            if (ids.size() >= sensor.maxIds()) return false;
+            ids.add(id);
+            return true;
+        }
+
+        synchronized int size() {
+            return ids.size();
+        }
+    }
 
     public TopicRouter(Collection<SensorConfig> sensors) {
         for (SensorConfig s : sensors) {
             if (s.isFamily()) {
-                families.add(s);
+                families.add(new Family(s));
             } else {
                 exact.put(s.topic(), new Route(s, s.id()));
             }
@@ -31,13 +65,22 @@ public final class TopicRouter {
         if (r != null) return r;
         if (families.isEmpty()) return null;
         String[] levels = topic.split("/", -1);
-        for (SensorConfig f : families) {
-            if (matches(f.topic().split("/", -1), levels)) {
-                int i = f.idLevel() - 1;
-                if (i >= 0 && i < levels.length && !levels[i].isEmpty()) return new Route(f, f.id() + "/" + levels[i]);
+        for (Family f : families) {
+            if (matches(f.filter, levels)) {
+                int i = f.sensor.idLevel() - 1;
+                if (i >= 0 && i < levels.length && !levels[i].isEmpty()) {
+                    String id = f.sensor.id() + "/" + levels[i];
+                    return new Route(f.sensor, id, !f.admit(id));
+                }
             }
         }
         return null;
+    }
+
+    /** Distinct ids the family has taken in (0 for an unknown or exact sensor). */
+    public int familySize(String familyId) {
+        for (Family f : families) if (f.sensor.id().equals(familyId)) return f.size();
+        return 0;
     }
 
     /** MQTT 3.1.1 section 4.7 topic filter matching. */
