@@ -32,6 +32,10 @@ final class CheckCommand implements Callable<Integer> {
     public Integer call() {
         ByreConfig cfg = config.load(System.err);
         if (cfg == null) return Main.USAGE;
+        if (cfg.admin().tokenProblem() != null) {
+            System.err.println("byre check: warning: " + cfg.admin().tokenProblem()
+                    + "; the daemon starts, but acknowledging through the admin API is off until the token file can be read");
+        }
         List<Path> paths = files == null || files.isEmpty() ? cfg.rulePaths() : files;
         List<RuleSource> sources;
         try {

@@ -42,7 +42,7 @@ public final class ConfigLoader {
     static final Set<String> SELF_ALERT_KEYS = ordered("notify", "channel-failing-after");
     static final Set<String> MQTT_KEYS = ordered("broker", "listen", "client-id", "username", "password-file",
             "password-env", "publish-prefix", "qos", "ca-file", "publish-events", "publish-every");
-    static final Set<String> SENSOR_KEYS = ordered("topic", "quantity", "unit", "payload", "time", "id-level");
+    static final Set<String> SENSOR_KEYS = ordered("topic", "quantity", "unit", "payload", "time", "id-level", "max-ids");
     static final Set<String> ZONE_KEYS = ordered("groups", "sensors", "elevation", "psychrometer", "max-age", "thi");
     static final Set<String> HISTORY_KEYS = ordered("path", "keep-raw", "keep-minute", "keep-hour");
     static final Set<String> ADMIN_KEYS = ordered("listen", "token-file");
@@ -73,7 +73,9 @@ public final class ConfigLoader {
     public static ByreConfig load(Path file) throws ConfigException {
         String text;
         try {
-            text = Files.readString(file, StandardCharsets.UTF_8);
+            text = new String(SmallFile.read(file, SmallFile.CONFIG_MAX_BYTES), StandardCharsets.UTF_8);
+        } catch (SmallFile.Refused e) {
+            throw new ConfigException(List.of(new ConfigProblem(file.toString(), 0, "cannot read the configuration: " + e.getMessage())));
         } catch (IOException e) {
             throw new ConfigException(List.of(new ConfigProblem(file.toString(), 0,
                     "cannot read the configuration: " + describe(e))));
@@ -176,7 +178,14 @@ public final class ConfigLoader {
         String caFile = string(m.get("ca-file"), "mqtt.ca-file", null);
         if (caFile != null) {
             Path p = resolve(caFile);
-            if (!Files.isReadable(p)) problem(m.get("ca-file"), "mqtt.ca-file " + p + " cannot be read");
+            try {
+                SmallFile.regular(p);
+                if (!Files.isReadable(p)) problem(m.get("ca-file"), "mqtt.ca-file " + p + " cannot be read");
+            } catch (SmallFile.Refused e) {
+                problem(m.get("ca-file"), "mqtt.ca-file: " + e.getMessage());
+            } catch (IOException e) {
+                problem(m.get("ca-file"), "mqtt.ca-file " + p + " cannot be read (" + describe(e) + ")");
+            }
             caFile = p.toString();
         }
         boolean events = bool(m.get("publish-events"), "mqtt.publish-events", true);
@@ -248,8 +257,14 @@ public final class ConfigLoader {
             } else if (idLevel > 0 && idLevel > topic.split("/", -1).length && !topic.endsWith("#")) {
                 problem(f.get("id-level"), "id-level " + idLevel + " is beyond the " + topic.split("/", -1).length + " levels of '" + topic + "'");
             }
+            int maxIds = integer(f.get("max-ids"), "max-ids", SensorConfig.DEFAULT_MAX_IDS);
+            if (f.get("max-ids") != null && !family) {
+                problem(f.get("max-ids"), "max-ids applies only to a topic with wildcards (a family of sensors)");
+            } else if (maxIds < 1 || maxIds > SensorConfig.MAX_IDS_LIMIT) {
+                problem(f.get("max-ids"), "max-ids must be 1.." + SensorConfig.MAX_IDS_LIMIT + ", not " + maxIds);
+            }
             if (q != null && unit != null) {
-                out.put(id, new SensorConfig(id, topic, q, unit, payload, timePath, idLevel, line(n)));
+                out.put(id, new SensorConfig(id, topic, q, unit, payload, timePath, idLevel, line(n), maxIds));
             }
         }
         return out;
@@ -455,12 +470,32 @@ public final class ConfigLoader {
     private HistorySettings history(Node node) {
         Map<String, Node> m = node == null ? Map.of() : mapping(node, HISTORY_KEYS, "history");
         Path path = resolve(string(m.get("path"), "history.path", "/var/lib/byre/history.db"));
+        historyPath(m.get("path"), path);
         Duration raw = duration(m.get("keep-raw"), "history.keep-raw", Duration.ofDays(14));
         Duration minute = duration(m.get("keep-minute"), "history.keep-minute", Duration.ofDays(90));
         Duration hour = duration(m.get("keep-hour"), "history.keep-hour", Duration.ofDays(5 * 365 + 1));
         if (raw.compareTo(minute) > 0) problem(m.get("keep-raw"), "history.keep-raw must not be longer than keep-minute");
         if (minute.compareTo(hour) > 0) problem(m.get("keep-minute"), "history.keep-minute must not be longer than keep-hour");
         return new HistorySettings(path, raw, minute, hour);
+    }
+
+    /**
+     * SQLite keeps its journal and write-ahead log beside the database ({@code history.db-wal}): the path must be
+     * a regular file or not yet exist, in a folder that exists or can be made ({@code /dev/null} would make
+     * SQLite create {@code /dev/null-journal}).
+     */
+    private void historyPath(Node node, Path path) {
+        if (Files.isDirectory(path)) {
+            problem(node, "history.path " + path + " is a folder; give a file in it, such as " + path.resolve("history.db"));
+        } else if (Files.exists(path) && !Files.isRegularFile(path)) {
+            problem(node, "history.path " + path + " is not a regular file (a device, FIFO or socket); give a database file such as /var/lib/byre/history.db");
+        } else {
+            for (Path dir = path.toAbsolutePath().getParent(); dir != null; dir = dir.getParent()) {
+                if (!Files.exists(dir)) continue; // created at start
+                if (!Files.isDirectory(dir)) problem(node, "history.path " + path + ": " + dir + " is not a folder");
+                break;
+            }
+        }
     }
 
     private AdminSettings admin(Node node) {
@@ -473,12 +508,14 @@ public final class ConfigLoader {
         if (tokenFile != null) {
             Path p = resolve(tokenFile);
             try {
-                String v = Files.readString(p, StandardCharsets.UTF_8).strip();
+                String v = readSecret(p);
                 if (v.isEmpty()) {
                     tokenProblem = "admin.token-file " + p + " is empty";
                 } else {
                     token = new Secret(v, p.toString());
                 }
+            } catch (SmallFile.Refused e) {
+                tokenProblem = "admin.token-file: " + e.getMessage();
             } catch (IOException e) {
                 tokenProblem = "admin.token-file: cannot read " + p + " (" + describe(e) + ")";
             }
@@ -600,16 +637,24 @@ public final class ConfigLoader {
         if (s == null) return null;
         Path p = resolve(s);
         try {
-            String v = Files.readString(p, StandardCharsets.UTF_8).strip();
+            String v = readSecret(p);
             if (v.isEmpty()) {
                 problem(node, what + ": " + p + " is empty");
                 return null;
             }
             return new Secret(v, p.toString());
+        } catch (SmallFile.Refused e) {
+            problem(node, what + ": " + e.getMessage());
+            return null;
         } catch (IOException e) {
             problem(node, what + ": cannot read " + p + " (" + describe(e) + ")");
             return null;
         }
+    }
+
+    /** A secret file's text without surrounding white space: a regular file of at most 64 KiB. */
+    private static String readSecret(Path p) throws IOException {
+        return new String(SmallFile.read(p, SmallFile.SECRET_MAX_BYTES), StandardCharsets.UTF_8).strip();
     }
 
     private String[] hostPort(Node node, String what, String text) {

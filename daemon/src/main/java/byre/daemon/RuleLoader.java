@@ -33,7 +33,10 @@ final class RuleLoader {
         return !RuleFiles.fingerprint(paths()).equals(fingerprint);
     }
 
-    /** The compiled rules, or empty (with the problems logged) when a file is unreadable or has errors. */
+    /**
+     * The compiled rules, or empty (with the problems logged) when a file is unreadable, too large or has errors.
+     * Never throws: a reload must not be able to stop the daemon, whatever the files hold.
+     */
     Optional<RuleSet> load() {
         fingerprint = RuleFiles.fingerprint(paths());
         CompileResult result;
@@ -42,6 +45,10 @@ final class RuleLoader {
                     new ConfigRuleContext(config, ReportingIntervals.fromHistory(config, clock.instant())));
         } catch (IOException e) {
             LOG.error("cannot read rule files: {}", e.getMessage());
+            return Optional.empty();
+        } catch (RuntimeException | StackOverflowError e) {
+            // A fault of byre's, not of the files; the running rules stay, and the trace helps a fix.
+            LOG.error("compiling the rule files failed: {}", e.toString(), e);
             return Optional.empty();
         }
         if (!result.diagnostics().isEmpty()) {

@@ -8,7 +8,6 @@ import io.micrometer.core.instrument.Gauge;
 import io.micrometer.core.instrument.MeterRegistry;
 import java.io.InputStream;
 import java.nio.charset.StandardCharsets;
-import java.nio.file.Files;
 import java.nio.file.Path;
 import java.security.KeyStore;
 import java.security.cert.Certificate;
@@ -324,7 +323,7 @@ public final class MqttLink implements AutoCloseable {
 
     /** A TLS socket factory that trusts exactly the CA certificate(s) in the given PEM file. */
     static javax.net.ssl.SSLSocketFactory trustingOnly(Path caPem) throws MqttException {
-        try (InputStream in = Files.newInputStream(caPem)) {
+        try (InputStream in = new java.io.ByteArrayInputStream(byre.config.SmallFile.read(caPem, byre.config.SmallFile.CONFIG_MAX_BYTES))) {
             KeyStore ks = KeyStore.getInstance(KeyStore.getDefaultType());
             ks.load(null, null);
             int i = 0;
