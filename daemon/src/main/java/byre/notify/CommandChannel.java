@@ -15,18 +15,39 @@ import java.util.concurrent.TimeUnit;
  * Runs a program (an argv, never through a shell) with the event JSON on standard input and the key fields in
  * the environment (BYRE_EVENT, BYRE_WATCH, BYRE_ZONE, BYRE_LEVEL, BYRE_MESSAGE, BYRE_INCIDENT, BYRE_ID).
  * Exit 0 is success; a non-zero exit or running past the timeout (the program is then killed) is a failure.
+ * The program gets a cleared environment: only PATH, the locale variables and byre's fields. byre's own
+ * environment can hold secrets (an MQTT password given by {@code password-env}) that a script must not see.
  */
 public final class CommandChannel implements Channel {
     private static final int STDERR_KEEP = 4096;
+    /** PATH when byre has none (systemd gives services this one). */
+    static final String DEFAULT_PATH = "/usr/local/sbin:/usr/local/bin:/usr/sbin:/usr/bin:/sbin:/bin";
 
     private final String name;
     private final List<String> argv;
     private final Duration timeout;
+    private final Map<String, String> inherited;
 
     public CommandChannel(String name, List<String> argv, Duration timeout) {
+        this(name, argv, timeout, System.getenv());
+    }
+
+    /** With the environment byre runs in given, for tests. */
+    CommandChannel(String name, List<String> argv, Duration timeout, Map<String, String> byreEnvironment) {
         this.name = name;
         this.argv = List.copyOf(argv);
         this.timeout = timeout;
+        this.inherited = passedOn(byreEnvironment);
+    }
+
+    /** What a program may see of byre's environment: PATH and the locale (LANG, LANGUAGE, LC_*). */
+    static Map<String, String> passedOn(Map<String, String> env) {
+        Map<String, String> out = new java.util.TreeMap<>();
+        out.put("PATH", env.getOrDefault("PATH", DEFAULT_PATH));
+        env.forEach((k, v) -> {
+            if (k.equals("LANG") || k.equals("LANGUAGE") || k.startsWith("LC_")) out.put(k, v);
+        });
+        return Map.copyOf(out);
     }
 
     @Override
@@ -43,6 +64,8 @@ public final class CommandChannel implements Channel {
     public DeliveryResult deliver(AlertEvent event) {
         ProcessBuilder pb = new ProcessBuilder(argv);
         Map<String, String> env = pb.environment();
+        env.clear();
+        env.putAll(inherited);
         put(env, "BYRE_EVENT", event.kind().id());
         put(env, "BYRE_WATCH", event.watch());
         put(env, "BYRE_ZONE", event.zone());

@@ -67,4 +67,41 @@ class CommandChannelTest {
         assertEquals(FailureReason.CONFIG, r.reason());
         assertTrue(r.detail().startsWith("cannot start " + dir.resolve("nope")), r.detail());
     }
+
+    @Test
+    void theProgramSeesPathLocaleAndByresFieldsOnly() throws Exception {
+        Path out = dir.resolve("env.txt");
+        Path s = script("cat > /dev/null; env > \"$1\"");
+        // byre's own environment, as a service might have it: a password given by password-env must not leak
+        java.util.Map<String, String> byreEnv = java.util.Map.of("PATH", "/usr/bin:/bin", "LANG", "en_GB.UTF-8",
+                "LC_TIME", "en_GB.UTF-8", "BYRE_MQTT_PASSWORD", "larkmoor-secret", "HOME", "/var/lib/byre",
+                "INVOCATION_ID", "abc", "JAVA_TOOL_OPTIONS", "-Dx=y");
+        DeliveryResult r = new CommandChannel("pager-script", List.of(s.toString(), out.toString()), Duration.ofSeconds(10), byreEnv)
+                .deliver(EVENT);
+        assertTrue(r.ok(), r.toString());
+        java.util.Map<String, String> seen = new java.util.TreeMap<>();
+        for (String line : Files.readAllLines(out)) {
+            int eq = line.indexOf('=');
+            if (eq > 0) seen.put(line.substring(0, eq), line.substring(eq + 1));
+        }
+        seen.remove("PWD"); // set by the shell itself
+        assertFalse(String.join("\n", Files.readAllLines(out)).contains("larkmoor-secret"));
+        assertEquals(java.util.Set.of("PATH", "LANG", "LC_TIME", "BYRE_EVENT", "BYRE_WATCH", "BYRE_ZONE", "BYRE_LEVEL",
+                "BYRE_MESSAGE", "BYRE_INCIDENT", "BYRE_ID", "BYRE_SITE"), seen.keySet());
+        assertEquals("/usr/bin:/bin", seen.get("PATH"));
+        assertEquals("raised", seen.get("BYRE_EVENT"));
+    }
+
+    @Test
+    void withTheRealEnvironmentOnlyPathAndLocalePass() throws Exception {
+        Path out = dir.resolve("env.txt");
+        Path s = script("cat > /dev/null; env > \"$1\"");
+        DeliveryResult r = new CommandChannel("pager-script", List.of(s.toString(), out.toString()), Duration.ofSeconds(10)).deliver(EVENT);
+        assertTrue(r.ok(), r.toString());
+        for (String line : Files.readAllLines(out)) {
+            String key = line.substring(0, Math.max(0, line.indexOf('=')));
+            assertTrue(key.equals("PATH") || key.equals("PWD") || key.equals("LANG") || key.equals("LANGUAGE") || key.startsWith("LC_")
+                    || key.startsWith("BYRE_") || key.isEmpty(), "not passed on: " + key);
+        }
+    }
 }
