@@ -198,6 +198,7 @@ public final class HistoryStore implements AutoCloseable {
     }
 
     static Connection connect(Path file, boolean readOnly, boolean syncFull) throws SQLException {
+        SqliteNative.prepare(file.toAbsolutePath().getParent());
         SQLiteConfig cfg = new SQLiteConfig();
         cfg.setJournalMode(SQLiteConfig.JournalMode.WAL);
         cfg.setSynchronous(syncFull ? SQLiteConfig.SynchronousMode.FULL : SQLiteConfig.SynchronousMode.NORMAL);

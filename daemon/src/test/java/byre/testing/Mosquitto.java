@@ -88,16 +88,22 @@ public final class Mosquitto implements AutoCloseable {
         return port;
     }
 
-    /** Kills the broker at once (SIGKILL), as a crash would. */
+    /** Kills the broker at once (SIGKILL), as a crash would; its own folder goes too (a state folder stays). */
     public void kill() throws InterruptedException {
         process.destroyForcibly();
         process.waitFor(5, TimeUnit.SECONDS);
+        removeFolder();
     }
 
     @Override
     public void close() throws InterruptedException {
         process.destroy();
         if (!process.waitFor(5, TimeUnit.SECONDS)) kill();
+        removeFolder();
+    }
+
+    private void removeFolder() {
+        if (!Files.exists(dir)) return;
         try (var walk = Files.walk(dir)) {
             walk.sorted(java.util.Comparator.reverseOrder()).forEach(f -> f.toFile().delete());
         } catch (IOException ignored) {
