@@ -100,7 +100,7 @@ public final class Daemon implements AutoCloseable {
             Gauge.builder("byre.pipeline.queue", pipeline, Pipeline::depth).description("Zone readings waiting for the pipeline thread").register(registry);
 
             if (config.mqtt().embedded()) {
-                broker = EmbeddedBroker.start(config.mqtt().listenHost(), config.mqtt().listenPort());
+                broker = EmbeddedBroker.start(config.mqtt().listenHost(), config.mqtt().listenPort(), registry);
             }
             link = new MqttLink(config.mqtt(), config.site(), registry, ticker);
             quietLimit = QuietLimit.of(config, ReportingIntervals.fromHistory(config, clock.instant()));

@@ -31,8 +31,16 @@ public final class EmbeddedBroker implements AutoCloseable {
         this.dataDir = dataDir;
     }
 
+    /** Starts a broker on host:port and counts its errors in {@code byre.broker.errors}. */
+    public static EmbeddedBroker start(String host, int port, io.micrometer.core.instrument.MeterRegistry registry) throws IOException {
+        io.micrometer.core.instrument.FunctionCounter.builder("byre.broker.errors", BrokerLog.class, b -> BrokerLog.errors())
+                .description("Errors of the embedded broker (oversized or malformed packets, bad topics)").register(registry);
+        return start(host, port);
+    }
+
     /** Starts a broker on host:port; port 0 picks a free port. */
     public static EmbeddedBroker start(String host, int port) throws IOException {
+        BrokerLog.install();
         int chosen = port == 0 ? freePort(host) : port;
         Path dataDir = Files.createTempDirectory("byre-broker");
         EmbeddedBroker b = new EmbeddedBroker(host, chosen, dataDir);
