@@ -68,6 +68,12 @@ public final class SqliteNative {
             try {
                 Files.write(tmp, lib);
                 try {
+                    // readable by the operators' commands (a temporary file starts as owner-only)
+                    Files.setPosixFilePermissions(tmp, java.nio.file.attribute.PosixFilePermissions.fromString("rw-r--r--"));
+                } catch (UnsupportedOperationException ignored) {
+                    // not a POSIX file system
+                }
+                try {
                     Files.move(tmp, file, StandardCopyOption.REPLACE_EXISTING, StandardCopyOption.ATOMIC_MOVE);
                 } catch (AtomicMoveNotSupportedException e) {
                     Files.move(tmp, file, StandardCopyOption.REPLACE_EXISTING);
