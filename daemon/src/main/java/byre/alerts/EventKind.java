@@ -1,6 +1,6 @@
 package byre.alerts;
 
-/** What happened to an incident (design section 6), plus {@code summary} (events held back by a rate limit) and {@code digest} (the morning digest). */
+/** What happened to an incident (README, Alerts and delivery), plus {@code summary} (events held back by a rate limit) and {@code digest} (the morning digest). */
 public enum EventKind {
     RAISED, REMINDER, ESCALATED, CLEARED, ACKNOWLEDGED, TEST, SUMMARY, DIGEST;
 

@@ -86,7 +86,7 @@ final class AdminClient {
         }
     }
 
-    /** Reads one alert object (the /status form, which is also the event JSON of design section 6 plus acknowledgement). */
+    /** Reads one alert object (the /status form, which is also the event JSON of the README, Alerts and delivery, plus acknowledgement). */
     static OpenAlert alert(Map<?, ?> a) {
         return new OpenAlert(str(a.get("incident")), str(a.get("watch")), str(a.get("zone")), str(a.get("level")),
                 str(a.get("quantity")), a.get("value") instanceof Double d ? d : Double.NaN, time(a.get("since")),

@@ -3,7 +3,7 @@ package byre.cli;
 import picocli.CommandLine;
 import picocli.CommandLine.Command;
 
-/** Entry point of {@code byre}: one verb per job (design section 8). */
+/** Entry point of {@code byre}: one verb per job (README, Operations). */
 @Command(name = "byre", mixinStandardHelpOptions = true, version = "byre 0.1.0",
         description = "Barn-climate ingest and alerting daemon.",
         subcommands = {

@@ -16,7 +16,7 @@ import java.util.List;
 import java.util.function.Consumer;
 
 /**
- * Reads a readings CSV for replay (design section 8): header {@code time,zone,quantity,value,unit}
+ * Reads a readings CSV for replay (README, Alerts and delivery: readings CSV): header {@code time,zone,quantity,value,unit}
  * (zone streams) or {@code time,sensor,value} (raw sensor readings, in each sensor's configured unit).
  * Every bad line is reported as {@code file:line:col: message}; reading stops after 20 of them.
  */

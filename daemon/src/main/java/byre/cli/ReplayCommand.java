@@ -68,7 +68,7 @@ final class ReplayCommand implements Callable<Integer> {
     @Option(names = "--config", paramLabel = "F", description = "Configuration (default: $BYRE_CONFIG; needed for the history and for time,sensor,value CSV).")
     Path configFile;
 
-    @Option(names = "--json", description = "One event object per line (design section 6).")
+    @Option(names = "--json", description = "One event object per line (the event JSON of the README).")
     boolean json;
 
     @Override

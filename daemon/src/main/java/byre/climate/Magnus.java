@@ -8,12 +8,12 @@ package byre.climate;
  * relative humidity with respect to water at all temperatures, its psychrometer coefficients belong
  * to this form, and its water branch is stated for supercooled water down to -45 C, which the
  * ASHRAE function (ice below 0.01 C) does not give. Versus Hyland-Wexler it differs by at most
- * 0.3 % of the pressure between -40 and 50 C (reference sheet section 1b).
+ * 0.3 % of the pressure between -40 and 50 C (both evaluated; Hyland-Wexler as in ASHRAE Handbook 2017 ch. 1).
  */
 public final class Magnus {
     private Magnus() {}
 
-    /** Stated validity of the water branch, degC (WMO-No. 8 Annex 4.B as quoted in the reference sheet). */
+    /** Stated validity of the water branch, degC (WMO-No. 8 Annex 4.B). */
     public static final double WATER_MIN_C = -45, WATER_MAX_C = 60;
 
     static final double E0_KPA = 0.6112;

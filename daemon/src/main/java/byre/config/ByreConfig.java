@@ -5,7 +5,7 @@ import java.time.ZoneId;
 import java.util.List;
 import java.util.Map;
 
-/** A loaded, validated configuration (design section 4). Maps keep the file's order. */
+/** A loaded, validated configuration (README, Configuration). Maps keep the file's order. */
 public record ByreConfig(Path file, String site, ZoneId timezone, DisplayUnits units, MqttSettings mqtt,
                          Map<String, SensorConfig> sensors, Map<String, ZoneConfig> zones,
                          Map<String, ChannelConfig> channels, List<Path> rulePaths,

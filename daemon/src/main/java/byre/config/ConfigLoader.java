@@ -31,7 +31,7 @@ import org.snakeyaml.engine.v2.nodes.ScalarNode;
 import org.snakeyaml.engine.v2.nodes.SequenceNode;
 
 /**
- * Reads the YAML configuration of design section 4 and checks all of it before anything starts,
+ * Reads the YAML configuration (README, Configuration) and checks all of it before anything starts,
  * collecting every problem as {@code file:line: message}. Secrets are read from the files or
  * environment variables the configuration names; their values never enter a message.
  */

@@ -25,7 +25,7 @@ import org.slf4j.LoggerFactory;
 /**
  * Hands the watches' transitions to the alert service (incidents, outbox, channels), logs them,
  * publishes each watch instance's current state retained under
- * {@code <prefix>/<site>/alerts/<watch>/<zone>} (design section 7), and remembers the episodes of
+ * {@code <prefix>/<site>/alerts/<watch>/<zone>} (README, How data flows), and remembers the episodes of
  * the last two days for the morning digest.
  */
 final class AlertStage implements WatchStage.Outcomes {

@@ -3,13 +3,13 @@ package byre.history;
 import java.time.Duration;
 
 /**
- * How long each level of the history is kept (design section 4: {@code keep-raw}, {@code keep-minute},
+ * How long each level of the history is kept (README, Configuration: {@code keep-raw}, {@code keep-minute},
  * {@code keep-hour}). Each must be positive; a finer level may not be kept longer than a coarser one,
  * because the coarser rollups are what remain when the finer rows are gone.
  */
 public record Retention(Duration keepRaw, Duration keepMinute, Duration keepHour) {
 
-    /** The defaults of design section 4: 14 days raw, 90 days of minutes, 5 years of hours. */
+    /** The defaults (README, Configuration): 14 days raw, 90 days of minutes, 5 years of hours. */
     public static final Retention DEFAULT = new Retention(Duration.ofDays(14), Duration.ofDays(90), Duration.ofDays(5 * 365 + 1));
 
     public Retention {

@@ -29,7 +29,7 @@ class CattleIndexTest {
         assertEquals(78, Thi.nrc1971(t, rh), 0.15);
     }
 
-    // Reference sheet section 7 check values (forms as cited in ThiVariant; Tw and Td from PsychroLib).
+    // Check values computed from the published forms cited in ThiVariant (Tw and Td from PsychroLib).
     @ParameterizedTest
     @CsvSource({
             "23,65,70.44,70.39,70.45,69.99,18.46,16.07", "25,50,71.78,71.70,71.48,71.19,17.89,13.86",
@@ -43,7 +43,7 @@ class CattleIndexTest {
         assertEquals(dew, Thi.dewPointForm(t, td), 0.015);
     }
 
-    // Mader et al. 2006 adjusted THI, reference sheet section 7.
+    // Mader et al. 2006 adjusted THI (J. Anim. Sci. 84:712-719), evaluated from its published form.
     @ParameterizedTest
     @CsvSource({"30,50,1,500,84.12", "30,50,0,0,82.71", "30,50,3,0,76.73", "35,40,4,900,85.30"})
     void maderAdjusted(double t, double rh, double ws, double rad, double thi) {
@@ -68,7 +68,8 @@ class CattleIndexTest {
         assertEquals(37.9, Cci.celsius(30, 50, 1, 500), 0.05);
     }
 
-    // Reference sheet section 8, the same formula evaluated at more points (reading (C) of the wind term).
+    // Mader, Johnson & Gaughan 2010 (J. Anim. Sci. 88:2153-2165), the same formula evaluated at more points
+    // (reading (C) of the wind term).
     @ParameterizedTest
     @CsvSource({"30,50,2,0,30.43", "30,50,2,800,37.30", "35,60,1,900,48.92", "25,40,3,500,26.04",
             "20,50,1,0,21.38", "30,30,0,0,34.33", "0,80,5,0,-9.94", "-10,80,10,0,-23.95", "-20,70,5,100,-31.35"})
@@ -82,7 +83,7 @@ class CattleIndexTest {
         assertEquals(term, Cci.windTerm(ws), 0.006);
     }
 
-    // BGHI, Buffington et al. 1981: Tbg + 0.36 Tdp + 41.5 (reference sheet section 9).
+    // BGHI, Buffington et al. 1981: Tbg + 0.36 Tdp + 41.5 (formula evaluated).
     @ParameterizedTest
     @CsvSource({"30,20,78.70", "35,18,82.98", "40,22,89.42", "25,15,71.90"})
     void bghi(double globe, double td, double expected) {

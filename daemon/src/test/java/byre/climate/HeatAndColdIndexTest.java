@@ -10,7 +10,7 @@ class HeatAndColdIndexTest {
 
     // NWS heat-index chart (NWS Tulsa page srh.noaa.gov/tsa/?n=heatindex), F. Within the chart's rounding
     // (+-1 F), except the high-humidity adjustment zone (80-87 F, RH > 85 %) where the chart shows the raw
-    // regression: there +-2.5 F (reference sheet section 5).
+    // regression: there +-2.5 F (WPC "The Heat Index Equation": the chart omits the adjustment).
     @ParameterizedTest
     @CsvSource({
             "80,40,80", "80,50,81", "80,60,82", "80,70,83", "80,80,84", "80,90,86", "80,100,87",
@@ -25,7 +25,7 @@ class HeatAndColdIndexTest {
         assertEquals(chartF, HeatIndex.fahrenheit(tF, rh), adjustmentZone ? 2.5 : 1.0);
     }
 
-    // The WPC algorithm evaluated exactly (reference sheet section 5); MetPy test values agree after
+    // The WPC algorithm ("The Heat Index Equation", Rothfusz 1990, NWS SR 90-23) evaluated exactly; MetPy test values agree after
     // rounding (80/40 -> 80, 88/100 -> 121, 92/70 -> 112, 110/40 -> 136, 86/88 -> 104, 96/65 -> 121) and
     // the NWS example "96 F and 65 % -> 121 F".
     @ParameterizedTest

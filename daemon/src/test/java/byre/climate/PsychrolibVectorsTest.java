@@ -79,10 +79,11 @@ class PsychrolibVectorsTest {
             DerivedClimate d = ZoneClimate.derive(ClimateInputs.builder().dryBulbC(r.t).wetBulbC(r.tw)
                     .elevationM(r.elevationM).build());
             double diff = r.rh - d.value(Quantity.RH);
-            // Reference sheet 2d: the two methods agree within 0.6 %RH for an aspirated wet bulb, WMO lower.
+            // PsychroLib (ASHRAE form) against the WMO-No. 8 Annex 4.B Assmann form, both evaluated: they agree
+            // within 0.6 %RH for an aspirated wet bulb, WMO lower.
             assertTrue(diff > -0.01 && diff < 0.6, "WMO RH below ASHRAE RH by " + diff + at);
             if (r.dewPoint > 0.5) { // PsychroLib gives the frost point below 0.01 C, byre the dew point over water
-                // Same vapour pressure, Magnus inverse vs Hyland-Wexler inverse (reference sheet 4a: within 0.02 K)
+                // Same vapour pressure, Magnus inverse vs Hyland-Wexler inverse (both evaluated: within 0.02 K)
                 assertEquals(r.dewPoint, Magnus.dewPointC(r.eKPa, r.pKPa), 0.1, "dew point" + at);
             }
             // The same 0.6 %RH offset, as humidity ratio: 0.6 % of the saturation humidity ratio.
@@ -99,7 +100,7 @@ class PsychrolibVectorsTest {
             String at = " at " + r;
             DerivedClimate d = ZoneClimate.derive(ClimateInputs.builder().dryBulbC(r.t).rhPercent(r.rh)
                     .elevationM(r.elevationM).build());
-            // The WMO aspirated bulb reads slightly above the thermodynamic wet bulb (reference sheet 4b:
+            // The WMO aspirated bulb reads slightly above the thermodynamic wet bulb (both evaluated:
             // +0.01..+0.17 K between 0 and 45 C), growing with the depression (0.22 K at 50 C, 20 K here).
             double diff = d.value(Quantity.WET_BULB) - r.tw;
             assertTrue(diff > -0.01 && diff < 0.25, "wet bulb off by " + diff + at);

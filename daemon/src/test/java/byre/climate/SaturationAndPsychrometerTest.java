@@ -8,8 +8,8 @@ import org.junit.jupiter.params.provider.CsvSource;
 /** Saturation, psychrometer, pressure and dew-point check values; the source is named at each table. */
 class SaturationAndPsychrometerTest {
 
-    // WMO-No. 8 Annex 4.B Magnus, pure phase: check values of the reference sheet section 1a
-    // (coefficients from secondary copies of the Annex; values computed there from them).
+    // WMO-No. 8 Annex 4.B Magnus, pure phase: check values computed from the Annex coefficients
+    // (as reproduced in secondary copies of the Annex).
     @ParameterizedTest
     @CsvSource({"-20,1.2597,1.0326", "-10,2.8703,2.5987", "0,6.1120,6.1120"})
     void wmoMagnusWaterAndIce(double t, double ewHPa, double eiHPa) {
@@ -23,7 +23,7 @@ class SaturationAndPsychrometerTest {
         assertEquals(ewHPa, Magnus.overWaterKPa(t) * 10, 0.001);
     }
 
-    // WMO-No. 8 eq. 4.B.5 enhancement factor, reference sheet section 1a.
+    // WMO-No. 8 eq. 4.B.5 enhancement factor, evaluated.
     @ParameterizedTest
     @CsvSource({"101.325,1.00472", "84.56,1.00418", "70.0,1.00370"})
     void wmoEnhancementFactor(double pKPa, double f) {
@@ -59,7 +59,7 @@ class SaturationAndPsychrometerTest {
         assertEquals(56.7, Ashrae.enthalpyKJPerKg(40, w), 0.1);
     }
 
-    // PsychroLib worked values ("computed with Excel" by its authors), reference sheet 2f.
+    // PsychroLib worked values ("computed with Excel" by its authors): ASHRAE Handbook 2017 ch. 1 Example 1.
     @org.junit.jupiter.api.Test
     void psychrolibWorkedValues() {
         assertEquals(0.0192281274, Ashrae.humidityRatioFromWetBulb(30, 25, 95.461), 0.0192281274 * 3e-4);
@@ -68,8 +68,8 @@ class SaturationAndPsychrometerTest {
         assertEquals(81.316, Ashrae.enthalpyKJPerKg(30, 0.02), 0.001);
     }
 
-    // WMO-No. 8 Annex 4.B psychrometer, aspirated, reference sheet 2d (computed there from the Annex form)
-    // and FAO-56 naturally ventilated coefficient 8.0e-4 (sheet 2d, column A = 8.0e-4).
+    // WMO-No. 8 Annex 4.B psychrometer, aspirated (computed from the Annex form)
+    // and FAO-56 naturally ventilated coefficient 8.0e-4 (the same form with A = 8.0e-4).
     @ParameterizedTest
     @CsvSource({
             "5,3,101.325,71.76,68.40", "10,7,101.325,65.41,61.89", "20,15,101.325,58.64,55.66",
@@ -87,7 +87,7 @@ class SaturationAndPsychrometerTest {
         assertEquals(rh, Psychrometer.ASPIRATED.relativeHumidity(t, tw, 84.5559), 0.02);
     }
 
-    // Ice-covered bulb, WMO-No. 8 Annex 4.B ice coefficient 5.75e-4, reference sheet 2e; RH over water.
+    // Ice-covered bulb, WMO-No. 8 Annex 4.B ice coefficient 5.75e-4, evaluated; RH over water.
     @ParameterizedTest
     @CsvSource({"-2,-3,79.16,0.42003", "-5,-6,73.60,0.31218", "-10,-11,62.62,0.18058", "-10,-10.5,76.50,0.22061"})
     void wmoIceBulb(double t, double ti, double rhWater, double eKPa) {
@@ -95,7 +95,7 @@ class SaturationAndPsychrometerTest {
         assertEquals(rhWater, Psychrometer.ASPIRATED.relativeHumidity(t, ti, 101.325), 0.02);
     }
 
-    // Inverse Magnus dew point (WMO Annex 4.B form), reference sheet 4a; 25 C / 80 % -> 21.31 is also
+    // Inverse Magnus dew point (WMO Annex 4.B form), evaluated; 25 C / 80 % -> 21.31 is also
     // PsychroLib's documented example.
     @ParameterizedTest
     @CsvSource({"25,80,21.307", "20,50,9.255", "30,60,21.385", "10,90,8.434", "35,40,19.384", "0,80,-3.040", "25,60,16.693"})
@@ -111,10 +111,10 @@ class SaturationAndPsychrometerTest {
 
     @org.junit.jupiter.api.Test
     void frostPointFromVapourPressure() {
-        assertEquals(-12.969, Magnus.frostPointC(0.2, 101.325), 0.002); // reference sheet 4a
+        assertEquals(-12.969, Magnus.frostPointC(0.2, 101.325), 0.002); // inverse Magnus over ice, evaluated
     }
 
-    // Wet bulb from RH by inverting the WMO aspirated psychrometer, reference sheet 4b column "WMO-Assmann inverse".
+    // Wet bulb from RH by inverting the WMO aspirated psychrometer by bisection, evaluated.
     @ParameterizedTest
     @CsvSource({"20,50,13.831", "30,50,22.076", "25,80,22.402", "35,40,24.038", "40,20,22.202", "10,90,9.163",
             "5,70,2.871", "45,30,28.865"})

@@ -16,7 +16,7 @@ class ZoneClimateTest {
                 .solarWm2(500).globeC(30).build());
         assertFalse(d.hasProblems());
         for (Quantity q : Quantity.values()) assertTrue(d.has(q), q + " missing");
-        // WMO Assmann 30/20 at sea level: 39.25 % (reference sheet 2d)
+        // WMO Assmann 30/20 at sea level: 39.25 % (WMO-No. 8 Annex 4.B form, evaluated)
         assertEquals(39.25, d.value(Quantity.RH), 0.02);
         assertTrue(d.isDerived(Quantity.RH));
         assertFalse(d.isDerived(Quantity.WET_BULB));
@@ -32,7 +32,7 @@ class ZoneClimateTest {
     void elevationGivesStationPressure() {
         DerivedClimate d = ZoneClimate.derive(ClimateInputs.builder().dryBulbC(20).wetBulbC(15).elevationM(1500).build());
         assertEquals(84.5559, d.value(Quantity.PRESSURE), 0.0005);
-        assertEquals(61.00, d.value(Quantity.RH), 0.02); // reference sheet 2d, 1500 m
+        assertEquals(61.00, d.value(Quantity.RH), 0.02); // WMO-No. 8 Annex 4.B form at 1500 m, evaluated
         assertTrue(d.hasNote(Note.PRESSURE_FROM_ELEVATION));
     }
 
@@ -87,7 +87,7 @@ class ZoneClimateTest {
     @Test
     void iceBulbBelowZero() {
         DerivedClimate d = ZoneClimate.derive(ClimateInputs.builder().dryBulbC(-10).wetBulbC(-11).build());
-        assertEquals(62.62, d.value(Quantity.RH), 0.02); // reference sheet 2e, RH over water
+        assertEquals(62.62, d.value(Quantity.RH), 0.02); // WMO-No. 8 Annex 4.B ice bulb, evaluated; RH over water
         assertTrue(d.hasNote(Note.ICE_BULB));
     }
 
@@ -95,7 +95,7 @@ class ZoneClimateTest {
     void screenPsychrometerAndImpossibleReading() {
         DerivedClimate screen = ZoneClimate.derive(ClimateInputs.builder().dryBulbC(20).wetBulbC(15)
                 .psychrometer(Psychrometer.SCREEN).build());
-        assertEquals(55.66, screen.value(Quantity.RH), 0.02); // FAO-56 a = 8.0e-4, reference sheet 2d
+        assertEquals(55.66, screen.value(Quantity.RH), 0.02); // FAO-56 a = 8.0e-4 in the WMO form, evaluated
         DerivedClimate impossible = ZoneClimate.derive(ClimateInputs.builder().dryBulbC(40).wetBulbC(10).build());
         assertTrue(impossible.hasProblems());
         assertFalse(impossible.has(Quantity.RH));

@@ -1,7 +1,7 @@
 package byre.demo;
 
 /**
- * One simulated sensor, described in the words of the byre configuration (design section 4):
+ * One simulated sensor, described in the words of the byre configuration (README, Configuration):
  * its id under {@code sensors:}, the zone that lists it, its topic, quantity, unit symbol and
  * payload form ({@code number}, {@code json:<path>} or {@code senml:<name>}).
  */

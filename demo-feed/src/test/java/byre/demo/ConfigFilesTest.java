@@ -19,7 +19,7 @@ import org.junit.jupiter.api.Test;
 /** The demo configuration and the operator's example must describe exactly the sensors the simulator has. */
 class ConfigFilesTest {
 
-    /** Keys of design section 4, in order, each as "indent+key:". */
+    /** Keys of the configuration (README, Configuration), in order, each as "indent+key:". */
     private static final List<String> DESIGN_KEYS = List.of(
             "site:", "timezone:", "units:", "mqtt:", "  broker:", "  listen:", "  client-id:", "  username:",
             "  password-file:", "  publish-prefix:", "sensors:", "zones:", "    groups:", "    sensors:",

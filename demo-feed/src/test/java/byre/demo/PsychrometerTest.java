@@ -27,7 +27,7 @@ class PsychrometerTest {
 
     /**
      * Wet bulb from RH by inverting the WMO Annex 4.B Assmann psychrometer formula at 101325 Pa:
-     * check values computed for the project's reference sheet (climate-refs section 4b); PsychroLib's
+     * check values computed from that formula by bisection; PsychroLib's
      * thermodynamic wet bulb for the same air is within 0.1 K (13.783, 22.380, 9.157, 2.859).
      */
     @ParameterizedTest
@@ -36,7 +36,7 @@ class PsychrometerTest {
         assertEquals(wetC, Psychrometer.wetBulbC(tC, rh, 101.325), 0.005);
     }
 
-    /** Saturated air: the wet bulb reads the dry bulb (common practice; design section 11). */
+    /** Saturated air: the wet bulb reads the dry bulb (common practice). */
     @ParameterizedTest
     @CsvSource({"3", "15", "28"})
     void saturatedAirHasNoDepression(double tC) {

@@ -11,7 +11,7 @@ import java.time.LocalTime;
 import java.util.List;
 import org.junit.jupiter.api.Test;
 
-/** Every construct of design section 5, and every diagnostic with its exact text and position. */
+/** Every construct of the rule language (README, Rule language), and every diagnostic with its exact text and position. */
 class GrammarTest {
     static final String DESIGN_EXAMPLES = """
             # Heat stress in the cow barn

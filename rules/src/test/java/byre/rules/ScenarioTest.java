@@ -15,7 +15,7 @@ import java.util.List;
 import java.util.Map;
 import org.junit.jupiter.api.Test;
 
-/** Semantics of design section 5 as scenarios: readings and ticks in, transitions with times out. */
+/** Semantics of the rule language (README, Rule language) as scenarios: readings and ticks in, transitions with times out. */
 class ScenarioTest {
     static final String HEAT = """
             watch heat

@@ -18,7 +18,7 @@ public record Transition(Kind kind, String watch, String zone, Level level, Stri
     public enum Kind {
         RAISED, CLEARED;
 
-        /** The event name of design section 6: {@code raised}, {@code cleared}. */
+        /** The event name in the event JSON: {@code raised}, {@code cleared}. */
         public String event() { return name().toLowerCase(); }
     }
 }
