@@ -20,7 +20,7 @@ import org.slf4j.LoggerFactory;
 /** The embedded broker's errors become one byre line each and a count, not a stack trace per bad packet. */
 class BrokerLogTest {
     @Test
-    void anOversizedAndAGarbledPacketGiveOneLineEachAndACount() throws Exception {
+    void anOversizedAGarbledAndAWildcardPublishGiveOneLineEachAndACount() throws Exception {
         SimpleMeterRegistry registry = new SimpleMeterRegistry();
         Logger root = (Logger) LoggerFactory.getLogger(org.slf4j.Logger.ROOT_LOGGER_NAME);
         ListAppender<ILoggingEvent> log = new ListAppender<>();
@@ -43,6 +43,15 @@ class BrokerLogTest {
                 out.flush();
                 await().atMost(Duration.ofSeconds(10)).until(() -> registry.get("byre.broker.errors").functionCounter().count() >= before + 2);
             }
+            try (Socket s = new Socket("127.0.0.1", broker.port())) {
+                // a client that connects and publishes to a topic with a wildcard, which MQTT forbids in PUBLISH
+                OutputStream out = s.getOutputStream();
+                byte[] connect = concat(str("MQTT"), new byte[] {4, 2, 0, 60}, str("larkmoor-raw"));
+                byte[] publish = concat(str("larkmoor/+/dry"), "12.5".getBytes(java.nio.charset.StandardCharsets.UTF_8));
+                out.write(concat(new byte[] {0x10, (byte) connect.length}, connect, new byte[] {0x30, (byte) publish.length}, publish));
+                out.flush();
+                await().atMost(Duration.ofSeconds(10)).until(() -> registry.get("byre.broker.errors").functionCounter().count() >= before + 3);
+            }
             c.close(true);
         } finally {
             root.detachAppender(log);
@@ -55,8 +64,20 @@ class BrokerLogTest {
         List<String> ours = events.stream().filter(e -> e.getFormattedMessage().startsWith("embedded broker: "))
                 .map(ILoggingEvent::getFormattedMessage).toList();
         assertTrue(ours.stream().anyMatch(m -> m.contains("TooLongFrameException") && m.contains("larkmoor-big")), ours.toString());
-        assertTrue(ours.size() >= 2 && ours.size() <= 4, ours.toString());
+        assertTrue(ours.stream().anyMatch(m -> m.contains("larkmoor/+/dry")), ours.toString());
+        assertTrue(ours.size() >= 3 && ours.size() <= 6, ours.toString());
         assertTrue(events.stream().filter(e -> e.getFormattedMessage().startsWith("embedded broker: ")).allMatch(e -> e.getThrowableProxy() == null));
+    }
+
+    static byte[] str(String s) {
+        byte[] b = s.getBytes(java.nio.charset.StandardCharsets.UTF_8);
+        return concat(new byte[] {(byte) (b.length >> 8), (byte) b.length}, b);
+    }
+
+    static byte[] concat(byte[]... parts) {
+        java.io.ByteArrayOutputStream out = new java.io.ByteArrayOutputStream();
+        for (byte[] p : parts) out.writeBytes(p);
+        return out.toByteArray();
     }
 
     @Test
