@@ -16,6 +16,8 @@ final class Instance {
     Nodes.Test clear;
     Nodes.Num probe;
     Stream[] silentStreams = new Stream[0];
+    /** The stream of a raise condition that is {@code silent(term)}: its last reading is the alert's {@code since}. */
+    Stream silenceOf;
 
     AlertState state = AlertState.CLEAR;
     long since = NONE;

@@ -35,17 +35,24 @@ public final class Stream {
         for (Agg a : aggs) a.push(t, v);
     }
 
-    boolean fresh(long now) { return lastAt != NONE && now - lastAt < maxAgeMs; }
+    /** A reading exactly max-age old is still fresh: a sensor reporting every max-age never looks stale. */
+    boolean fresh(long now) { return lastAt != NONE && now - lastAt <= maxAgeMs; }
 
     double latest(long now) { return fresh(now) ? last : Double.NaN; }
 
-    /** No reading within the freshness limit; before the first reading, counted from the engine's start. */
+    /**
+     * Silent from the moment the newest reading is max-age old (the instant at which it is still fresh,
+     * so timers land on whole times); before the first reading, counted from the engine's start.
+     */
     boolean silent(long now, long engineStart) {
         long ref = lastAt != NONE ? lastAt : engineStart;
         return now - ref >= maxAgeMs;
     }
 
     long silentAt(long engineStart) { return (lastAt != NONE ? lastAt : engineStart) + maxAgeMs; }
+
+    /** Time of the newest reading, or the engine's start before the first: what a silence is "since". */
+    long quietSince(long engineStart) { return lastAt != NONE ? lastAt : engineStart; }
 
     /** Unknown (-1) without a fresh reading, else 1 when the value has not changed for the window. */
     int stuck(long now, long windowMs) {

@@ -85,6 +85,9 @@ public final class WatchEngine {
                 inst.clear = w.clearCondition() == null ? null : nodes.bind(w.clearCondition());
                 inst.probe = nodes.firstValue != null ? nodes.firstValue : t -> Double.NaN;
                 inst.silentStreams = nodes.silent.toArray(new Stream[0]);
+                if (w.raiseCondition() instanceof byre.rules.eval.Plan.Silent q) {
+                    inst.silenceOf = stream(q.term().zone() != null ? q.term().zone() : z, q.term().quantity());
+                }
                 instances.add(inst);
                 byKey.put(inst.key(), inst);
             }
@@ -182,7 +185,7 @@ public final class WatchEngine {
             case CLEAR:
                 if (r == Nodes.T && inWindow(inst, t)) {
                     inst.state = AlertState.HOLDING;
-                    inst.since = t;
+                    inst.since = inst.silenceOf != null ? inst.silenceOf.quietSince(start) : t;
                     inst.holdStart = t;
                     if (inst.raiseHold == 0) raise(inst, t);
                 }
