@@ -49,6 +49,7 @@ public final class Daemon implements AutoCloseable {
     private WatchStage watches;
     private byre.notify.AlertService alerts;
     private volatile boolean reloadRequested;
+    private RuleReload reloads;
 
     private Daemon(ByreConfig config, Clock clock, byre.time.Ticker ticker, MeterRegistry registry) {
         this.config = config;
@@ -124,11 +125,16 @@ public final class Daemon implements AutoCloseable {
                         .description("Watch instances by state (clear ones are not counted)").register(registry);
             }
             pipeline.addListener(new SelfWatch(writer, alerts));
-            pipeline.addListener(new RuleReload(rules, watches, () -> {
+            reloads = new RuleReload(rules, watches, () -> {
                 boolean asked = reloadRequested;
                 reloadRequested = false;
                 return asked;
-            }));
+            });
+            pipeline.addListener(reloads);
+            io.micrometer.core.instrument.FunctionCounter.builder("byre.rules.reloads", reloads, RuleReload::loaded).tag("result", "loaded")
+                    .description("Rule reloads since start").register(registry);
+            io.micrometer.core.instrument.FunctionCounter.builder("byre.rules.reloads", reloads, RuleReload::refused).tag("result", "refused")
+                    .description("Rule reloads since start").register(registry);
             extraListeners.forEach(pipeline::addListener);
 
             IngestStage ingest = new IngestStage(config.sensors().values(), clock, ticker, registry, pipeline::offer, FLOOD_LIMIT_PER_SENSOR);
@@ -173,6 +179,12 @@ public final class Daemon implements AutoCloseable {
 
     public WatchStage watches() {
         return watches;
+    }
+
+    /** Rule reloads since start that went live ({@code true}) or were refused for errors ({@code false}). */
+    public long ruleReloads(boolean live) {
+        RuleReload r = reloads;
+        return r == null ? 0 : live ? r.loaded() : r.refused();
     }
 
     /** A start-up refusal whose message is for the operator. */

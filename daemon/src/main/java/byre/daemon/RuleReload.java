@@ -17,6 +17,8 @@ final class RuleReload implements Pipeline.ZoneListener {
     private final WatchStage watches;
     private final BooleanSupplier asked;
     private final Cadence checks = new Cadence(java.time.Duration.ofSeconds(2), java.time.Duration.ofSeconds(10));
+    private final java.util.concurrent.atomic.AtomicLong loaded = new java.util.concurrent.atomic.AtomicLong();
+    private final java.util.concurrent.atomic.AtomicLong refused = new java.util.concurrent.atomic.AtomicLong();
 
     RuleReload(RuleLoader rules, WatchStage watches, BooleanSupplier asked) {
         this.rules = rules;
@@ -33,8 +35,23 @@ final class RuleReload implements Pipeline.ZoneListener {
         if (!checks.due(now) && !requested) return;
         if (requested) checks.restart(now);
         if (requested || rules.changed()) {
-            rules.load().ifPresentOrElse(rs -> watches.reload(rs, now),
-                    () -> LOG.error("reload refused: the rule files have errors; the previous rules keep running"));
+            rules.load().ifPresentOrElse(rs -> {
+                watches.reload(rs, now);
+                loaded.incrementAndGet();
+            }, () -> {
+                LOG.error("reload refused: the rule files have errors; the previous rules keep running");
+                refused.incrementAndGet();
+            });
         }
+    }
+
+    /** Reloads done since start (read on any thread: tests and the metrics see that a reload happened). */
+    long loaded() {
+        return loaded.get();
+    }
+
+    /** Reloads refused for errors in the rule files. */
+    long refused() {
+        return refused.get();
     }
 }

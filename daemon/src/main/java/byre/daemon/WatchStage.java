@@ -56,11 +56,11 @@ public final class WatchStage implements Pipeline.ZoneListener {
         this.siteZone = siteZone;
         this.outcomes = outcomes;
         this.options = new WatchEngine.Options(WatchEngine.Options.live().maxClockStep(), usUnits);
-        this.engine = build(rules, load(), now);
+        this.engine = build(rules, load(), now, null);
     }
 
-    private WatchEngine build(RuleSet rules, Map<String, String> state, Instant now) {
-        WatchEngine e = new WatchEngine(rules, siteZone, options);
+    private WatchEngine build(RuleSet rules, Map<String, String> state, Instant now, WatchEngine previous) {
+        WatchEngine e = new WatchEngine(rules, siteZone, options, previous);
         for (String skipped : e.restore(state)) LOG.info("alert state not carried over: {}", skipped);
         prime(e, now);
         return e;
@@ -79,12 +79,17 @@ public final class WatchStage implements Pipeline.ZoneListener {
         }
     }
 
-    /** Swaps in new rules; the state of watches that still exist carries over. */
+    /**
+     * Swaps in new rules. A watch whose definition did not change keeps everything: state, running hold
+     * timers, windows. One that changed keeps a raised alert raised (its hold restarts); windows of an
+     * unchanged function and length carry over, new ones are filled from history.
+     */
     public void reload(RuleSet rules, Instant now) {
         Map<String, String> state = engine.snapshot();
-        engine = build(rules, state, now);
+        engine = build(rules, state, now, engine);
         save(now, true);
-        LOG.info("rules reloaded: {} watches", rules.watches().size());
+        LOG.info("rules reloaded: {} watches; {} of {} watch instances unchanged, their holds and windows carried over",
+                rules.watches().size(), engine.carriedInstances(), engine.instanceCount());
     }
 
     /** Instances in a state, for the metrics; read on other threads, so a small race is harmless. */

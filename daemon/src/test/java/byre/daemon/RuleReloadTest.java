@@ -59,17 +59,22 @@ class RuleReloadTest {
         ByreConfig cfg = ConfigLoader.parse("byre.yaml", yaml, dir, n -> null);
         try (Daemon d = Daemon.create(cfg, Clock.systemUTC(), new SimpleMeterRegistry()).start(new ClimateDeriver())) {
             assertEquals(List.of("heat-stress"), names(d));
+            assertEquals(0, d.ruleReloads(true));
             edit(heat, watch("heat-stress") + "\n" + watch("heat-danger"), 5);
-            await().atMost(Duration.ofSeconds(10)).until(() -> names(d).equals(List.of("heat-stress", "heat-danger")));
+            // Each step first waits until the daemon has observably acted on the edit, then asserts.
+            await().atMost(Duration.ofSeconds(10)).until(() -> d.ruleReloads(true) == 1);
+            assertEquals(List.of("heat-stress", "heat-danger"), names(d));
 
             edit(heat, "watch broken\n  raise when cows.thii >= 72\n", 10);
-            Thread.sleep(3500); // longer than the 2 s check: the bad file has been seen and refused
+            await().atMost(Duration.ofSeconds(10)).until(() -> d.ruleReloads(false) == 1); // the bad file was read and refused
             assertEquals(List.of("heat-stress", "heat-danger"), names(d), "a bad file keeps the running rules");
+            assertEquals(1, d.ruleReloads(true));
 
             edit(rules.resolve("cold.rules"), watch("cold"), 15);
             edit(heat, watch("heat-stress"), 15);
             d.reload(); // SIGHUP does the same at once
-            await().atMost(Duration.ofSeconds(5)).until(() -> names(d).equals(List.of("cold", "heat-stress")));
+            // (the 2 s check may see the two edits one at a time first: wait for the rules both give)
+            await().atMost(Duration.ofSeconds(10)).until(() -> names(d).equals(List.of("cold", "heat-stress")));
         }
     }
 }

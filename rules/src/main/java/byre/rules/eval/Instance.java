@@ -26,6 +26,8 @@ final class Instance {
     double value = Double.NaN;
     long due = NONE;
     long dueStamp;
+    /** Took over the state of the same, unchanged watch across a reload. */
+    boolean carried;
 
     Instance(Watch watch, String zone) {
         this.watch = watch;
@@ -33,6 +35,16 @@ final class Instance {
         this.raiseHold = watch.raiseHold().toMillis();
         this.clearHold = watch.clearHold().toMillis();
         this.only = watch.onlyBetween().orElse(null);
+    }
+
+    /** The state of the same instance before a reload (same watch definition): hold timers run on. */
+    void takeOver(Instance before) {
+        state = before.state;
+        since = before.since;
+        holdStart = before.holdStart;
+        raisedAt = before.raisedAt;
+        value = before.value;
+        carried = true;
     }
 
     String key() { return watch.name() + "/" + zone; }

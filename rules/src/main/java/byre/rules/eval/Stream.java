@@ -19,6 +19,10 @@ public final class Stream {
     private Agg[] aggs = new Agg[0];
     private final Map<String, Agg> byKey = new HashMap<>();
     Instance[] dependents = new Instance[0];
+    /** The same stream of the engine before a reload: its latest reading and windows carry over. */
+    private Stream carriedFrom;
+    /** Windows new with this engine, which {@link #prime} fills from history (carried ones are already full). */
+    private Agg[] toPrime = new Agg[0];
 
     Stream(String zone, Quantity quantity, long maxAgeMs) {
         this.zone = zone;
@@ -36,6 +40,23 @@ public final class Stream {
     }
 
     /** A reading exactly max-age old is still fresh: a sensor reporting every max-age never looks stale. */
+    /** Takes over the latest reading and constant run of the same stream before a reload; its windows are reused by key. */
+    void carryFrom(Stream old) {
+        carriedFrom = old;
+        last = old.last;
+        lastAt = old.lastAt;
+        runStart = old.runStart;
+    }
+
+    /** A reading from history, before the first live one: fills only what did not carry over a reload. */
+    void prime(long t, double v) {
+        if (carriedFrom == null) {
+            push(t, v);
+            return;
+        }
+        for (Agg a : toPrime) a.push(t, v);
+    }
+
     boolean fresh(long now) { return lastAt != NONE && now - lastAt <= maxAgeMs; }
 
     double latest(long now) { return fresh(now) ? last : Double.NaN; }
@@ -63,13 +84,21 @@ public final class Stream {
     Agg agg(String key, java.util.function.Supplier<Agg> make) {
         Agg a = byKey.get(key);
         if (a == null) {
-            a = make.get();
+            a = carriedFrom == null ? null : carriedFrom.byKey.get(key); // same key: same function over the same window
+            if (a == null) {
+                a = make.get();
+                toPrime = append(toPrime, a);
+            }
             byKey.put(key, a);
-            List<Agg> l = new ArrayList<>(List.of(aggs));
-            l.add(a);
-            aggs = l.toArray(new Agg[0]);
+            aggs = append(aggs, a);
         }
         return a;
+    }
+
+    private static Agg[] append(Agg[] to, Agg a) {
+        List<Agg> l = new ArrayList<>(List.of(to));
+        l.add(a);
+        return l.toArray(new Agg[0]);
     }
 
     void addDependent(Instance i) {

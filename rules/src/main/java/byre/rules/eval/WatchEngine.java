@@ -66,17 +66,37 @@ public final class WatchEngine {
     private long offset;
     private long clockJumps;
     private long dropped;
+    private WatchEngine previous;
 
     public WatchEngine(RuleSet rules, ZoneId siteZone) {
         this(rules, siteZone, Options.replay());
     }
 
     public WatchEngine(RuleSet rules, ZoneId siteZone, Options options) {
+        this(rules, siteZone, options, null);
+    }
+
+    /**
+     * An engine for reloaded rules that takes over from {@code previous}: its time, every stream's latest
+     * reading and the windows whose function and length are unchanged, and the whole state (hold timers
+     * included) of every instance whose watch is defined exactly as before. Other instances start clear;
+     * {@link #restore} gives them their saved state. Call it on the thread that ran {@code previous},
+     * which must not be used afterwards.
+     */
+    public WatchEngine(RuleSet rules, ZoneId siteZone, Options options, WatchEngine previous) {
         this.rules = rules;
         this.siteZone = siteZone;
         this.zoneRules = siteZone.getRules();
         this.maxStep = options.maxClockStep() == null ? 0 : Math.max(1, options.maxClockStep().toMillis());
         this.usUnits = options.usUnits();
+        this.previous = previous;
+        if (previous != null) {
+            now = previous.now;
+            start = previous.start;
+            offset = previous.offset;
+            clockJumps = previous.clockJumps;
+            dropped = previous.dropped;
+        }
         for (Watch w : rules.watches()) {
             for (String z : w.zones()) {
                 Instance inst = new Instance(w, z);
@@ -88,10 +108,14 @@ public final class WatchEngine {
                 if (w.raiseCondition() instanceof byre.rules.eval.Plan.Silent q) {
                     inst.silenceOf = stream(q.term().zone() != null ? q.term().zone() : z, q.term().quantity());
                 }
+                Instance before = previous == null ? null : previous.byKey.get(inst.key());
+                if (before != null && before.watch.sameDefinition(w)) inst.takeOver(before);
                 instances.add(inst);
                 byKey.put(inst.key(), inst);
             }
         }
+        this.previous = null; // only the construction reads it
+        if (now != NONE) for (Instance inst : instances) schedule(inst, now); // carried holds and silences keep their due times
     }
 
     private Stream stream(String zone, Quantity q) {
@@ -99,6 +123,8 @@ public final class WatchEngine {
         Stream s = row[q.ordinal()];
         if (s == null) {
             s = new Stream(zone, q, rules.maxAge(zone).toMillis());
+            Stream[] before = previous == null ? null : previous.streams.get(zone);
+            if (before != null && before[q.ordinal()] != null) s.carryFrom(before[q.ordinal()]);
             row[q.ordinal()] = s;
         }
         return s;
@@ -136,7 +162,7 @@ public final class WatchEngine {
         if (r == null || r.at() == null || r.quantity() == null || !Double.isFinite(r.value())) return;
         Stream[] row = streams.get(r.zone());
         Stream s = row == null ? null : row[r.quantity().ordinal()];
-        if (s != null) s.push(r.at().toEpochMilli() - offset, r.value());
+        if (s != null) s.prime(r.at().toEpochMilli() - offset, r.value());
     }
 
     private List<Transition> drain() {
@@ -311,6 +337,7 @@ public final class WatchEngine {
         if (snapshot == null) return problems;
         for (Map.Entry<String, String> e : snapshot.entrySet()) {
             Instance inst = byKey.get(e.getKey());
+            if (inst != null && inst.carried) continue; // took over its exact state from the engine before the reload
             if (inst == null) {
                 problems.add(e.getKey() + ": no such watch instance in the current rules; skipped");
                 continue;
@@ -339,6 +366,16 @@ public final class WatchEngine {
         }
         return problems;
     }
+
+    /** How many instances took over their state, hold timers included, from the engine before a reload. */
+    public int carriedInstances() {
+        int n = 0;
+        for (Instance inst : instances) if (inst.carried) n++;
+        return n;
+    }
+
+    /** All (watch, zone) instances. */
+    public int instanceCount() { return instances.size(); }
 
     /** Every instance that is not clear. */
     public List<InstanceState> openInstances() {
