@@ -44,20 +44,27 @@ final class CheckCommand implements Callable<Integer> {
             System.err.println("byre check: " + e.getMessage());
             return Main.USAGE;
         }
-        // Hold times are compared with how often the streams really report, where the history knows it.
+        // Hold times and max-ages are compared with how often the streams really report, where the history knows it;
+        // zones without a max-age get the one the daemon would learn.
+        java.util.Map<String, java.time.Duration> intervals = byre.daemon.ReportingIntervals.sensorsFromHistory(cfg, java.time.Instant.now());
+        ByreConfig learnt = byre.daemon.Freshness.resolve(cfg, intervals);
+        List<String> freshness = byre.daemon.Freshness.warnings(learnt, intervals);
+        for (String w : freshness) System.err.println(config.path() + ": warning: " + w);
+        if (!freshness.isEmpty()) System.err.println();
         CompileResult result = RuleCompiler.compile(sources,
-                new ConfigRuleContext(cfg, byre.daemon.ReportingIntervals.fromHistory(cfg, java.time.Instant.now())));
+                new ConfigRuleContext(learnt, byre.daemon.ReportingIntervals.byZone(cfg, intervals)));
         if (!result.diagnostics().isEmpty()) System.err.println(result.render() + "\n");
         int watches = result.ruleSet().map(rs -> rs.watches().size()).orElse(0);
+        int warnings = result.warnings().size() + freshness.size();
         if (result.hasErrors()) {
             System.err.printf("byre check: %d error%s, %d warning%s in %d rule file%s; fix them before the rules go live (a running daemon keeps its old rules).%n",
-                    result.errors().size(), plural(result.errors().size()), result.warnings().size(), plural(result.warnings().size()),
+                    result.errors().size(), plural(result.errors().size()), warnings, plural(warnings),
                     sources.size(), plural(sources.size()));
             return Main.USAGE;
         }
         System.out.printf("%s: configuration ok (%d sensors, %d zones, %d channels); %d rule file%s ok, %d watch%s, %d warning%s.%n",
                 config.path(), cfg.sensors().size(), cfg.zones().size(), cfg.channels().size(), sources.size(), plural(sources.size()),
-                watches, watches == 1 ? "" : "es", result.warnings().size(), plural(result.warnings().size()));
+                watches, watches == 1 ? "" : "es", warnings, plural(warnings));
         if (watches > 0) System.out.println(SAFETY);
         return Main.OK;
     }

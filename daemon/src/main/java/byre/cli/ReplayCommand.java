@@ -7,6 +7,8 @@ import byre.config.ConfigLoader;
 import byre.config.ConfigProblem;
 import byre.config.SensorConfig;
 import byre.daemon.ConfigRuleContext;
+import byre.daemon.Freshness;
+import byre.daemon.ReportingIntervals;
 import byre.daemon.Replay;
 import byre.daemon.RuleFiles;
 import byre.history.HistoryReader;
@@ -108,7 +110,27 @@ final class ReplayCommand implements Callable<Integer> {
                 return Main.USAGE;
             }
         }
-        RuleContext ctx = config != null ? new ConfigRuleContext(config) : csvContext(zoneRows);
+        // Max-ages as the daemon would have them: zones without one follow how often their streams report,
+        // learnt from the readings replayed (or, for the history, from its last day before the end).
+        List<Freshness.StreamInterval> intervals = new ArrayList<>();
+        Map<String, java.time.Duration> sensorIntervals = Map.of();
+        if (config != null && !sensorRows.isEmpty()) {
+            sensorIntervals = medianGaps(sensorRows, Reading::sensorId, Reading::at);
+        } else if (config != null && readings == null) {
+            Instant endGuess = to == null ? Instant.now() : TimeArg.parse(to, Instant.now(), zone).orElse(Instant.now());
+            sensorIntervals = ReportingIntervals.sensorsFromHistory(config, endGuess);
+        }
+        if (config != null) intervals.addAll(Freshness.ofSensors(config, sensorIntervals));
+        medianGaps(zoneRows, r -> r.zone() + "\t" + r.quantity().id(), ZoneReading::at).forEach((k, d) -> {
+            String z = k.substring(0, k.indexOf('\t'));
+            intervals.add(new Freshness.StreamInterval(z, z + "." + k.substring(k.indexOf('\t') + 1), d));
+        });
+        ByreConfig learnt = config == null ? null : Freshness.resolve(config, intervals);
+        if (learnt != null) {
+            for (String w : Freshness.warnings(learnt, intervals)) System.err.println("byre replay: warning: " + w);
+        }
+        RuleContext ctx = learnt != null ? new ConfigRuleContext(learnt, ReportingIntervals.byZone(config, sensorIntervals))
+                : csvContext(zoneRows, Freshness.learntByZone(intervals));
         List<RuleSource> sources;
         try {
             sources = RuleFiles.read(rules);
@@ -122,7 +144,7 @@ final class ReplayCommand implements Callable<Integer> {
         RuleSet ruleSet = compiled.ruleSet().orElseThrow();
 
         Replay replay = new Replay(ruleSet, zone, config != null ? config.site() : "replay",
-                config != null ? new ArrayList<>(config.zones().values()) : null, new ClimateDeriver(),
+                learnt != null ? new ArrayList<>(learnt.zones().values()) : null, new ClimateDeriver(),
                 config != null && config.units() == ByreConfig.DisplayUnits.US);
         List<AlertEvent> events = new ArrayList<>();
         Instant end;
@@ -155,12 +177,38 @@ final class ReplayCommand implements Callable<Integer> {
         }
         if (!json) System.err.printf("byre replay: %d event%s from %d watch%s.%n", events.size(), events.size() == 1 ? "" : "s",
                 ruleSet.watches().size(), ruleSet.watches().size() == 1 ? "" : "es");
+        List<String> noData = replay.noDataLines(end);
+        if (!noData.isEmpty()) {
+            System.err.println("byre replay: share of the replayed time each watch had no data for a term (no reading within its zone's max-age):");
+            noData.forEach(System.err::println);
+        }
         return Main.OK;
+    }
+
+    /** The median gap between each key's successive times (readings in time order); keys with too few left out. */
+    static <T> Map<String, java.time.Duration> medianGaps(List<T> rows, java.util.function.Function<T, String> key,
+                                                         java.util.function.Function<T, Instant> at) {
+        final class Times {
+            long[] ms = new long[16];
+            int n;
+        }
+        Map<String, Times> times = new java.util.LinkedHashMap<>();
+        for (T r : rows) {
+            Times t = times.computeIfAbsent(key.apply(r), k -> new Times());
+            if (t.n == t.ms.length) t.ms = java.util.Arrays.copyOf(t.ms, t.n * 2);
+            t.ms[t.n++] = at.apply(r).toEpochMilli();
+        }
+        Map<String, java.time.Duration> out = new java.util.LinkedHashMap<>();
+        times.forEach((k, t) -> {
+            java.time.Duration d = ReportingIntervals.medianGap(t.ms, t.n);
+            if (d != null) out.put(k, d);
+        });
+        return out;
     }
 
 
     /** Rules checked against the zones a CSV names; any channel name is accepted (nothing is sent). */
-    private static RuleContext csvContext(List<ZoneReading> rows) {
+    private static RuleContext csvContext(List<ZoneReading> rows, Map<String, java.time.Duration> maxAges) {
         Set<String> zones = new LinkedHashSet<>();
         for (ZoneReading r : rows) zones.add(r.zone());
         Set<String> anyChannel = new AbstractSet<>() {
@@ -198,6 +246,11 @@ final class ReplayCommand implements Callable<Integer> {
             @Override
             public Set<Quantity> quantities(String zone) {
                 return java.util.EnumSet.allOf(Quantity.class);
+            }
+
+            @Override
+            public java.time.Duration maxAge(String zone) {
+                return maxAges.getOrDefault(zone, RuleContext.DEFAULT_MAX_AGE);
             }
         };
     }

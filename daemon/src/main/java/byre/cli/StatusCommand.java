@@ -70,7 +70,9 @@ final class StatusCommand implements Callable<Integer> {
      * Collects what the screen shows. {@code live} is the daemon's answer (null when it did not answer): its values
      * are newer than the database's (zone streams are stored once a minute), and its alerts replace the state table's.
      */
-    static StatusData gather(ByreConfig cfg, HistoryReader r, Instant now, StatusData.Daemon daemon, AdminClient.Live live) {
+    static StatusData gather(ByreConfig configured, HistoryReader r, Instant now, StatusData.Daemon daemon, AdminClient.Live live) {
+        // Stale and silent by the max-ages the daemon uses: zones without one follow their sensors' intervals.
+        ByreConfig cfg = byre.daemon.Freshness.resolve(configured, byre.daemon.ReportingIntervals.sensors(r, configured, now));
         List<OpenAlert> liveAlerts = live == null ? null : live.alerts();
         Map<String, HistoryRow> latest = new HashMap<>();
         for (HistoryRow row : r.latest()) latest.put(row.stream().toString(), row);

@@ -26,6 +26,10 @@ public record ByreConfig(Path file, String site, ZoneId timezone, DisplayUnits u
         return new ByreConfig(file, site, timezone, units, mqtt, sensors, zones, channels, rulePaths, history, a, alerts);
     }
 
+    public ByreConfig withZones(Map<String, ZoneConfig> z) {
+        return new ByreConfig(file, site, timezone, units, mqtt, sensors, z, channels, rulePaths, history, admin, alerts);
+    }
+
     public ByreConfig withRulePaths(List<Path> paths) {
         return new ByreConfig(file, site, timezone, units, mqtt, sensors, zones, channels, paths, history, admin, alerts);
     }

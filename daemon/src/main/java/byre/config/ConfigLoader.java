@@ -317,12 +317,13 @@ public final class ConfigLoader {
             } else if (!ps.equals("aspirated")) {
                 problem(f.get("psychrometer"), "psychrometer must be 'aspirated' or 'screen', not '" + ps + "'" + Suggest.hint(ps, List.of("aspirated", "screen")));
             }
-            Duration maxAge = duration(f.get("max-age"), "max-age", Duration.ofMinutes(5));
+            // Without max-age the zone's max-age follows how often its sensors report (byre.daemon.Freshness).
+            Duration maxAge = duration(f.get("max-age"), "max-age", ZoneConfig.UNLEARNT_MAX_AGE);
             String thi = string(f.get("thi"), "thi", "nrc-1971");
             if (!THI_VARIANTS.contains(thi)) {
                 problem(f.get("thi"), "unknown THI variant '" + thi + "'" + Suggest.hint(thi, THI_VARIANTS) + "; one of " + String.join(", ", THI_VARIANTS));
             }
-            out.put(id, new ZoneConfig(id, groups, zs, elevationM, psychrometer, maxAge, thi, line(n)));
+            out.put(id, new ZoneConfig(id, groups, zs, elevationM, psychrometer, maxAge, thi, line(n), f.get("max-age") == null));
         }
         return out;
     }

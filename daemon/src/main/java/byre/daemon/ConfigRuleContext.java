@@ -83,7 +83,7 @@ public final class ConfigRuleContext implements RuleContext {
     @Override
     public Duration maxAge(String zone) {
         ZoneConfig z = config.zones().get(zone);
-        return z == null ? Duration.ofMinutes(5) : z.maxAge();
+        return z == null ? ZoneConfig.UNLEARNT_MAX_AGE : z.maxAge();
     }
 
     @Override

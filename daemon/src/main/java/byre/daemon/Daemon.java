@@ -96,7 +96,8 @@ public final class Daemon implements AutoCloseable {
                     config.history().keepHour()), clock);
             registerHistoryMeters();
 
-            zones = new ZoneStage(new ArrayList<>(config.zones().values()), deriver, new ZoneMetrics(registry));
+            // Zones combine inputs with the max-ages known at start (learnt from the history where not configured).
+            zones = new ZoneStage(new ArrayList<>(rules.effective().zones().values()), deriver, new ZoneMetrics(registry));
             pipeline = new Pipeline(zones, writer, clock, ticker);
             Gauge.builder("byre.pipeline.queue", pipeline, Pipeline::depth).description("Zone readings waiting for the pipeline thread").register(registry);
 
@@ -113,7 +114,7 @@ public final class Daemon implements AutoCloseable {
             if (config.alerts().digestAt() != null) {
                 String last = store.loadState(byre.notify.AlertService.DIGEST_KEY).get(byre.notify.AlertService.DIGEST_KEY);
                 alerts.scheduleDigest(config.alerts().digestAt(), config.timezone(), config.alerts().digestNotify(), config.site(),
-                        byre.alerts.IdSource.random(), (from, to) -> NightDigestReader.read(store, config, from, to, alertStage::episodes),
+                        byre.alerts.IdSource.random(), (from, to) -> NightDigestReader.read(store, rules.effective(), from, to, alertStage::episodes),
                         last == null ? null : java.time.Instant.parse(last));
             }
             watches = new WatchStage(ruleSet, store, config.timezone(), alertStage, clock.instant(),

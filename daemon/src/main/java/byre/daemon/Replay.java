@@ -30,7 +30,9 @@ public final class Replay {
     private final WatchEngine engine;
     private final IncidentBook book;
     private final ZoneStage zones;
+    private final NoDataReport noData;
     private Instant now;
+    private Instant first;
 
     public Replay(RuleSet rules, ZoneId siteZone, String site, List<ZoneConfig> zoneConfigs, ZoneDeriver deriver) {
         this(rules, siteZone, site, zoneConfigs, deriver, false);
@@ -40,6 +42,7 @@ public final class Replay {
     public Replay(RuleSet rules, ZoneId siteZone, String site, List<ZoneConfig> zoneConfigs, ZoneDeriver deriver, boolean usUnits) {
         this.engine = new WatchEngine(rules, siteZone, new WatchEngine.Options(null, usUnits));
         this.book = new IncidentBook(site, IdSource.counting(), new EventText(site, usUnits, AckLinks.NONE));
+        this.noData = new NoDataReport(rules);
         this.zones = zoneConfigs == null ? null : new ZoneStage(zoneConfigs, deriver, new ZoneStage.Observer() {
             @Override
             public void wetBulbAboveDryBulb(String zone, double excessC) {}
@@ -55,7 +58,7 @@ public final class Replay {
     /** A zone-level reading straight into the watches. */
     public List<AlertEvent> zoneReading(ZoneReading r) {
         List<AlertEvent> out = advanceTo(r.at());
-        handle(engine.accept(r), out);
+        feed(r, out);
         return out;
     }
 
@@ -63,20 +66,39 @@ public final class Replay {
     public List<AlertEvent> sensorReading(Reading r) {
         if (zones == null) throw new IllegalStateException("sensor readings need the configuration's zones");
         List<AlertEvent> out = advanceTo(r.at());
-        zones.accept(r, zr -> handle(engine.accept(zr), out));
+        zones.accept(r, zr -> feed(zr, out));
         return out;
     }
 
     /** Lets time pass up to {@code t}: hold timers, silence, reminders and escalations due by then. */
     public List<AlertEvent> advanceTo(Instant t) {
         List<AlertEvent> out = new ArrayList<>();
-        if (now == null) now = t;
+        if (now == null) {
+            now = t;
+            first = t;
+        }
         while (now.isBefore(t)) {
             now = now.plusSeconds(1).isAfter(t) ? t : now.plusSeconds(1);
-            if (zones != null) zones.derivePending(now, zr -> handle(engine.accept(zr), out));
+            if (zones != null) zones.derivePending(now, zr -> feed(zr, out));
             handle(engine.tick(now), out);
             out.addAll(book.tick(now));
         }
+        return out;
+    }
+
+    private void feed(ZoneReading zr, List<AlertEvent> out) {
+        noData.reading(zr.zone(), zr.quantity(), zr.at());
+        handle(engine.accept(zr), out);
+    }
+
+    /**
+     * Per watch, the share of the replayed time (first reading to {@code end}) during which one of its terms
+     * had no data, with the stream that lacked it most: one line each, for the operator.
+     */
+    public List<String> noDataLines(Instant end) {
+        List<String> out = new ArrayList<>();
+        if (first == null || end == null) return out;
+        for (NoDataReport.Line l : noData.lines(first, end)) out.add(l.text());
         return out;
     }
 

@@ -8,7 +8,9 @@ import org.slf4j.LoggerFactory;
 
 /**
  * Reloads the rule files on the pipeline thread: every two seconds it looks for a changed file, and at
- * once when asked (SIGHUP). A file with errors leaves the running rules in place.
+ * once when asked (SIGHUP). A file with errors leaves the running rules in place. While a zone's max-age
+ * is still the fixed default (nothing learnt yet), it looks hourly whether the history now tells how
+ * often the sensors report, and reloads with the learnt max-age (unchanged watches carry over).
  */
 final class RuleReload implements Pipeline.ZoneListener {
     private static final Logger LOG = LoggerFactory.getLogger(RuleReload.class);
@@ -17,6 +19,8 @@ final class RuleReload implements Pipeline.ZoneListener {
     private final WatchStage watches;
     private final BooleanSupplier asked;
     private final Cadence checks = new Cadence(java.time.Duration.ofSeconds(2), java.time.Duration.ofSeconds(10));
+    /** A new install learns its sensors' reporting intervals as the history fills: looked at hourly until known. */
+    private final Cadence learning = new Cadence(java.time.Duration.ofHours(1), java.time.Duration.ofMinutes(10));
     private final java.util.concurrent.atomic.AtomicLong loaded = new java.util.concurrent.atomic.AtomicLong();
     private final java.util.concurrent.atomic.AtomicLong refused = new java.util.concurrent.atomic.AtomicLong();
 
@@ -32,9 +36,10 @@ final class RuleReload implements Pipeline.ZoneListener {
     @Override
     public void tick(Instant now) {
         boolean requested = asked.getAsBoolean();
-        if (!checks.due(now) && !requested) return;
+        boolean learn = learning.due(now) && rules.stillLearning() && rules.maxAgesChanged();
+        if (!checks.due(now) && !requested && !learn) return;
         if (requested) checks.restart(now);
-        if (requested || rules.changed()) {
+        if (requested || learn || rules.changed()) {
             rules.load().ifPresentOrElse(rs -> {
                 watches.reload(rs, now);
                 loaded.incrementAndGet();

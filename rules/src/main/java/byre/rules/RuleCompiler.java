@@ -39,7 +39,7 @@ public final class RuleCompiler {
         }
         boolean errors = all.stream().anyMatch(Diagnostic::isError);
         Optional<RuleSet> set = errors ? Optional.empty()
-                : Optional.of(new RuleSet(watches, ctx.site(), Checker.maxAges(ctx), java.time.Duration.ofMinutes(5)));
+                : Optional.of(new RuleSet(watches, ctx.site(), Checker.maxAges(ctx), RuleContext.DEFAULT_MAX_AGE));
         return new CompileResult(List.copyOf(all), set);
     }
 }

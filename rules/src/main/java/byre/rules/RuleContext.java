@@ -12,6 +12,12 @@ import java.util.Set;
  * {@link SimpleRuleContext} is a plain implementation for replay and tests.
  */
 public interface RuleContext {
+    /**
+     * Freshness limit of a zone nobody said anything about: a sensor reporting every 5 minutes may miss one
+     * report (the daemon learns a better one from how often the sensors report).
+     */
+    Duration DEFAULT_MAX_AGE = Duration.ofMinutes(11);
+
     /** Zone ids of the site. */
     Set<String> zones();
 
@@ -24,8 +30,8 @@ public interface RuleContext {
     /** How often a zone's stream is expected to report, if known (for the hold-time warning). */
     default Optional<Duration> reportingInterval(String zone, Quantity quantity) { return Optional.empty(); }
 
-    /** A reading older than this is not fresh; {@code silent()} turns true after it. */
-    default Duration maxAge(String zone) { return Duration.ofMinutes(5); }
+    /** A reading older than this is not fresh (one exactly this old still is); {@code silent()} turns true then. */
+    default Duration maxAge(String zone) { return DEFAULT_MAX_AGE; }
 
     /** Streams the zone provides (measured or derivable). A glob or group skips zones without the stream. */
     default Set<Quantity> quantities(String zone) { return EnumSet.allOf(Quantity.class); }
