@@ -77,4 +77,36 @@ class CheckCommandTest {
         assertTrue(r.err().contains("quick.rules:2:43: warning: hold time 20s is shorter than the 1m reporting interval of cow-shed.dry-bulb"),
                 r.err());
     }
+
+    @Test
+    void aSensorReportingCloseToItsZonesMaxAgeIsWarnedAbout() throws Exception {
+        Files.createDirectories(dir.resolve("rules.d"));
+        Files.writeString(dir.resolve("rules.d/heat.rules"),
+                "watch heat\n  raise when cow-shed.thi >= 75 for 30m\n  clear when cow-shed.thi <= 73 for 30m\n  notify office\n");
+        Path cfg = Files.writeString(dir.resolve("byre.yaml"), Files.readString(config())
+                .replace("sensors: [shed-dry, shed-rh] }", "sensors: [shed-dry, shed-rh], max-age: 5m }"));
+        // A battery dry-bulb sensor every 5 minutes, RH every minute.
+        Instant now = Instant.now();
+        try (HistoryStore store = HistoryStore.open(dir.resolve("history.db"))) {
+            HistoryWriter w = HistoryWriter.start(store, Retention.DEFAULT, Clock.systemUTC());
+            for (int i = 60; i > 0; i--) {
+                if (i % 5 == 0) w.append(StreamKey.sensor("shed-dry"), now.minusSeconds(60L * i), 20.0 + i * 0.01);
+                w.append(StreamKey.sensor("shed-rh"), now.minusSeconds(60L * i + 7), 60.0);
+            }
+            w.close();
+        }
+        CliRun r = CliRun.of("check", "--config", cfg.toString());
+        assertEquals(Main.OK, r.code(), r.err());
+        assertTrue(r.err().contains("warning: stream cow-shed.dry-bulb (sensor shed-dry) reports every 5m, close to or above zone cow-shed's"
+                + " max-age of 5m: one late or missed reading leaves it without data"), r.err());
+        assertTrue(r.err().contains("set 'max-age: 13m' for zone cow-shed"), r.err());
+        assertTrue(!r.err().contains("sensor shed-rh"), "a 1-minute sensor is fine with 5m: " + r.err());
+        assertTrue(r.out().contains("1 warning."), r.out());
+
+        // Without a max-age in the file the zone follows its sensors (12m30s here): nothing to warn about.
+        Files.writeString(cfg, Files.readString(cfg).replace(", max-age: 5m }", " }"));
+        CliRun learnt = CliRun.of("check", "--config", cfg.toString());
+        assertEquals(Main.OK, learnt.code(), learnt.err());
+        assertTrue(learnt.out().contains("0 warnings"), learnt.out() + learnt.err());
+    }
 }

@@ -79,7 +79,7 @@ final class Decoded {
             seen.put(r.sensor(), r.at());
             Instant minute = Instant.ofEpochSecond(r.at().getEpochSecond() / 60 * 60);
             Map<String, Double> snapshot = new HashMap<>();
-            // only values fresher than 5 minutes, like the zone max-age in the demo configuration
+            // only values fresher than 5 minutes (the zones combine inputs of up to their max-age, at least 2m)
             for (var e : latest.entrySet()) {
                 if (seen.get(e.getKey()).isAfter(r.at().minusSeconds(300))) snapshot.put(e.getKey(), e.getValue());
             }
