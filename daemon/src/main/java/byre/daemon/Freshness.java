@@ -112,8 +112,8 @@ public final class Freshness {
 
     /** The warning for one stream: names it, its interval and the max-age, and says what goes wrong. */
     static String warning(String stream, Duration interval, String zone, Duration maxAge, String advice) {
-        return "stream " + stream + " reports every " + text(interval) + ", close to or above zone " + zone
-                + "'s max-age of " + text(maxAge) + ": one late or missed reading leaves it without data,"
+        return "stream " + stream + " reports every " + text(interval) + ", close to or above the max-age of zone " + zone
+                + " (" + text(maxAge) + "): one late or missed reading leaves it without data,"
                 + " so watches on it fall back and silent() fires" + advice;
     }
 

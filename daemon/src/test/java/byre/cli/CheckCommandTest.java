@@ -97,8 +97,8 @@ class CheckCommandTest {
         }
         CliRun r = CliRun.of("check", "--config", cfg.toString());
         assertEquals(Main.OK, r.code(), r.err());
-        assertTrue(r.err().contains("warning: stream cow-shed.dry-bulb (sensor shed-dry) reports every 5m, close to or above zone cow-shed's"
-                + " max-age of 5m: one late or missed reading leaves it without data"), r.err());
+        assertTrue(r.err().contains("warning: stream cow-shed.dry-bulb (sensor shed-dry) reports every 5m, close to or above the max-age"
+                + " of zone cow-shed (5m): one late or missed reading leaves it without data"), r.err());
         assertTrue(r.err().contains("set 'max-age: 13m' for zone cow-shed"), r.err());
         assertTrue(!r.err().contains("sensor shed-rh"), "a 1-minute sensor is fine with 5m: " + r.err());
         assertTrue(r.out().contains("1 warning."), r.out());

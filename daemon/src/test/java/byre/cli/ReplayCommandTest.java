@@ -80,4 +80,54 @@ class ReplayCommandTest {
 
         assertEquals(Main.USAGE, run("replay", "--rules", rules.toString()).code(), "neither --readings nor --from");
     }
+
+    @Test
+    void eachWatchSaysHowMuchOfTheTimeItsTermsHadNoData() throws Exception {
+        // THI every 5 minutes from 10:00 to 18:00 with a sensor outage from 12:00 to 14:00; no RH at all.
+        StringBuilder sb = new StringBuilder("time,zone,quantity,value,unit\n");
+        Instant t0 = Instant.parse("2026-07-14T10:00:00Z");
+        for (int m = 0; m <= 8 * 60; m += 5) {
+            if (m > 120 && m < 240) continue;
+            sb.append(t0.plusSeconds(60L * m)).append(",cows,thi,70,\n");
+        }
+        Path csv = Files.writeString(dir.resolve("outage.csv"), sb.toString());
+        Path rules = Files.writeString(dir.resolve("w.rules"), HEAT + """
+                watch humid
+                  raise when cows.rh >= 90 for 10m
+                  notify night-phone
+                """);
+        CliRun r = run("replay", "--rules", rules.toString(), "--readings", csv.toString());
+        assertEquals(0, r.code(), r.err());
+        assertTrue(r.err().contains("byre replay: 0 events from 2 watches."), r.err());
+        // Max-age 12m30s (learnt: 2.5 times 5 minutes): the outage leaves 12:12:30 to 14:00 without data,
+        // 107.5 of 480 minutes = 22 %.
+        assertTrue(r.err().contains("  heat-stress: no data 22 % of the replayed time (most: cows.thi, 22 %)"), r.err());
+        assertTrue(r.err().contains("  humid: no data 100 % of the replayed time (cows.rh never reported)"), r.err());
+    }
+
+    @Test
+    void aMaxAgeTooShortForTheReplayedSensorsIsWarnedAbout() throws Exception {
+        Path cfg = Files.writeString(dir.resolve("byre.yaml"), """
+                site: larkmoor
+                sensors:
+                  shed-dry: { topic: t/dry, quantity: dry-bulb }
+                  shed-rh: { topic: t/rh, quantity: rh }
+                zones:
+                  cows: { sensors: [shed-dry, shed-rh], max-age: 5m }
+                history: { path: history.db }
+                """);
+        StringBuilder sb = new StringBuilder("time,sensor,value\n");
+        Instant t0 = Instant.parse("2026-07-14T10:00:00Z");
+        for (int m = 0; m <= 120; m += 5) {
+            sb.append(t0.plusSeconds(60L * m)).append(",shed-dry,31\n");
+            sb.append(t0.plusSeconds(60L * m + 2)).append(",shed-rh,70\n");
+        }
+        Path csv = Files.writeString(dir.resolve("five.csv"), sb.toString());
+        Path rules = Files.writeString(dir.resolve("heat.rules"), HEAT.replace("notify night-phone\n", "").replace("  escalate after 45m to office\n", ""));
+        CliRun r = run("replay", "--config", cfg.toString(), "--rules", rules.toString(), "--readings", csv.toString());
+        assertEquals(0, r.code(), r.err());
+        assertTrue(r.err().contains("byre replay: warning: stream cows.dry-bulb (sensor shed-dry) reports every 5m, close to or above the max-age"
+                + " of zone cows (5m)"), r.err());
+        assertTrue(r.err().contains("byre replay: warning: stream cows.rh (sensor shed-rh) reports every 5m"), r.err());
+    }
 }

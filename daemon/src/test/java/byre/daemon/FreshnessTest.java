@@ -103,7 +103,7 @@ class FreshnessTest {
             assertEquals(Duration.ofMinutes(5), rules.maxAge("calf-pen-1"), "a max-age in the file is kept");
             assertEquals(ZoneConfig.UNLEARNT_MAX_AGE, rules.maxAge("calf-pen-2"), "no history for its sensor yet");
             List<String> warnings = log.list.stream().map(ILoggingEvent::getFormattedMessage).filter(m -> m.startsWith("stream ")).toList();
-            assertEquals(List.of("stream calf-pen-1.dry-bulb (sensor pen1-dry) reports every 5m, close to or above zone calf-pen-1's max-age of 5m:"
+            assertEquals(List.of("stream calf-pen-1.dry-bulb (sensor pen1-dry) reports every 5m, close to or above the max-age of zone calf-pen-1 (5m):"
                     + " one late or missed reading leaves it without data, so watches on it fall back and silent() fires;"
                     + " set 'max-age: 13m' for zone calf-pen-1 (byre.yaml:9), or leave max-age out to have it follow the sensors"), warnings);
             loader.load();
