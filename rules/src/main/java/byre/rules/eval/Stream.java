@@ -39,7 +39,6 @@ public final class Stream {
         for (Agg a : aggs) a.push(t, v);
     }
 
-    /** A reading exactly max-age old is still fresh: a sensor reporting every max-age never looks stale. */
     /** Takes over the latest reading and constant run of the same stream before a reload; its windows are reused by key. */
     void carryFrom(Stream old) {
         carriedFrom = old;
@@ -57,6 +56,7 @@ public final class Stream {
         for (Agg a : toPrime) a.push(t, v);
     }
 
+    /** A reading exactly max-age old is still fresh: a sensor reporting every max-age never looks stale. */
     boolean fresh(long now) { return lastAt != NONE && now - lastAt <= maxAgeMs; }
 
     double latest(long now) { return fresh(now) ? last : Double.NaN; }

@@ -105,7 +105,7 @@ public final class WatchEngine {
                 inst.clear = w.clearCondition() == null ? null : nodes.bind(w.clearCondition());
                 inst.probe = nodes.firstValue != null ? nodes.firstValue : t -> Double.NaN;
                 inst.silentStreams = nodes.silent.toArray(new Stream[0]);
-                if (w.raiseCondition() instanceof byre.rules.eval.Plan.Silent q) {
+                if (w.raiseCondition() instanceof Plan.Silent q) {
                     inst.silenceOf = stream(q.term().zone() != null ? q.term().zone() : z, q.term().quantity());
                 }
                 Instance before = previous == null ? null : previous.byKey.get(inst.key());
