@@ -20,7 +20,8 @@ final class RuleReload implements Pipeline.ZoneListener {
     private final BooleanSupplier asked;
     private final Cadence checks = new Cadence(java.time.Duration.ofSeconds(2), java.time.Duration.ofSeconds(10));
     /** A new install learns its sensors' reporting intervals as the history fills: looked at hourly until known. */
-    private final Cadence learning = new Cadence(java.time.Duration.ofHours(1), java.time.Duration.ofMinutes(10));
+    // (a step back counts from the next turn, so it must exceed the interval: else every tick would be a turn)
+    private final Cadence learning = new Cadence(java.time.Duration.ofHours(1), java.time.Duration.ofHours(2));
     private final java.util.concurrent.atomic.AtomicLong loaded = new java.util.concurrent.atomic.AtomicLong();
     private final java.util.concurrent.atomic.AtomicLong refused = new java.util.concurrent.atomic.AtomicLong();
 

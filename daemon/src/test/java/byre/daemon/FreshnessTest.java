@@ -123,4 +123,26 @@ class FreshnessTest {
         assertTrue(loader.maxAgesChanged(), "the history now knows the shed reports every minute");
         assertEquals(Duration.ofSeconds(150), loader.load().orElseThrow().maxAge("cow-shed"));
     }
+
+    @Test
+    void aNewInstallLearnsTheMaxAgeAsTheHistoryFillsAndReloadsByItself() throws Exception {
+        ByreConfig cfg = config();
+        RuleLoader loader = new RuleLoader(cfg, Clock.fixed(NOW, ZoneOffset.UTC));
+        RuleSet start = loader.load().orElseThrow();
+        assertEquals(Duration.ofMinutes(11), start.maxAge("cow-shed"));
+        try (HistoryStore store = HistoryStore.open(dir.resolve("history.db"))) {
+            WatchStage watches = new WatchStage(start, store, ZoneOffset.UTC, (t, w) -> { }, NOW);
+            RuleReload reload = new RuleReload(loader, watches, () -> false);
+            reload.tick(NOW);
+            assertEquals(0, reload.loaded(), "nothing learnt yet: nothing to reload");
+            history(60);
+            reload.tick(NOW.plusSeconds(60));
+            assertEquals(0, reload.loaded(), "looked at hourly, not at every tick");
+            reload.tick(NOW.plus(Duration.ofHours(1)));
+            assertEquals(1, reload.loaded());
+            assertEquals(Duration.ofSeconds(150), watches.engine().rules().maxAge("cow-shed"));
+            reload.tick(NOW.plus(Duration.ofHours(2)));
+            assertEquals(1, reload.loaded(), "calf-pen-2 is still unlearnt, but nothing new was learnt");
+        }
+    }
 }
