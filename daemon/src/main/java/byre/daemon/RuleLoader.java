@@ -56,11 +56,20 @@ final class RuleLoader {
         return false;
     }
 
-    /** True if the history now gives a zone a different max-age than the last load did. */
+    /**
+     * True if the history now gives a zone that still has the fixed default a learnt max-age. Reads only those
+     * zones' sensors: on the pipeline thread, hourly, it must stay cheap however busy the other sensors are.
+     */
     boolean maxAgesChanged() {
-        ByreConfig now = Freshness.resolve(config, ReportingIntervals.sensorsFromHistory(config, clock.instant()));
+        Map<String, ZoneConfig> unlearnt = new java.util.LinkedHashMap<>();
+        for (ZoneConfig z : effective.zones().values()) {
+            if (z.maxAgeLearnt() && z.maxAge().equals(ZoneConfig.UNLEARNT_MAX_AGE)) unlearnt.put(z.id(), z);
+        }
+        if (unlearnt.isEmpty()) return false;
+        ByreConfig few = config.withZones(unlearnt);
+        ByreConfig now = Freshness.resolve(few, ReportingIntervals.sensorsFromHistory(few, clock.instant()));
         for (ZoneConfig z : now.zones().values()) {
-            if (!z.maxAge().equals(effective.zones().get(z.id()).maxAge())) return true;
+            if (!z.maxAge().equals(ZoneConfig.UNLEARNT_MAX_AGE)) return true;
         }
         return false;
     }
