@@ -104,14 +104,14 @@ public final class Watch {
 
     /**
      * True when {@code other} is this watch as written, wherever it sits in its file: the same name, conditions,
-     * holds, level, channels, reminders, escalation, time window and message. A reload carries the running
+     * holds, level, channels, reminders, escalation, time window and messages. A reload carries the running
      * state and hold timers of such a watch over; the zones are compared per instance by the engine.
      */
     public boolean sameDefinition(Watch other) {
         return other != null && name.equals(other.name) && level == other.level && notify.equals(other.notify)
                 && java.util.Objects.equals(remindEvery, other.remindEvery) && java.util.Objects.equals(escalateAfter, other.escalateAfter)
-                && escalateTo.equals(other.escalateTo) && messageTemplate.equals(other.messageTemplate)
-                && java.util.Objects.equals(onlyBetween, other.onlyBetween) && raiseHold.equals(other.raiseHold)
+                && escalateTo.equals(other.escalateTo) && java.util.Objects.equals(messageTemplate, other.messageTemplate)
+                && java.util.Objects.equals(clearMessageTemplate, other.clearMessageTemplate) && java.util.Objects.equals(onlyBetween, other.onlyBetween) && raiseHold.equals(other.raiseHold)
                 && clearHold.equals(other.clearHold) && hasClearCondition == other.hasClearCondition && quantity == other.quantity
                 && raise.equals(other.raise) && java.util.Objects.equals(clear, other.clear);
     }
