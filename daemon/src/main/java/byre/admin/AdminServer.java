@@ -17,7 +17,7 @@ import java.time.Duration;
 import java.time.Instant;
 import java.util.Map;
 import java.util.concurrent.ExecutorService;
-import java.util.concurrent.Executors;
+import java.util.concurrent.TimeUnit;
 import java.util.concurrent.atomic.AtomicInteger;
 import java.util.function.Supplier;
 import org.slf4j.Logger;
@@ -32,17 +32,24 @@ import org.slf4j.LoggerFactory;
  * <li>{@code POST /ack}: body {@code {"incident":"…","by":"…"}}, needs {@code Authorization: Bearer <token>};
  *     401 without it, 404 when no {@link AckHandler} is set or the incident is unknown.</li>
  * </ul>
- * Two worker threads and small request limits: it serves one operator and one scraper, never the internet.
- * The token is compared in constant time and never logged.
+ * A few worker threads and small request limits: it serves one operator and one scraper, never the internet.
+ * A request must arrive whole (request line, headers and body) within {@link #DEFAULT_READ_TIMEOUT}; a client that
+ * sends slower has its connection closed, so slow or stalled clients cannot hold the workers and keep {@code /health}
+ * (the watchdog's question) from being answered. The token is compared in constant time and never logged.
  */
 public final class AdminServer implements AutoCloseable {
     private static final Logger LOG = LoggerFactory.getLogger(AdminServer.class);
     /** Largest request body accepted ({@code /ack} needs a few dozen bytes). */
     static final int MAX_BODY_BYTES = 4096;
     static final String PROMETHEUS_TYPE = "text/plain; version=0.0.4; charset=utf-8";
+    /** Time a client has to send a whole request; honest ones on the farm LAN need milliseconds. */
+    static final Duration DEFAULT_READ_TIMEOUT = Duration.ofSeconds(5);
+    /** Worker threads (idle ones end after 30 s): more than the slow clients one request timeout can gather easily. */
+    static final int WORKERS = 8;
 
     private final HttpServer server;
     private final ExecutorService pool;
+    private final ReadDeadlines deadlines;
     private final byte[] token;
     private final Supplier<String> metrics;
     private final HealthMonitor health;
@@ -52,10 +59,11 @@ public final class AdminServer implements AutoCloseable {
     private volatile AlertSource alerts;
     private volatile AckHandler ack;
 
-    private AdminServer(HttpServer server, ExecutorService pool, Secret token, Supplier<String> metrics, HealthMonitor health,
-                        LiveValues values, Clock clock, String site) {
+    private AdminServer(HttpServer server, ExecutorService pool, ReadDeadlines deadlines, Secret token, Supplier<String> metrics,
+                        HealthMonitor health, LiveValues values, Clock clock, String site) {
         this.server = server;
         this.pool = pool;
+        this.deadlines = deadlines;
         this.token = token == null ? null : token.reveal().strip().getBytes(StandardCharsets.UTF_8);
         this.metrics = metrics;
         this.health = health;
@@ -73,19 +81,28 @@ public final class AdminServer implements AutoCloseable {
      */
     public static AdminServer start(String host, int port, Secret token, Supplier<String> metrics, HealthMonitor health,
                                     LiveValues values, Clock clock, String site) throws IOException {
-        // Bound the time a slow or idle client may hold one of the two workers (JDK server properties, seconds).
+        return start(host, port, token, metrics, health, values, clock, site, DEFAULT_READ_TIMEOUT);
+    }
+
+    /** As above, with the time a client has to send its whole request (tests shorten it). */
+    static AdminServer start(String host, int port, Secret token, Supplier<String> metrics, HealthMonitor health,
+                             LiveValues values, Clock clock, String site, Duration readTimeout) throws IOException {
+        // The JDK server's own limits (seconds; its request limit is a backstop behind ReadDeadlines, which is exact).
         System.setProperty("sun.net.httpserver.maxReqTime", System.getProperty("sun.net.httpserver.maxReqTime", "10"));
         System.setProperty("sun.net.httpserver.maxRspTime", System.getProperty("sun.net.httpserver.maxRspTime", "30"));
         System.setProperty("sun.net.httpserver.maxReqHeaders", System.getProperty("sun.net.httpserver.maxReqHeaders", "40"));
         HttpServer http = HttpServer.create(new InetSocketAddress(host, port), 16);
         AtomicInteger n = new AtomicInteger();
-        ExecutorService pool = Executors.newFixedThreadPool(2, r -> {
-            Thread t = new Thread(r, "admin-http-" + n.incrementAndGet());
-            t.setDaemon(true);
-            return t;
-        });
-        AdminServer a = new AdminServer(http, pool, token, metrics, health, values, clock, site);
-        http.setExecutor(pool);
+        java.util.concurrent.ThreadPoolExecutor pool = new java.util.concurrent.ThreadPoolExecutor(WORKERS, WORKERS, 30, TimeUnit.SECONDS,
+                new java.util.concurrent.LinkedBlockingQueue<>(), r -> {
+                    Thread t = new Thread(r, "admin-http-" + n.incrementAndGet());
+                    t.setDaemon(true);
+                    return t;
+                });
+        pool.allowCoreThreadTimeOut(true);
+        ReadDeadlines deadlines = new ReadDeadlines(pool, readTimeout);
+        AdminServer a = new AdminServer(http, pool, deadlines, token, metrics, health, values, clock, site);
+        http.setExecutor(deadlines);
         http.createContext("/", a::handle);
         http.start();
         LOG.info("admin API on http://{}:{}/ (metrics, health, status{})", host, a.port(), token == null ? "; no token-file: /ack disabled" : ", ack");
@@ -109,6 +126,10 @@ public final class AdminServer implements AutoCloseable {
 
     private void handle(HttpExchange ex) throws IOException {
         try (ex) {
+            // The whole body first, for every request, while the read deadline runs: closing the exchange would
+            // otherwise drain a body that never comes, with no deadline left to stop it.
+            byte[] body = readLimited(ex.getRequestBody());
+            if (body != null && !ReadDeadlines.requestRead()) return; // too slow: the connection is being closed
             String path = ex.getRequestURI().getPath();
             String method = ex.getRequestMethod();
             switch (path) {
@@ -124,11 +145,11 @@ public final class AdminServer implements AutoCloseable {
                 case "/status" -> {
                     if (requireGet(ex, method)) send(ex, 200, "application/json", statusJson());
                 }
-                case "/ack" -> ack(ex, method);
+                case "/ack" -> ack(ex, method, body);
                 default -> send(ex, 404, "application/json", error("no such endpoint; try /metrics, /health, /status or POST /ack"));
             }
         } catch (RuntimeException e) {
-            LOG.warn("admin API {} {} failed: {}", ex.getRequestMethod(), ex.getRequestURI().getPath(), e.toString());
+            LOG.warn("admin API {} {} failed: {}", byre.alerts.AckBy.oneLine(ex.getRequestMethod(), 16), byre.alerts.AckBy.oneLine(ex.getRequestURI().getRawPath(), 200), e.toString());
             try {
                 send(ex, 500, "application/json", error("internal error: " + e.getClass().getSimpleName()));
             } catch (IOException | RuntimeException ignored) {
@@ -144,7 +165,7 @@ public final class AdminServer implements AutoCloseable {
         return false;
     }
 
-    private void ack(HttpExchange ex, String method) throws IOException {
+    private void ack(HttpExchange ex, String method, byte[] body) throws IOException {
         if (!method.equals("POST")) {
             ex.getResponseHeaders().set("Allow", "POST");
             send(ex, 405, "application/json", error("use POST"));
@@ -157,7 +178,6 @@ public final class AdminServer implements AutoCloseable {
                     : "missing or wrong bearer token (see admin.token-file)"));
             return;
         }
-        byte[] body = readLimited(ex.getRequestBody());
         if (body == null) {
             send(ex, 413, "application/json", error("request body over " + MAX_BODY_BYTES + " bytes"));
             return;
@@ -175,14 +195,15 @@ public final class AdminServer implements AutoCloseable {
                 send(ex, 400, "application/json", error("body must be {\"incident\":\"...\",\"by\":\"...\"}"));
                 return;
             }
-            incident = i.strip();
-            by = m.get("by") instanceof String b && !b.isBlank() ? b.strip() : "admin-api";
+            if (i.length() > 200) {
+                send(ex, 400, "application/json", error("incident is limited to 200 characters"));
+                return;
+            }
+            incident = byre.alerts.AckBy.incident(i);
+            // No control characters, at most 64 characters: the name goes into log lines and events.
+            by = byre.alerts.AckBy.clean(m.get("by") instanceof String b ? b : null, "admin-api");
         } catch (Json.JsonException e) {
             send(ex, 400, "application/json", error("body is not JSON: " + e.getMessage()));
-            return;
-        }
-        if (incident.length() > 200 || by.length() > 200) {
-            send(ex, 400, "application/json", error("incident and by are limited to 200 characters"));
             return;
         }
         AckHandler.Result r = h.acknowledge(incident, by);
@@ -196,10 +217,18 @@ public final class AdminServer implements AutoCloseable {
                 .field("message", r.message()) + "\n");
     }
 
-    private boolean authorised(String header) {
-        if (token == null || token.length == 0 || header == null || !header.startsWith("Bearer ")) return false;
-        byte[] given = header.substring("Bearer ".length()).strip().getBytes(StandardCharsets.UTF_8);
+    /** {@code Authorization: Bearer <token>}; the scheme name is case-insensitive (RFC 7235 section 2.1). */
+    static boolean authorised(byte[] token, String header) {
+        if (token == null || token.length == 0 || header == null) return false;
+        String h = header.strip();
+        int sp = h.indexOf(' ');
+        if (sp < 0 || !h.substring(0, sp).equalsIgnoreCase("Bearer")) return false;
+        byte[] given = h.substring(sp + 1).strip().getBytes(StandardCharsets.UTF_8);
         return MessageDigest.isEqual(given, token);
+    }
+
+    private boolean authorised(String header) {
+        return authorised(token, header);
     }
 
     /** The body, or null when it is longer than {@link #MAX_BODY_BYTES}. */
@@ -268,5 +297,6 @@ public final class AdminServer implements AutoCloseable {
     public void close() {
         server.stop(1);
         pool.shutdownNow();
+        deadlines.close();
     }
 }

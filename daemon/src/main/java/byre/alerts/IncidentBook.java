@@ -119,12 +119,12 @@ public final class IncidentBook {
 
     /** Acknowledges an open incident by id: tells everyone told, stops reminders and escalation. */
     public synchronized AckResult acknowledge(String incidentId, String by, Instant now) {
-        if (incidentId == null || incidentId.isBlank()) {
-            return new AckResult(AckResult.Status.INVALID, incidentId, "no incident id given", List.of());
+        // Both texts come from outside (MQTT, HTTP, the command line): cleaned here, where every path meets.
+        String id = AckBy.incident(incidentId);
+        if (id.isEmpty()) {
+            return new AckResult(AckResult.Status.INVALID, id, "no incident id given", List.of());
         }
-        String who = by == null || by.isBlank() ? "someone" : by.strip();
-        if (who.length() > 80) who = who.substring(0, 80);
-        String id = incidentId.strip();
+        String who = AckBy.clean(by, "someone");
         for (Incident inc : open.values()) {
             if (!inc.id.equals(id)) continue;
             Duration open = Duration.between(inc.since, now);

@@ -47,6 +47,7 @@ final class AckCommand implements Callable<Integer> {
         return post(URI.create("http://" + host + ":" + cfg.admin().port() + "/ack"), cfg.admin().token().reveal(), incident, who);
     }
 
+    /** Sends the acknowledgement; {@code by} is cleaned first (one line, at most 64 characters), as the daemon would. */
     static int post(URI uri, String token, String incident, String by) {
         return post(uri, token, incident, by, System.out, System.err);
     }
@@ -56,7 +57,7 @@ final class AckCommand implements Callable<Integer> {
      * ("acknowledged: heat-stress in cow-shed, open 42 min"), the reason on failure; never raw HTTP or JSON.
      */
     static int post(URI uri, String token, String incident, String by, java.io.PrintStream out, java.io.PrintStream err) {
-        String body = new JsonWriter().field("incident", incident).field("by", by).toString();
+        String body = new JsonWriter().field("incident", incident).field("by", byre.alerts.AckBy.clean(by, "cli")).toString();
         HttpRequest req = HttpRequest.newBuilder(uri).timeout(Duration.ofSeconds(10))
                 .header("Content-Type", "application/json").header("Authorization", "Bearer " + token)
                 .POST(HttpRequest.BodyPublishers.ofString(body)).build();

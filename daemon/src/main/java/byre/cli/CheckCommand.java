@@ -36,6 +36,8 @@ final class CheckCommand implements Callable<Integer> {
             System.err.println("byre check: warning: " + cfg.admin().tokenProblem()
                     + "; the daemon starts, but acknowledging through the admin API is off until the token file can be read");
         }
+        String ackWarning = cfg.mqtt().openAckWarning();
+        if (ackWarning != null) System.err.println(config.path() + ": warning: " + ackWarning);
         List<Path> paths = files == null || files.isEmpty() ? cfg.rulePaths() : files;
         List<RuleSource> sources;
         try {

@@ -16,6 +16,7 @@ import picocli.CommandLine.Command;
                 HistoryCommand.class,
                 AckCommand.class,
                 NotifyTestCommand.class,
+                BrokerAclCommand.class,
         })
 public final class Main implements Runnable {
     /** Exit codes: 0 ok, 1 runtime failure, 2 bad usage or configuration. */

@@ -41,7 +41,7 @@ public final class ConfigLoader {
     static final Set<String> DIGEST_KEYS = ordered("at", "notify");
     static final Set<String> SELF_ALERT_KEYS = ordered("notify", "channel-failing-after");
     static final Set<String> MQTT_KEYS = ordered("broker", "listen", "client-id", "username", "password-file",
-            "password-env", "publish-prefix", "qos", "ca-file", "publish-events", "publish-every");
+            "password-env", "publish-prefix", "qos", "ca-file", "publish-events", "publish-every", "accept-acks");
     static final Set<String> SENSOR_KEYS = ordered("topic", "quantity", "unit", "payload", "time", "id-level", "max-ids");
     static final Set<String> ZONE_KEYS = ordered("groups", "sensors", "elevation", "psychrometer", "max-age", "thi");
     static final Set<String> HISTORY_KEYS = ordered("path", "keep-raw", "keep-minute", "keep-hour");
@@ -157,6 +157,11 @@ public final class ConfigLoader {
         }
         String listen = string(m.get("listen"), "mqtt.listen", "127.0.0.1:1883");
         String[] hp = hostPort(m.get("listen"), "mqtt.listen", listen);
+        if (broker.equals("embedded") && !byre.mqtt.EmbeddedBroker.isLoopback(hp[0])) {
+            problem(m.get("listen") != null ? m.get("listen") : m.get("broker"), "mqtt.listen '" + listen + "': the embedded broker "
+                    + "listens on loopback only (127.0.0.1 or ::1); it has no users and is for the demo, tests and one-machine "
+                    + "trials. For sensors on the farm network use the barn's mosquitto (mqtt.broker: tcp://127.0.0.1:1883)");
+        }
         String clientId = string(m.get("client-id"), "mqtt.client-id", "byre-" + site);
         String username = string(m.get("username"), "mqtt.username", null);
         Secret password = secretFile(m.get("password-file"), "mqtt.password-file");
@@ -190,8 +195,9 @@ public final class ConfigLoader {
         }
         boolean events = bool(m.get("publish-events"), "mqtt.publish-events", true);
         Duration every = duration(m.get("publish-every"), "mqtt.publish-every", MqttSettings.DEFAULT_PUBLISH_EVERY);
+        boolean acceptAcks = bool(m.get("accept-acks"), "mqtt.accept-acks", false);
         return new MqttSettings(broker, hp[0], Integer.parseInt(hp[1]), clientId, username, password, prefix, qos, caFile,
-                events, every);
+                events, every, acceptAcks);
     }
 
     private Map<String, SensorConfig> sensors(Node node) {

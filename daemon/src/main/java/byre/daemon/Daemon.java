@@ -101,15 +101,23 @@ public final class Daemon implements AutoCloseable {
             pipeline = new Pipeline(zones, writer, clock, ticker);
             Gauge.builder("byre.pipeline.queue", pipeline, Pipeline::depth).description("Zone readings waiting for the pipeline thread").register(registry);
 
-            if (config.mqtt().embedded()) {
-                broker = EmbeddedBroker.start(config.mqtt().listenHost(), config.mqtt().listenPort(), registry);
+            var mqtt = config.mqtt();
+            if (mqtt.embedded()) {
+                // Other clients are accepted once byre has subscribed (on the broker's private port): no reading is
+                // acknowledged to a sensor before byre can take it.
+                broker = EmbeddedBroker.startGated(mqtt.listenHost(), mqtt.listenPort(), registry);
+                mqtt = mqtt.withBroker("embedded", broker.ownPort());
             }
-            link = new MqttLink(config.mqtt(), config.site(), registry, ticker);
+            link = new MqttLink(mqtt, config.site(), registry, ticker);
             quietLimit = QuietLimit.of(config, ReportingIntervals.fromHistory(config, clock.instant()));
             publisher = new ZoneStreamPublisher(link, config.mqtt().publishPrefix(), config.site(), config.mqtt().publishEvery());
             pipeline.addListener(publisher);
             alerts = byre.notify.AlertServices.create(config, store, link, registry, clock);
-            link.subscribe(alerts.ackTopic(), alerts::onAckMessage);
+            if (config.mqtt().acceptAcks()) {
+                link.subscribe(alerts.ackTopic(), alerts::onAckMessage);
+                String warning = config.mqtt().openAckWarning();
+                if (warning != null) LOG.warn("{}", warning);
+            }
             AlertStage alertStage = new AlertStage(alerts, link, config.mqtt().publishPrefix(), config.site(), config.timezone(), alertConsole, registry);
             if (config.alerts().digestAt() != null) {
                 String last = store.loadState(byre.notify.AlertService.DIGEST_KEY).get(byre.notify.AlertService.DIGEST_KEY);
@@ -143,6 +151,7 @@ public final class Daemon implements AutoCloseable {
                 link.subscribeAcked(s.topic(), ingest::accept);
             }
             link.onConnect(publisher::republishAll);
+            if (broker != null) link.onConnect(broker::open);
             link.onConnecting(ingest::connected);
             pipeline.start();
             alerts.start();

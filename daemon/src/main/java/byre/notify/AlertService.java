@@ -151,13 +151,13 @@ public final class AlertService implements AckService, AutoCloseable {
         try {
             if (Json.parse(text) instanceof Map<?, ?> m && m.get("incident") != null) {
                 Object by = m.get("by");
-                AckResult r = acknowledge(m.get("incident").toString(), by == null ? "mqtt" : by.toString());
+                AckResult r = acknowledge(m.get("incident").toString(), byre.alerts.AckBy.clean(by == null ? null : by.toString(), "mqtt"));
                 if (!r.ok()) LOG.warn("ack on {}: {}", topic, r.detail());
                 return;
             }
             LOG.warn("ack on {} ignored: payload must be {{\"incident\":\"…\",\"by\":\"…\"}}", topic);
         } catch (RuntimeException e) {
-            LOG.warn("ack on {} ignored: not JSON ({})", topic, e.getMessage());
+            LOG.warn("ack on {} ignored: not JSON ({})", topic, byre.alerts.AckBy.oneLine(e.getMessage(), 200));
         }
     }
 

@@ -143,4 +143,82 @@ class AdminServerTest {
                 HttpResponse.BodyHandlers.ofString()).statusCode());
         assertEquals(404, get("/nothing").statusCode());
     }
+
+    @Test
+    void theBearerSchemeIsCaseInsensitiveAndTheTokenIsNot() throws Exception {
+        server.setAckHandler((incident, by) -> AckHandler.Result.acknowledged("acknowledged"));
+        String body = "{\"incident\":\"inc-7\",\"by\":\"sam\"}";
+        assertEquals(200, ack(body, "bearer s3cret-token").statusCode());
+        assertEquals(200, ack(body, "BEARER  s3cret-token").statusCode());
+        assertEquals(401, ack(body, "Bearer S3CRET-TOKEN").statusCode());
+        assertEquals(401, ack(body, "Basic s3cret-token").statusCode());
+        assertEquals(401, ack(body, "Bearers3cret-token").statusCode());
+    }
+
+    @Test
+    void theNameOfWhoAcknowledgedCannotForgeALogLine() throws Exception {
+        AtomicReference<String> seen = new AtomicReference<>();
+        server.setAckHandler((incident, by) -> {
+            seen.set(by);
+            return AckHandler.Result.acknowledged("acknowledged");
+        });
+        String forged = "sam\\nINFO  AlertStage - cleared warning heat-stress cows\\u001b[2K" + "x".repeat(100);
+        assertEquals(200, ack("{\"incident\":\"inc-7\",\"by\":\"" + forged + "\"}", "Bearer s3cret-token").statusCode());
+        assertTrue(seen.get().startsWith("sam INFO AlertStage - cleared warning heat-stress cows [2Kxxx"), seen.get());
+        assertEquals(64, seen.get().length(), seen.get());
+        assertFalse(seen.get().chars().anyMatch(Character::isISOControl), seen.get());
+    }
+
+    /** Opens connections that send part of a request and then nothing, as a stalled phone or a hostile device would. */
+    List<java.net.Socket> stalledClients(int port) throws Exception {
+        List<java.net.Socket> out = new java.util.ArrayList<>();
+        for (String partial : List.of("POST /ack HTTP/1.1\r\nHost: x\r\nAuthorization: Bearer s3cret-token\r\nContent-Length: 40\r\n\r\n{\"inc",
+                "GET /health HTTP/1.1\r\nHost: x\r\nX-Slow: ")) {
+            java.net.Socket s = new java.net.Socket("127.0.0.1", port);
+            s.getOutputStream().write(partial.getBytes(java.nio.charset.StandardCharsets.US_ASCII));
+            s.getOutputStream().flush();
+            out.add(s);
+        }
+        return out;
+    }
+
+    @Test
+    void twoStalledClientsDoNotKeepHealthFromAnswering() throws Exception {
+        List<java.net.Socket> slow = new java.util.ArrayList<>(stalledClients(server.port()));
+        slow.addAll(stalledClients(server.port()));
+        try {
+            Thread.sleep(100); // let the server hand the stalled requests to its workers
+            HttpResponse<String> r = http.send(HttpRequest.newBuilder(URI.create("http://127.0.0.1:" + server.port() + "/health"))
+                    .timeout(Duration.ofSeconds(1)).GET().build(), HttpResponse.BodyHandlers.ofString());
+            assertEquals(200, r.statusCode());
+        } finally {
+            for (java.net.Socket s : slow) s.close();
+        }
+    }
+
+    @Test
+    void aRequestThatDoesNotArriveWithinTheReadTimeoutIsCutOff() throws Exception {
+        HealthMonitor health = new HealthMonitor(snapshot::get, nanos::get, Duration.ofMinutes(5), Duration.ofSeconds(30));
+        try (AdminServer quick = AdminServer.start("127.0.0.1", 0, new Secret("s3cret-token", "test"), registry::scrape, health, live,
+                Clock.fixed(NOW, ZoneOffset.UTC), "larkmoor", Duration.ofMillis(200))) {
+            quick.setAckHandler((incident, by) -> AckHandler.Result.acknowledged("acknowledged"));
+            for (java.net.Socket s : stalledClients(quick.port())) {
+                try (s) {
+                    s.setSoTimeout(5000); // bounded wait: the server closes the connection long before
+                    int first;
+                    try {
+                        first = s.getInputStream().read();
+                    } catch (java.net.SocketException reset) {
+                        first = -1;
+                    }
+                    assertEquals(-1, first, "the stalled connection is closed without an answer");
+                }
+            }
+            // ...and a whole request still gets its answer.
+            HttpResponse<String> r = http.send(HttpRequest.newBuilder(URI.create("http://127.0.0.1:" + quick.port() + "/ack"))
+                    .header("Authorization", "Bearer s3cret-token").POST(HttpRequest.BodyPublishers.ofString("{\"incident\":\"inc-7\"}"))
+                    .build(), HttpResponse.BodyHandlers.ofString());
+            assertEquals(200, r.statusCode(), r.body());
+        }
+    }
 }

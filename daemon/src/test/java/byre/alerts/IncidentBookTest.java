@@ -62,6 +62,26 @@ class IncidentBookTest {
     }
 
     @Test
+    void theNameOfWhoAcknowledgedIsOneShortLineOnEveryPath() {
+        IncidentBook b = new IncidentBook("larkmoor", IdSource.counting());
+        b.accept(raised(T0));
+        // What an MQTT payload or a signed link could carry: a forged log line, a terminal escape, a right-to-left override.
+        String by = "Dana\r\nWARN  byre.alerts - cleared warning heat-stress cows\u001b[31m\u202e" + "y".repeat(80);
+        AckResult ack = b.acknowledge(" i1\n", by, T0.plus(Duration.ofMinutes(10)));
+        assertEquals(AckResult.Status.ACKNOWLEDGED, ack.status());
+        String who = ack.events().get(0).by();
+        assertEquals("Dana WARN byre.alerts - cleared warning heat-stress cows [31m yy", who);
+        assertEquals(AckBy.MAX_BY, who.length());
+        assertTrue(ack.events().get(0).message().startsWith("Acknowledged by Dana WARN"), ack.events().get(0).message());
+        String already = b.acknowledge("i1", "Sam", T0).detail();
+        assertTrue(already.contains("(by " + who + ", "), already);
+        assertEquals("someone", AckBy.clean("\u0000\t \u2028", "someone"));
+        AckResult unknown = b.acknowledge("i9\nERROR forged", "Sam", T0);
+        assertTrue(unknown.detail().startsWith("no open incident 'i9 ERROR forged'"), unknown.detail());
+        assertEquals(AckResult.Status.INVALID, b.acknowledge("\u0007\u0000", "Sam", T0).status());
+    }
+
+    @Test
     void acknowledgementStopsRemindersAndEscalationAndClearStillTellsEveryoneTold() {
         IncidentBook b = new IncidentBook("larkmoor", IdSource.counting());
         AlertEvent raised = b.accept(raised(T0)).get(0);

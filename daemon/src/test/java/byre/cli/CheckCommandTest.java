@@ -1,6 +1,7 @@
 package byre.cli;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import byre.history.HistoryStore;
@@ -108,5 +109,26 @@ class CheckCommandTest {
         CliRun learnt = CliRun.of("check", "--config", cfg.toString());
         assertEquals(Main.OK, learnt.code(), learnt.err());
         assertTrue(learnt.out().contains("0 warnings"), learnt.out() + learnt.err());
+    }
+
+    @Test
+    void acceptingAcknowledgementsOverAnOpenBrokerIsWarnedAbout() throws Exception {
+        Files.createDirectories(dir.resolve("rules.d"));
+        String plain = Files.readString(config());
+        Path open = Files.writeString(dir.resolve("open.yaml"), plain.replace("site: larkmoor\n",
+                "site: larkmoor\nmqtt:\n  broker: embedded\n  accept-acks: true\n"));
+        CliRun r = CliRun.of("check", "--config", open.toString());
+        assertEquals(Main.OK, r.code(), r.err());
+        assertTrue(r.err().contains(open + ": warning: mqtt.accept-acks is on with the embedded broker, which lets any program on this "
+                + "machine connect without a password and acknowledge (silence) alerts"), r.err());
+
+        Files.writeString(dir.resolve("mqtt.secret"), "pw\n");
+        Path closed = Files.writeString(dir.resolve("closed.yaml"), plain.replace("site: larkmoor\n",
+                "site: larkmoor\nmqtt:\n  broker: tcp://127.0.0.1:1883\n  username: byre\n  password-file: mqtt.secret\n  accept-acks: true\n"));
+        CliRun quiet = CliRun.of("check", "--config", closed.toString());
+        assertEquals(Main.OK, quiet.code(), quiet.err());
+        assertFalse(quiet.err().contains("accept-acks"), quiet.err());
+        CliRun off = CliRun.of("check", "--config", config().toString());
+        assertFalse(off.err().contains("accept-acks"), off.err());
     }
 }

@@ -151,4 +151,19 @@ class ConfigLoaderTest {
                 """);
         assertTrue(c.sensors().get("pens-dry").isFamily());
     }
+
+    @Test
+    void theEmbeddedBrokerListensOnLoopbackOnlyAndAcceptingAcksIsOffUnlessSaid() throws Exception {
+        String base = "site: larkmoor\nmqtt:\n  broker: embedded\n  listen: %s\n%s";
+        assertEquals(List.of("byre.yaml:4: mqtt.listen '0.0.0.0:1883': the embedded broker listens on loopback only (127.0.0.1 or ::1); "
+                + "it has no users and is for the demo, tests and one-machine trials. For sensors on the farm network use the barn's "
+                + "mosquitto (mqtt.broker: tcp://127.0.0.1:1883)"), problems(base.formatted("0.0.0.0:1883", "")));
+        assertEquals(1, problems(base.formatted("192.168.1.20:1883", "")).size());
+        assertFalse(parse(base.formatted("127.0.0.1:1883", "")).mqtt().acceptAcks(), "off by default");
+        assertTrue(parse(base.formatted("'[::1]:1883'", "  accept-acks: true\n")).mqtt().acceptAcks());
+        assertEquals(List.of("byre.yaml:5: mqtt.accept-acks must be true or false, not 'maybe'"),
+                problems(base.formatted("127.0.0.1:1883", "  accept-acks: maybe\n")));
+        // A LAN address is fine for a real broker: listen is then unused.
+        parse("site: larkmoor\nmqtt:\n  broker: tcp://192.168.1.5:1883\n  listen: 0.0.0.0:1883\n");
+    }
 }

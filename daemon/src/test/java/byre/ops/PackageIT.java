@@ -56,6 +56,7 @@ class PackageIT {
         assertTrue(info.out().contains(" Package: byre\n"), info.out());
         assertTrue(info.out().contains(" Architecture: all\n"), info.out());
         assertTrue(info.out().contains(" Depends: java17-runtime-headless | openjdk-17-jre-headless, adduser\n"), info.out());
+        assertTrue(info.out().contains(" Recommends: mosquitto\n"), "the barn broker (README: why not Depends)\n" + info.out());
         assertTrue(info.out().matches("(?s).* Version: \\d+\\.\\d+\\.\\d+\\n.*"), info.out());
 
         Result contents = exec(dir, "dpkg-deb", "-c", deb().toString());
@@ -63,8 +64,9 @@ class PackageIT {
         for (String expected : List.of("-rw-r--r-- root/root .* \\./usr/share/byre/byre\\.jar", "-rwxr-xr-x root/root .* \\./usr/bin/byre",
                 "-rw-r--r-- root/root .* \\./lib/systemd/system/byre\\.service", "-rw-r--r-- root/root .* \\./etc/byre/byre\\.yaml",
                 "drwxr-xr-x root/root .* \\./etc/byre/rules\\.d/", "-rw-r--r-- root/root .* \\./etc/byre/rules\\.d/[a-z-]+\\.rules",
-                "drwxr-xr-x root/root .* \\./var/lib/byre/",
-                "-rw-r--r-- root/root .* \\./usr/share/byre/mosquitto-bridge\\.conf")) {
+                "drwxr-xr-x root/root .* \\./var/lib/byre/", "-rwxr-xr-x root/root .* \\./usr/sbin/byre-broker",
+                "-rw-r--r-- root/root .* \\./usr/share/byre/mosquitto-bridge\\.conf",
+                "-rw-r--r-- root/root .* \\./usr/share/byre/mosquitto-barn\\.conf")) {
             assertTrue(contents.out().lines().anyMatch(l -> l.matches(expected)), expected + " in\n" + contents.out());
         }
 
@@ -81,6 +83,11 @@ class PackageIT {
         assertTrue(postinst.contains("adduser --system --group --home /var/lib/byre"), postinst);
         assertTrue(postinst.contains("deb-systemd-helper enable byre.service"), postinst);
         assertTrue(!postinst.contains("deb-systemd-invoke start"), "a first install must not start the unconfigured daemon");
+        // byre's broker password: made once, readable by the daemon's group only; purge removes it and the broker set-up.
+        assertTrue(postinst.contains("if [ ! -e /etc/byre/mqtt.secret ]; then") && postinst.contains("chmod 0640 /etc/byre/mqtt.secret"), postinst);
+        assertTrue(!postinst.contains("/etc/mosquitto/conf.d"), "installing byre never changes the farm's mosquitto by itself");
+        String postrm = Files.readString(control.resolve("postrm"));
+        assertTrue(postrm.contains("rm -f /etc/mosquitto/conf.d/byre.conf") && postrm.contains("rm -rf /etc/mosquitto/byre"), postrm);
 
         // The packaged jar is the one that runs.
         Path data = dir.resolve("data");
@@ -101,6 +108,7 @@ class PackageIT {
         Path data = dir.resolve("data");
         assertEquals(0, exec(dir, "dpkg-deb", "-x", deb().toString(), data.toString()).code());
         cmd.add(data.resolve("usr/bin/byre").toString());
+        cmd.add(data.resolve("usr/sbin/byre-broker").toString());
         Result r = exec(dir, cmd.toArray(String[]::new));
         assertEquals(0, r.code(), "shellcheck findings:\n" + r.out());
     }
@@ -124,5 +132,82 @@ class PackageIT {
                 "ExecReload=/bin/kill -HUP $MAINPID")) {
             assertTrue(unit.contains(line), line);
         }
+    }
+
+    /** Runs the packaged byre-broker on folders of the test's (the BYRE_MOSQUITTO_* variables), never on this machine's mosquitto. */
+    Result broker(Path data, Path work, String... args) throws Exception {
+        List<String> cmd = new ArrayList<>(List.of(data.resolve("usr/sbin/byre-broker").toString()));
+        cmd.addAll(List.of(args));
+        ProcessBuilder pb = new ProcessBuilder(cmd).redirectErrorStream(true).directory(work.toFile())
+                .redirectInput(ProcessBuilder.Redirect.from(new java.io.File("/dev/null")));
+        var env = pb.environment();
+        env.put("PATH", work.resolve("bin") + ":" + env.getOrDefault("PATH", "/usr/bin:/bin"));
+        env.put("BYRE_MOSQUITTO_CONF", work.resolve("mosquitto.conf").toString());
+        env.put("BYRE_MOSQUITTO_CONF_D", work.resolve("conf.d").toString());
+        env.put("BYRE_MOSQUITTO_DIR", work.resolve("mosquitto-byre").toString());
+        env.put("BYRE_MOSQUITTO_TEMPLATE", data.resolve("usr/share/byre/mosquitto-barn.conf").toString());
+        env.put("BYRE_MOSQUITTO_SYSTEMD", work.resolve("no-systemd").toString());
+        env.put("BYRE_CONFIG", work.resolve("byre.yaml").toString());
+        env.put("BYRE_MQTT_SECRET", work.resolve("mqtt.secret").toString());
+        Process p = pb.start();
+        String out = new String(p.getInputStream().readAllBytes(), StandardCharsets.UTF_8);
+        assertTrue(p.waitFor(120, TimeUnit.SECONDS), "did not finish: " + cmd);
+        return new Result(p.exitValue(), out);
+    }
+
+    @Test
+    void theBrokerHelperRefusesConflictsThenSetsUpLoginsAndTheAccessList() throws Exception {
+        assumeTrue(onPath("mosquitto_passwd") || Files.isExecutable(Path.of("/usr/bin/mosquitto_passwd")), "mosquitto is not installed");
+        Path data = dir.resolve("data");
+        assertEquals(0, exec(dir, "dpkg-deb", "-x", deb().toString(), data.toString()).code());
+        assertEquals(Files.readString(root().resolve("config/mosquitto-barn.conf")), Files.readString(data.resolve("usr/share/byre/mosquitto-barn.conf")));
+        Path work = Files.createDirectories(dir.resolve("work"));
+        Files.createDirectories(work.resolve("conf.d"));
+        Files.createDirectories(work.resolve("bin"));
+        Path shim = Files.writeString(work.resolve("bin/byre"), "#!/bin/sh\nexec '" + Path.of(System.getProperty("java.home"), "bin", "java")
+                + "' -jar '" + data.resolve("usr/share/byre/byre.jar") + "' \"$@\"\n");
+        shim.toFile().setExecutable(true);
+        Files.copy(data.resolve("etc/byre/byre.yaml"), work.resolve("byre.yaml"));
+        Files.createSymbolicLink(work.resolve("rules.d"), data.resolve("etc/byre/rules.d"));
+        Files.writeString(work.resolve("mqtt.secret"), "from-postinst\n");
+        // Debian's stock mosquitto.conf, and a farm drop-in that already has a listener on 1883 and its own logins.
+        Files.writeString(work.resolve("mosquitto.conf"), "pid_file /run/mosquitto/mosquitto.pid\npersistence true\ninclude_dir " + work.resolve("conf.d") + "\n");
+        Files.writeString(work.resolve("conf.d/farm.conf"), "# the farm's weather station\nlistener 1883\npassword_file /etc/mosquitto/farm.passwd\n");
+
+        Result refused = broker(data, work, "enable");
+        assertEquals(1, refused.code(), refused.out());
+        assertTrue(refused.out().contains(work.resolve("conf.d/farm.conf") + ":2:listener 1883"), refused.out());
+        assertTrue(refused.out().contains(work.resolve("conf.d/farm.conf") + ":3:password_file"), refused.out());
+        assertTrue(refused.out().contains("not enabled"), refused.out());
+        assertTrue(!Files.exists(work.resolve("conf.d/byre.conf")), "nothing installed on a conflict");
+
+        Files.delete(work.resolve("conf.d/farm.conf"));
+        assertEquals(0, broker(data, work, "check").code());
+        Result enabled = broker(data, work, "enable");
+        assertEquals(0, enabled.code(), enabled.out());
+        assertEquals(Files.readString(data.resolve("usr/share/byre/mosquitto-barn.conf")), Files.readString(work.resolve("conf.d/byre.conf")));
+        assertEquals("0640", mode(work.resolve("mosquitto-byre/passwd")));
+        assertTrue(Files.readString(work.resolve("mosquitto-byre/passwd")).matches("byre:\\$7\\$[^\\n]+\\n"), "byre's login, hashed");
+        String acl = Files.readString(work.resolve("mosquitto-byre/acl"));
+        assertTrue(acl.contains("\nuser byre\ntopic read larkmoor/calf-barn/pen1/dry\n") && acl.contains("\nuser operators\ntopic write byre/larkmoor/ack\n")
+                && acl.contains("\nuser sensors\ntopic write larkmoor/calf-barn/pen1/dry\n"), acl);
+        assertEquals(0, broker(data, work, "check").code(), "byre's own drop-in is no conflict");
+
+        Result gateway = broker(data, work, "passwd", "pen2-gateway", "--random");
+        assertEquals(0, gateway.code(), gateway.out());
+        assertTrue(gateway.out().matches("(?s)pen2-gateway: [0-9a-f]{36}\n"), gateway.out());
+        assertTrue(Files.readString(work.resolve("mosquitto-byre/acl")).contains("\nuser pen2-gateway\ntopic write larkmoor/calf-barn/pen1/dry\n"));
+        assertEquals(0, broker(data, work, "remove", "pen2-gateway").code());
+        assertTrue(!Files.readString(work.resolve("mosquitto-byre/acl")).contains("pen2-gateway"));
+        Result badName = broker(data, work, "passwd", "bad name", "--random");
+        assertEquals(1, badName.code(), badName.out());
+        assertTrue(!Files.readString(work.resolve("mosquitto-byre/acl")).contains("bad"), "a bad login name is refused");
+    }
+
+    static String mode(Path p) throws Exception {
+        var perms = Files.getPosixFilePermissions(p);
+        int m = 0;
+        for (var x : perms) m |= 1 << (8 - x.ordinal());
+        return String.format("%04o", m);
     }
 }

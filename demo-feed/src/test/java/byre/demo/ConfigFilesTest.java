@@ -70,8 +70,8 @@ class ConfigFilesTest {
         List<String> demoKeys = new ArrayList<>(DESIGN_KEYS);
         demoKeys.removeAll(SECRET_KEYS);
         assertKeysInOrder(DemoConfig.text(), demoKeys);
-        assertTrue(example().contains("broker: embedded") && example().contains("tcp://127.0.0.1:1883"),
-                "runs as shipped with byre's own broker and shows how to use the barn's");
+        assertTrue(example().contains("\n  broker: tcp://127.0.0.1:1883 ") && example().contains("# broker: embedded"),
+                "points at the barn's mosquitto and shows byre's own broker for trials");
         assertTrue(DemoConfig.text().contains("broker: embedded"));
         assertTrue(example().contains("path: /var/lib/byre/history.db"));
     }
