@@ -51,7 +51,8 @@ final class BarnPageHtml {
             *{box-sizing:border-box}
             body{margin:0;padding:10px;background:var(--bg);color:var(--fg);font:17px/1.35 system-ui,-apple-system,"Segoe UI",Roboto,sans-serif;max-width:640px;margin:0 auto}
             h1{font-size:1.5rem;margin:0}h2{font-size:1.15rem;margin:18px 0 8px}
-            header{display:flex;justify-content:space-between;align-items:baseline;gap:8px;flex-wrap:wrap}
+            header{display:flex;justify-content:space-between;align-items:flex-end;gap:8px}
+            a{color:var(--trend)}
             .clock{font-size:1.9rem;font-weight:700;font-variant-numeric:tabular-nums}
             .sub,.meta,.note,.axis{color:var(--muted);font-size:.9rem}
             .card{background:var(--card);border:1px solid var(--line);border-radius:10px;padding:10px 12px;margin:0 0 10px}
@@ -98,8 +99,8 @@ final class BarnPageHtml {
         StringBuilder sb = new StringBuilder(16_384);
         head(sb, site, now, site.name() + " barn", true);
         ZonedDateTime local = now.atZone(site.timezone());
-        sb.append("<header><div><h1>").append(esc(site.name())).append("</h1><div class=\"sub\">farm time, ")
-                .append(esc(local.format(DAY))).append(", ").append(esc(site.timezone().getId())).append("</div></div>")
+        sb.append("<header><div><h1>").append(esc(site.name())).append("</h1><div class=\"sub\">")
+                .append(esc(local.format(DAY))).append(", farm time</div></div>")
                 .append("<div class=\"clock\" id=\"farm-time\">").append(local.format(CLOCK)).append("</div></header>\n");
         if (v.problem() != null) sb.append("<p class=\"card\"><strong>").append(esc(v.problem())).append("</strong></p>\n");
 
@@ -109,7 +110,8 @@ final class BarnPageHtml {
         sb.append("</section>\n");
         silent(sb, v, now);
 
-        sb.append("<footer class=\"note\"><p>Values in ").append(site.us() ? "US units" : "metric units")
+        sb.append("<footer class=\"note\"><p>Farm time is ").append(esc(site.timezone().getId())).append(". Values in ")
+                .append(site.us() ? "US units" : "metric units")
                 .append(". THI bands: ").append(esc(SCALE.source())).append("; ");
         for (int i = 0; i < SCALE.bands().size(); i++) {
             ThiScale.Band b = SCALE.bands().get(i);
