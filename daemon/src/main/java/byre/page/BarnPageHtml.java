@@ -65,6 +65,8 @@ final class BarnPageHtml {
             .unacked{font-weight:700}
             .id{font-family:ui-monospace,monospace;font-size:1rem}
             a.button,button{display:inline-block;font:inherit;font-weight:700;padding:12px 18px;border-radius:8px;border:2px solid var(--fg);background:var(--fg);color:var(--bg);text-decoration:none;min-height:48px}
+            .nb{white-space:nowrap}
+            button.wide{width:100%}
             .zone h2{margin:0 0 6px;display:flex;justify-content:space-between;gap:8px}
             .thi{display:flex;align-items:center;gap:12px;margin:2px 0 8px}
             .big{font-size:3.2rem;font-weight:800;line-height:1;font-variant-numeric:tabular-nums}
@@ -130,7 +132,7 @@ final class BarnPageHtml {
             String level = a.level() == null ? "info" : a.level();
             sb.append("<article class=\"card alert lvl-").append(esc(cssWord(level))).append("\" data-incident=\"").append(esc(a.id())).append("\">");
             sb.append("<p class=\"what\"><span class=\"level\">").append(esc(level)).append("</span>").append(esc(a.watch()));
-            if (a.zone() != null && !a.zone().isEmpty()) sb.append(" in ").append(esc(a.zone()));
+            if (a.zone() != null && !a.zone().isEmpty()) sb.append(" in <span class=\"nb\">").append(esc(a.zone())).append("</span>");
             sb.append("</p>");
             String reading = reading(a, site.us());
             if (!reading.isEmpty()) sb.append("<p class=\"reading\">").append(reading).append("</p>");
@@ -293,7 +295,7 @@ final class BarnPageHtml {
         head(sb, site, now, "Acknowledge alert", false);
         sb.append("<h1>").append(esc(site.name())).append("</h1>");
         alertSummary(sb, site, a, now);
-        sb.append("<form method=\"post\" action=\"").append(esc(action)).append("\"><button type=\"submit\" id=\"ack\">Acknowledge: I am on it</button></form>")
+        sb.append("<form method=\"post\" action=\"").append(esc(action)).append("\"><button type=\"submit\" id=\"ack\" class=\"wide\">Acknowledge: I am on it</button></form>")
                 .append("<p class=\"note\">Acknowledging stops reminders and escalation for this alert and tells the people already told. "
                         + "It does not clear the alert: that happens when the barn is back in range.</p>");
         return end(sb);
@@ -318,7 +320,7 @@ final class BarnPageHtml {
         String level = a.level() == null ? "info" : a.level();
         sb.append("<article class=\"card alert lvl-").append(esc(cssWord(level))).append("\" data-incident=\"").append(esc(a.id())).append("\">")
                 .append("<p class=\"what\"><span class=\"level\">").append(esc(level)).append("</span>").append(esc(a.watch()));
-        if (a.zone() != null && !a.zone().isEmpty()) sb.append(" in ").append(esc(a.zone()));
+        if (a.zone() != null && !a.zone().isEmpty()) sb.append(" in <span class=\"nb\">").append(esc(a.zone())).append("</span>");
         sb.append("</p>");
         String reading = reading(a, site.us());
         if (!reading.isEmpty()) sb.append("<p class=\"reading\">").append(reading).append("</p>");
