@@ -125,8 +125,23 @@ final class BarnPageHtml {
         return sb.toString();
     }
 
+    /** Unacknowledged first, then the most severe, then the oldest: what needs someone comes to the top. */
+    static final java.util.Comparator<OpenIncident> URGENCY = java.util.Comparator
+            .comparing((OpenIncident a) -> a.ackBy() != null)
+            .thenComparing(a -> -severity(a.level()))
+            .thenComparing(a -> a.since() == null ? a.raisedAt() : a.since(), java.util.Comparator.nullsLast(java.util.Comparator.naturalOrder()));
+
+    private static int severity(String level) {
+        return level == null ? 0 : switch (level) {
+            case "critical" -> 3;
+            case "warning" -> 2;
+            case "info" -> 1;
+            default -> 0;
+        };
+    }
+
     private static void alerts(StringBuilder sb, Site site, BarnView v, Instant now) {
-        List<OpenIncident> open = v.alerts();
+        List<OpenIncident> open = v.alerts().stream().sorted(URGENCY).toList();
         sb.append("<section id=\"alerts\"><h2>").append(open.isEmpty() ? "No open alerts" : "Open alerts (" + open.size() + ")").append("</h2>\n");
         for (OpenIncident a : open) {
             String level = a.level() == null ? "info" : a.level();

@@ -197,6 +197,7 @@ class BarnPageBrowserTest {
                 assertEquals(String.valueOf(PHONE_WIDTH), phone.property(phone.one("html"), "clientWidth"));
                 assertTrue(Integer.parseInt(phone.property(phone.one("html"), "scrollWidth")) <= PHONE_WIDTH, "no sideways scrolling");
                 phone.screenshot(SHOTS.resolve("barn-page-360.png"));
+                phone.screenshotScreen(SHOTS.resolve("barn-page-360-first-screen.png"));
                 phase("barn page read and screenshot");
 
                 // One tap: the signed link opens the alert and one button; opening it changes nothing.

@@ -115,6 +115,20 @@ class BarnPageHtmlTest {
     }
 
     @Test
+    void unacknowledgedAndSevereAlertsComeFirst() {
+        OpenIncident ackedCritical = new OpenIncident("a1", "calf-draught", "calf-pen-1", "critical", null, Double.NaN, "", DAY.minusSeconds(9000),
+                DAY.minusSeconds(9000), "", List.of(), false, "Sam", DAY.minusSeconds(60));
+        OpenIncident oldWarning = incident("a2", "heat-stress", "cow-shed", "", null);
+        OpenIncident newCritical = new OpenIncident("a3", "calf-cold", "calf-pen-1", "critical", null, Double.NaN, "", DAY.minusSeconds(60),
+                DAY.minusSeconds(60), "", List.of(), false, null, null);
+        String html = BarnPageHtml.page(METRIC, new BarnView(List.of(), List.of(ackedCritical, oldWarning, newCritical), List.of(), null), DAY);
+        int a1 = html.indexOf("data-incident=\"a1\"");
+        int a2 = html.indexOf("data-incident=\"a2\"");
+        int a3 = html.indexOf("data-incident=\"a3\"");
+        assertTrue(a3 < a2 && a2 < a1, "critical unacknowledged, warning unacknowledged, then acknowledged: " + a3 + " " + a2 + " " + a1);
+    }
+
+    @Test
     void darkAtNightByFarmTimeAndOnRequestByDay() {
         String day = BarnPageHtml.page(METRIC, new BarnView(List.of(), List.of(), List.of(), null), DAY);
         assertTrue(day.contains("<html lang=\"en\">"));

@@ -172,6 +172,12 @@ public final class Chromium implements AutoCloseable {
         call("POST", s("/element/" + element + "/value"), new JsonWriter().field("text", text).toString());
     }
 
+    /** What the phone's screen shows (the viewport only), as a PNG. */
+    public void screenshotScreen(Path png) throws IOException, InterruptedException {
+        Files.createDirectories(png.toAbsolutePath().getParent());
+        Files.write(png, Base64.getDecoder().decode((String) call("GET", s("/screenshot"), null)));
+    }
+
     /** The whole page (also below the fold) as a PNG, through the DevTools command chromedriver passes on. */
     public void screenshot(Path png) throws IOException, InterruptedException {
         Object metrics = call("POST", s("/goog/cdp/execute"), "{\"cmd\":\"Page.getLayoutMetrics\",\"params\":{}}");
