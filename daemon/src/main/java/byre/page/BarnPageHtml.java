@@ -62,6 +62,8 @@ final class BarnPageHtml {
             .level{display:inline-block;background:var(--lvl);color:#000;font-weight:700;border-radius:4px;padding:0 6px;margin-right:6px;font-size:.85rem;text-transform:uppercase;letter-spacing:.03em}
             .reading{font-size:1.6rem;font-weight:700;margin:4px 0;font-variant-numeric:tabular-nums}
             .msg{margin:4px 0}
+            .card p{margin:4px 0}
+            .ackrow{display:flex;align-items:center;justify-content:space-between;gap:8px;margin-top:8px}
             .unacked{font-weight:700}
             .id{font-family:ui-monospace,monospace;font-size:1rem}
             a.button,button{display:inline-block;font:inherit;font-weight:700;padding:12px 18px;border-radius:8px;border:2px solid var(--fg);background:var(--fg);color:var(--bg);text-decoration:none;min-height:48px}
@@ -155,8 +157,8 @@ final class BarnPageHtml {
             sb.append("<p class=\"meta\">open ").append(esc(IncidentBook.human(Duration.between(a.since() == null ? a.raisedAt() : a.since(), now))))
                     .append(" &middot; incident <span class=\"id\">").append(esc(a.id())).append("</span></p>");
             if (a.ackBy() == null) {
-                sb.append("<p class=\"unacked\">Not acknowledged</p><p><a class=\"button\" href=\"/ack/").append(esc(a.id()))
-                        .append("\">Acknowledge&hellip;</a></p>");
+                sb.append("<div class=\"ackrow\"><span class=\"unacked\">Not acknowledged</span><a class=\"button\" href=\"/ack/")
+                        .append(esc(a.id())).append("\">Acknowledge&hellip;</a></div>");
             } else {
                 sb.append("<p class=\"acked\">Acknowledged by ").append(esc(a.ackBy()));
                 if (a.ackAt() != null) sb.append(", ").append(esc(IncidentBook.human(Duration.between(a.ackAt(), now)))).append(" ago");
@@ -360,6 +362,7 @@ final class BarnPageHtml {
         boolean night = hour >= NIGHT_FROM_HOUR || hour < NIGHT_TO_HOUR;
         sb.append("<!DOCTYPE html>\n<html lang=\"en\"").append(night ? " class=\"night\"" : "").append(">\n<head><meta charset=\"utf-8\">")
                 .append("<meta name=\"viewport\" content=\"width=device-width, initial-scale=1\">")
+                .append("<link rel=\"icon\" href=\"data:,\">") // no icon to fetch
                 .append("<meta name=\"color-scheme\" content=\"").append(night ? "dark" : "light dark").append("\">");
         if (refresh) sb.append("<meta http-equiv=\"refresh\" content=\"").append(REFRESH_SECONDS).append("\">");
         sb.append("<title>").append(esc(title)).append("</title><style>").append(CSS).append("</style></head>\n<body>\n");
