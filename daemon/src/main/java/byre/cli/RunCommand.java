@@ -77,7 +77,7 @@ final class RunCommand implements Callable<Integer> {
         }
         byre.page.BarnPage page = null;
         try {
-            page = byre.page.BarnPage.start(cfg, daemon, live, Clock.systemUTC()).orElse(null);
+            page = byre.page.BarnPage.start(cfg, daemon, live, registry, Clock.systemUTC()).orElse(null);
         } catch (java.io.IOException e) {
             System.err.println("byre: cannot open the barn page on " + cfg.page().host() + ":" + cfg.page().port() + ": " + e.getMessage());
             if (admin != null) admin.close();

@@ -37,7 +37,8 @@ public final class BarnPage implements AutoCloseable {
      *
      * @throws IOException when the listener's address cannot be bound
      */
-    public static Optional<BarnPage> start(ByreConfig cfg, Daemon daemon, LiveValues live, Clock clock) throws IOException {
+    public static Optional<BarnPage> start(ByreConfig cfg, Daemon daemon, LiveValues live, io.micrometer.core.instrument.MeterRegistry registry,
+                                           Clock clock) throws IOException {
         PageSettings ps = cfg.page();
         if (!ps.enabled()) return Optional.empty();
         AckLinkSigner signer = null;
@@ -54,7 +55,7 @@ public final class BarnPage implements AutoCloseable {
         BarnPageSource source = new BarnPageSource(cfg, live, () -> daemon.store().openReader(), open);
         BarnPageHtml.Site site = new BarnPageHtml.Site(cfg.site(), cfg.timezone(), cfg.units() == ByreConfig.DisplayUnits.US);
         PageServer server = PageServer.start(ps.host(), ps.port(), site, source, open, daemon.alerts(), signer, cfg.admin().token(),
-                ps.readingNeedsToken(), clock);
+                ps.readingNeedsToken(), clock, registry);
         return Optional.of(new BarnPage(server, signer, ps.linksEnabled() && signer != null));
     }
 

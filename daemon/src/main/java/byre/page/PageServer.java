@@ -7,6 +7,8 @@ import byre.alerts.OpenIncident;
 import byre.config.Secret;
 import com.sun.net.httpserver.HttpExchange;
 import com.sun.net.httpserver.HttpServer;
+import io.micrometer.core.instrument.Counter;
+import io.micrometer.core.instrument.MeterRegistry;
 import java.io.IOException;
 import java.io.OutputStream;
 import java.net.InetSocketAddress;
@@ -61,10 +63,11 @@ public final class PageServer implements AutoCloseable {
     private final byte[] token;
     private final boolean readingNeedsToken;
     private final Clock clock;
+    private final MeterRegistry registry;
 
     private PageServer(HttpServer server, ExecutorService pool, BarnPageHtml.Site site, BarnPageSource source,
                        Supplier<List<OpenIncident>> open, AckService acks, AckLinkSigner signer, Secret token,
-                       boolean readingNeedsToken, Clock clock) {
+                       boolean readingNeedsToken, Clock clock, MeterRegistry registry) {
         this.server = server;
         this.pool = pool;
         this.site = site;
@@ -75,17 +78,20 @@ public final class PageServer implements AutoCloseable {
         this.token = token == null ? null : token.reveal().strip().getBytes(StandardCharsets.UTF_8);
         this.readingNeedsToken = readingNeedsToken;
         this.clock = clock;
+        this.registry = registry;
     }
 
     /**
      * Binds and starts the listener.
      *
      * @param signer checks signed links; null when there is no link key (links then get the "not valid" page)
-     * @param token  the admin token, or null (acknowledging from the page is then off; signed links still work)
+     * @param token    the admin token, or null (acknowledging from the page is then off; signed links still work)
+     * @param registry counts acknowledgement attempts by outcome ({@code byre.page.acks})
      * @throws IOException when the address cannot be bound
      */
     static PageServer start(String host, int port, BarnPageHtml.Site site, BarnPageSource source, Supplier<List<OpenIncident>> open,
-                            AckService acks, AckLinkSigner signer, Secret token, boolean readingNeedsToken, Clock clock) throws IOException {
+                            AckService acks, AckLinkSigner signer, Secret token, boolean readingNeedsToken, Clock clock,
+                            MeterRegistry registry) throws IOException {
         // Bound the time a slow or idle client may hold a worker (JDK server properties, seconds; the admin API sets the same).
         System.setProperty("sun.net.httpserver.maxReqTime", System.getProperty("sun.net.httpserver.maxReqTime", "10"));
         System.setProperty("sun.net.httpserver.maxRspTime", System.getProperty("sun.net.httpserver.maxRspTime", "30"));
@@ -97,7 +103,7 @@ public final class PageServer implements AutoCloseable {
             t.setDaemon(true);
             return t;
         });
-        PageServer p = new PageServer(http, pool, site, source, open, acks, signer, token, readingNeedsToken, clock);
+        PageServer p = new PageServer(http, pool, site, source, open, acks, signer, token, readingNeedsToken, clock, registry);
         http.setExecutor(pool);
         http.createContext("/", p::handle);
         http.start();
@@ -149,6 +155,7 @@ public final class PageServer implements AutoCloseable {
         if (!allowed(ex, method, "GET", "HEAD", "POST")) return;
         String[] parts = path.substring("/a/".length()).split("/", -1);
         if (parts.length != 3 || signer == null) {
+            count("link", "forged");
             refuse(ex, 403, now, AckLinkSigner.Verdict.FORGED, null);
             return;
         }
@@ -157,6 +164,7 @@ public final class PageServer implements AutoCloseable {
         if (post) drain(ex);
         AckLinkSigner.Verdict v = post ? signer.redeem(incident, parts[1], parts[2], now) : signer.check(incident, parts[1], parts[2], now);
         if (v != AckLinkSigner.Verdict.VALID) {
+            count("link", v.name().toLowerCase());
             LOG.info("acknowledgement link for incident {} refused: {}", v == AckLinkSigner.Verdict.FORGED ? "(not shown)" : incident,
                     v.name().toLowerCase());
             refuse(ex, switch (v) {
@@ -183,6 +191,7 @@ public final class PageServer implements AutoCloseable {
         }
         Optional<OpenIncident> before = find(incident);
         AckResult r = acks.acknowledge(incident, LINK_ACK_BY);
+        count("link", r.status().name().toLowerCase());
         LOG.info("acknowledgement of {} by signed link: {}", incident, r.status().name().toLowerCase());
         answer(ex, r, before, now);
     }
@@ -229,6 +238,7 @@ public final class PageServer implements AutoCloseable {
         }
         String given = form.getOrDefault("token", "").strip();
         if (!loggedIn && !tokenMatches(given.getBytes(StandardCharsets.UTF_8))) {
+            count("token", "wrong-token");
             LOG.info("acknowledgement of {} from the barn page refused: wrong admin token", incident);
             send(ex, 403, BarnPageHtml.outcome(site, now, "Wrong token", "That is not the admin token. Nothing was changed."));
             return;
@@ -237,6 +247,7 @@ public final class PageServer implements AutoCloseable {
         if (by.isEmpty()) by = "barn page";
         if (by.length() > 80) by = by.substring(0, 80);
         AckResult r = acks.acknowledge(incident, by);
+        count("token", r.status().name().toLowerCase());
         LOG.info("acknowledgement of {} from the barn page: {}", incident, r.status().name().toLowerCase());
         answer(ex, r, a, now);
     }
@@ -255,6 +266,15 @@ public final class PageServer implements AutoCloseable {
     }
 
     // ---- helpers ----
+
+    /**
+     * {@code byre_page_acks_total{via="link"|"token", outcome=…}}: for links the refusals (forged, expired, used) and
+     * what a press did (acknowledged, already, unknown); for the token form the same, and wrong-token.
+     */
+    private void count(String via, String outcome) {
+        Counter.builder("byre.page.acks").tag("via", via).tag("outcome", outcome)
+                .description("Acknowledgements tried on the barn page, by way and outcome").register(registry).increment();
+    }
 
     private Optional<OpenIncident> find(String incident) {
         return open.get().stream().filter(i -> i.id().equals(incident)).findFirst();

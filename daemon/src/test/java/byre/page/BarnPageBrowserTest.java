@@ -129,9 +129,10 @@ class BarnPageBrowserTest {
         ByreConfig cfg = ConfigLoader.load(cfgFile);
         MutableClock clock = new MutableClock(NOW);
         LiveValues live = new LiveValues();
+        SimpleMeterRegistry registry = new SimpleMeterRegistry();
 
-        try (Daemon daemon = Daemon.create(cfg, clock, new SimpleMeterRegistry()).listen(live).start(new ClimateDeriver());
-             BarnPage page = BarnPage.start(cfg, daemon, live, clock).orElseThrow()) {
+        try (Daemon daemon = Daemon.create(cfg, clock, registry).listen(live).start(new ClimateDeriver());
+             BarnPage page = BarnPage.start(cfg, daemon, live, registry, clock).orElseThrow()) {
             await().atMost(Duration.ofSeconds(15)).until(() -> daemon.link().isConnected());
             try (TestPublisher sensors = new TestPublisher("tcp://127.0.0.1:" + brokerPort)) {
                 sensors.publish("larkmoor/cow-shed/dry", "30");
@@ -238,6 +239,10 @@ class BarnPageBrowserTest {
                 phone.click(phone.one("button#ack"));
                 assertEquals("Acknowledged", phone.text(phone.one("#outcome")));
                 assertEquals("Sam", incident(daemon, "calf-cold").ackBy());
+                for (String[] c : new String[][] {{"link", "acknowledged"}, {"link", "used"}, {"link", "forged"}, {"link", "expired"},
+                        {"token", "wrong-token"}, {"token", "acknowledged"}}) {
+                    assertEquals(1.0, registry.counter("byre.page.acks", "via", c[0], "outcome", c[1]).count(), 0.0, String.join(" ", c));
+                }
 
                 phone.open(base + "/");
                 assertTrue(phone.text(phone.one("#alerts article[data-incident='" + cold.id() + "']")).contains("Acknowledged by Sam"));

@@ -19,6 +19,7 @@ import byre.history.HistoryStore;
 import byre.rules.ZoneReading;
 import byre.testing.MutableClock;
 import byre.units.Quantity;
+import io.micrometer.core.instrument.simple.SimpleMeterRegistry;
 import java.net.URI;
 import java.net.http.HttpClient;
 import java.net.http.HttpRequest;
@@ -51,6 +52,7 @@ class PageServerTest {
     final IncidentBook book = new IncidentBook("larkmoor", IdSource.counting());
     final List<AckResult> acks = new ArrayList<>();
     final HttpClient http = HttpClient.newHttpClient();
+    final SimpleMeterRegistry registry = new SimpleMeterRegistry();
     HistoryStore store;
     AckLinkSigner signer;
     PageServer server;
@@ -81,7 +83,7 @@ class PageServerTest {
                     AckResult r = book.acknowledge(id, by, clock.instant());
                     acks.add(r);
                     return r;
-                }, signer, new Secret(TOKEN + "\n", "test"), readingNeedsToken, clock);
+                }, signer, new Secret(TOKEN + "\n", "test"), readingNeedsToken, clock, registry);
     }
 
     @BeforeEach
@@ -178,6 +180,8 @@ class PageServerTest {
         assertTrue(expired.body().contains("It worked until Tue 14 Jul 02:05 farm time."), expired.body());
         assertTrue(acks.isEmpty());
         assertNull(open(incident).ackBy());
+        assertEquals(3.0, registry.counter("byre.page.acks", "via", "link", "outcome", "forged").count(), 0.0);
+        assertEquals(1.0, registry.counter("byre.page.acks", "via", "link", "outcome", "expired").count(), 0.0);
     }
 
     @Test
