@@ -100,6 +100,18 @@ class AckLinkSignerTest {
     }
 
     @Test
+    void anotherSpellingOfTheSameSignatureIsNotAFreshLink() {
+        String[] p = parts(signer.link("k7m2xq9rtb", NOW));
+        // 128 bits in 22 base64 characters leave 4 unused bits in the last one: the next letter up decodes to the same bytes.
+        String alphabet = "ABCDEFGHIJKLMNOPQRSTUVWXYZabcdefghijklmnopqrstuvwxyz0123456789-_";
+        char last = p[2].charAt(21);
+        String twin = p[2].substring(0, 21) + alphabet.charAt(alphabet.indexOf(last) + 1);
+        assertTrue(Arrays.equals(Base64.getUrlDecoder().decode(p[2]), Base64.getUrlDecoder().decode(twin)), "the JDK decodes both alike");
+        assertEquals(Verdict.VALID, signer.redeem(p[0], p[1], p[2], NOW));
+        assertEquals(Verdict.FORGED, signer.redeem(p[0], p[1], twin, NOW), "not a second use in disguise");
+    }
+
+    @Test
     void checkingDoesNotUseALinkUp() {
         String[] p = parts(signer.link("k7m2xq9rtb", NOW));
         for (int i = 0; i < 3; i++) assertEquals(Verdict.VALID, signer.check(p[0], p[1], p[2], NOW), "a preview fetch changes nothing");
