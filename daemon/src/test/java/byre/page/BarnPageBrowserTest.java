@@ -217,8 +217,8 @@ class BarnPageBrowserTest {
                 assertEquals("This link has been used", phone.text(phone.one("#outcome")));
                 // A forged link (signature altered) for the other alert: refused, nothing changes.
                 String good = page.linkFor(cold.id()).orElseThrow();
-                char c = good.charAt(good.length() - 5);
-                String forged = good.substring(0, good.length() - 5) + (c == 'A' ? 'B' : 'A') + good.substring(good.length() - 4);
+                char mid = good.charAt(good.length() - 5);
+                String forged = good.substring(0, good.length() - 5) + (mid == 'A' ? 'B' : 'A') + good.substring(good.length() - 4);
                 phone.open(forged);
                 assertEquals("This link is not valid", phone.text(phone.one("#outcome")));
                 String expired = page.signer().orElseThrow().link(cold.id(), NOW.minus(Duration.ofHours(13)));
