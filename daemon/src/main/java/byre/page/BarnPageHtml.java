@@ -63,7 +63,8 @@ final class BarnPageHtml {
             .reading{font-size:1.6rem;font-weight:700;margin:4px 0;font-variant-numeric:tabular-nums}
             .msg{margin:4px 0}
             .card p{margin:4px 0}
-            .ackrow{display:flex;align-items:center;justify-content:space-between;gap:8px;margin-top:8px}
+            .ackrow{display:flex;flex-wrap:wrap;align-items:center;justify-content:space-between;gap:8px;margin-top:8px}
+            .ackrow .button{padding:10px 14px}
             .unacked{font-weight:700}
             .id{font-family:ui-monospace,monospace;font-size:1rem}
             a.button,button{display:inline-block;font:inherit;font-weight:700;padding:12px 18px;border-radius:8px;border:2px solid var(--fg);background:var(--fg);color:var(--bg);text-decoration:none;min-height:48px}

@@ -28,6 +28,7 @@ import java.time.Clock;
 import java.time.Duration;
 import java.time.Instant;
 import java.time.ZoneOffset;
+import java.util.Arrays;
 import java.util.List;
 import org.junit.jupiter.api.Assumptions;
 import org.junit.jupiter.api.Test;
@@ -197,6 +198,14 @@ class BarnPageBrowserTest {
                 // Readable on a 360-px screen: nothing wider than the screen.
                 assertEquals(String.valueOf(PHONE_WIDTH), phone.property(phone.one("html"), "clientWidth"));
                 assertTrue(Integer.parseInt(phone.property(phone.one("html"), "scrollWidth")) <= PHONE_WIDTH, "no sideways scrolling");
+                for (String card : alerts) {
+                    double[] c = phone.rect(card);
+                    for (String button : phone.all("#alerts article[data-incident] a.button")) {
+                        double[] b = phone.rect(button);
+                        if (b[1] < c[1] || b[1] > c[1] + c[3]) continue; // another card's button
+                        assertTrue(b[0] + b[2] <= c[0] + c[2] - 4, "the button stays inside its card: " + Arrays.toString(b) + " in " + Arrays.toString(c));
+                    }
+                }
                 phone.screenshot(SHOTS.resolve("barn-page-360.png"));
                 phone.screenshotScreen(SHOTS.resolve("barn-page-360-first-screen.png"));
                 phase("barn page read and screenshot");

@@ -159,6 +159,13 @@ public final class Chromium implements AutoCloseable {
         return v == null ? null : v.toString();
     }
 
+    /** Where an element is drawn, in CSS pixels: {x, y, width, height}. */
+    public double[] rect(String element) throws IOException, InterruptedException {
+        Map<?, ?> r = (Map<?, ?>) call("GET", s("/element/" + element + "/rect"), null);
+        return new double[] {((Number) r.get("x")).doubleValue(), ((Number) r.get("y")).doubleValue(),
+                ((Number) r.get("width")).doubleValue(), ((Number) r.get("height")).doubleValue()};
+    }
+
     /** A computed CSS value, e.g. {@code background-color} as {@code rgba(0, 0, 0, 1)}. */
     public String css(String element, String property) throws IOException, InterruptedException {
         return (String) call("GET", s("/element/" + element + "/css/" + property), null);
