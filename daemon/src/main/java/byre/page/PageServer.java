@@ -226,6 +226,8 @@ public final class PageServer implements AutoCloseable {
         if (!method.equals("POST")) {
             if (a.isEmpty()) {
                 send(ex, 404, BarnPageHtml.outcome(site, now, "Nothing to acknowledge", "This alert is no longer open: it has cleared."));
+            } else if (a.get().ackBy() != null) {
+                send(ex, 200, BarnPageHtml.outcome(site, now, "Already acknowledged", "Acknowledged by " + a.get().ackBy() + "."));
             } else {
                 send(ex, 200, BarnPageHtml.tokenForm(site, a.get(), now, loggedIn));
             }

@@ -206,6 +206,8 @@ class PageServerTest {
         assertEquals(200, ok.statusCode());
         assertEquals("<b>Sam</b>", open(incident).ackBy());
         assertTrue(get("/").body().contains("Acknowledged by &lt;b&gt;Sam&lt;/b&gt;"), "the name is escaped on the page");
+        HttpResponse<String> again = get("/ack/" + incident);
+        assertTrue(again.body().contains("Already acknowledged") && !again.body().contains("name=\"token\""), again.body());
         assertEquals(404, get("/ack/" + "nope%3Cx").statusCode());
     }
 
