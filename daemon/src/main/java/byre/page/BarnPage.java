@@ -16,9 +16,10 @@ import org.slf4j.LoggerFactory;
 
 /**
  * The barn page of a running daemon, assembled from the configuration ({@code page:}): its listener, the link key
- * and the signer of acknowledgement links. {@code byre run} and the tests start it the same way.
+ * and the signer of acknowledgement links, which it hands to the daemon's messages when {@code page.base-url} is
+ * set. {@code byre run} and the tests start it the same way.
  */
-public final class BarnPage implements AutoCloseable {
+public final class BarnPage implements byre.alerts.AckLinks, AutoCloseable {
     private static final Logger LOG = LoggerFactory.getLogger(BarnPage.class);
 
     private final PageServer server;
@@ -56,7 +57,9 @@ public final class BarnPage implements AutoCloseable {
         BarnPageHtml.Site site = new BarnPageHtml.Site(cfg.site(), cfg.timezone(), cfg.units() == ByreConfig.DisplayUnits.US);
         PageServer server = PageServer.start(ps.host(), ps.port(), site, source, open, daemon.alerts(), signer, cfg.admin().token(),
                 ps.readingNeedsToken(), clock, registry);
-        return Optional.of(new BarnPage(server, signer, ps.linksEnabled() && signer != null));
+        BarnPage page = new BarnPage(server, signer, ps.linksEnabled() && signer != null);
+        if (page.linksInMessages) daemon.alerts().useAckLinks(page);
+        return Optional.of(page);
     }
 
     public int port() {
@@ -67,6 +70,7 @@ public final class BarnPage implements AutoCloseable {
      * The acknowledgement link for an incident as of now, for messages; empty when links are off (no
      * {@code page.base-url}, or no key).
      */
+    @Override
     public Optional<String> linkFor(String incidentId) {
         return linksInMessages ? signer.linkFor(incidentId) : Optional.empty();
     }

@@ -134,6 +134,8 @@ class BarnPageBrowserTest {
 
         try (Daemon daemon = Daemon.create(cfg, clock, registry).listen(live).start(new ClimateDeriver());
              BarnPage page = BarnPage.start(cfg, daemon, live, registry, clock).orElseThrow()) {
+            List<byre.alerts.AlertEvent> events = new java.util.concurrent.CopyOnWriteArrayList<>();
+            daemon.alerts().onEvent(events::add);
             await().atMost(Duration.ofSeconds(15)).until(() -> daemon.link().isConnected());
             try (TestPublisher sensors = new TestPublisher("tcp://127.0.0.1:" + brokerPort)) {
                 sensors.publish("larkmoor/cow-shed/dry", "30");
@@ -210,8 +212,11 @@ class BarnPageBrowserTest {
                 phone.screenshotScreen(SHOTS.resolve("barn-page-360-first-screen.png"));
                 phase("barn page read and screenshot");
 
-                // One tap: the signed link opens the alert and one button; opening it changes nothing.
-                String link = page.linkFor(heat.id()).orElseThrow();
+                // One tap: the link in the raise message opens the alert and one button; opening it changes nothing.
+                String text = events.stream().filter(e -> e.incident().equals(heat.id())).findFirst().orElseThrow().message();
+                java.util.regex.Matcher m = java.util.regex.Pattern.compile(java.util.regex.Pattern.quote(base) + "/a/\\S+").matcher(text);
+                assertTrue(m.find(), "the message carries the signed link: " + text);
+                String link = m.group();
                 assertTrue(link.startsWith(base + "/a/" + heat.id() + "/"), link);
                 phone.open(link);
                 phone.open(link); // a link preview and the tap itself: two fetches
