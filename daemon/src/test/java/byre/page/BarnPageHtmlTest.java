@@ -82,7 +82,7 @@ class BarnPageHtmlTest {
     void staleValuesAreMarked() {
         String html = BarnPageHtml.page(METRIC, new BarnView(List.of(zone("cow-shed", DAY, Quantity.DRY_BULB, 20.0, 12, Quantity.RH, 60, 1)),
                 List.of(), List.of(), null), DAY);
-        assertTrue(html.contains("<div data-q=\"dry-bulb\" class=\"stale\" title=\"12m old\">"), html);
+        assertTrue(html.contains("<div data-q=\"dry-bulb\" class=\"stale\" title=\"12 min old\">"), html);
         assertTrue(html.contains("<div data-q=\"rh\"><dt>"), html);
     }
 
@@ -95,7 +95,7 @@ class BarnPageHtmlTest {
         assertFalse(html.contains("<script>"), html);
         assertFalse(html.contains("<b>Sam"), html);
         assertTrue(html.contains("Fans &lt;script&gt;alert(1)&lt;/script&gt; &amp; &quot;water&quot;"), html);
-        assertTrue(html.contains("Acknowledged by &lt;b&gt;Sam&lt;/b&gt;, 3m ago"), html);
+        assertTrue(html.contains("Acknowledged by &lt;b&gt;Sam&lt;/b&gt;, 3 min ago"), html);
         assertTrue(html.contains("shed-&lt;rh&gt;"), html);
         assertTrue(html.contains("the history cannot be read: &lt;locked&gt;"), html);
         assertEquals("&lt;a href=&#39;x&#39;&gt;\uFFFD", Html.esc("<a href='x'>\u0007"));
@@ -107,7 +107,7 @@ class BarnPageHtmlTest {
                 List.of(incident("k7m2xq9rtb", "heat-stress", "cow-shed", "Heat stress in cow-shed", null)), List.of(), null);
         String html = BarnPageHtml.page(METRIC, v, DAY);
         assertTrue(html.indexOf("id=\"alerts\"") < html.indexOf("id=\"zones\""));
-        assertTrue(html.contains("open 42m &middot; incident <span class=\"id\">k7m2xq9rtb</span>"), html);
+        assertTrue(html.contains("open 42 min &middot; incident <span class=\"id\">k7m2xq9rtb</span>"), html);
         assertTrue(html.contains("Not acknowledged"));
         assertTrue(html.contains("href=\"/ack/k7m2xq9rtb\""));
         assertTrue(html.contains("THI 84.2 <span class=\"band b3\">emergency</span>"), html);

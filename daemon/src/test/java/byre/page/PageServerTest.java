@@ -156,7 +156,7 @@ class PageServerTest {
     void pressingTheButtonAcknowledgesOnce() throws Exception {
         HttpResponse<String> r = post(linkPath(), "");
         assertEquals(200, r.statusCode());
-        assertTrue(r.body().contains("Acknowledged: heat-stress in cow-shed, open 42m."), r.body());
+        assertTrue(r.body().contains("Acknowledged: heat-stress in cow-shed, open 42 min."), r.body());
         assertEquals(PageServer.LINK_ACK_BY, open(incident).ackBy());
         HttpResponse<String> again = post(linkPath(), "");
         assertEquals(409, again.statusCode());
