@@ -176,7 +176,7 @@ final class BarnPageHtml {
         if (q == null || !Double.isFinite(a.value())) return "";
         Unit u = displayUnit(q, us);
         String s = esc(label(q)) + " " + number(u.fromCanonical(a.value()), q, u) + unitSuffix(u);
-        if (q == Quantity.THI) s += " <span class=\"band b" + bandIndex(a.value()) + "\">" + esc(SCALE.category(a.value())) + "</span>";
+        if (q == Quantity.THI) s += " <span class=\"band b" + bandIndex(a.value()) + "\">" + esc(bandName(a.value())) + "</span>";
         return s;
     }
 
@@ -196,7 +196,7 @@ final class BarnPageHtml {
             boolean stale = stale(thi, z, now);
             sb.append("<div class=\"thi").append(stale ? " stale" : "").append("\" data-q=\"thi\"><div><div class=\"sub\">THI</div><span class=\"big\">")
                     .append(fmt(thi.value(), 1)).append("</span></div><span class=\"band b").append(bandIndex(thi.value())).append("\">")
-                    .append(esc(SCALE.category(thi.value()))).append("</span>");
+                    .append(esc(bandName(thi.value()))).append("</span>");
             if (stale) sb.append("<span class=\"sub\">").append(esc(ago(thi, now))).append("</span>");
             sb.append("</div>");
         }
@@ -385,24 +385,26 @@ final class BarnPageHtml {
         return IncidentBook.human(Duration.between(v.at(), now)) + " old";
     }
 
-    /** Band position 0..3 on the LWSI scale (selects the colour). */
+    /** Band position 0..3 on the LWSI scale (selects the colour), judged on the value as shown, as the messages do. */
     static int bandIndex(double thi) {
         int idx = 0;
         List<ThiScale.Band> bands = SCALE.bands();
-        for (int i = 0; i < bands.size(); i++) if (thi >= bands.get(i).from()) idx = i;
+        for (int i = 0; i < bands.size(); i++) if (shown(thi) >= bands.get(i).from()) idx = i;
         return idx;
     }
 
-    /** The unit a value is shown in: the site's choice, as in {@code byre status} (ft/min for air speed in US units). */
+    /** The band's name for a THI, judged on the value as shown (one decimal): "84.0" never reads "danger". */
+    static String bandName(double thi) {
+        return SCALE.category(shown(thi));
+    }
+
+    private static double shown(double thi) {
+        return Math.round(thi * 10) / 10.0;
+    }
+
+    /** The unit a value is shown in: the site's choice, as in the messages (F and mph in US units). */
     static Unit displayUnit(Quantity q, boolean us) {
-        Unit canonical = q.canonicalUnit();
-        if (!us) return canonical;
-        return switch (q.dimension()) {
-            case TEMPERATURE -> Unit.F;
-            case SPEED -> Unit.FT_PER_MIN;
-            case PRESSURE -> q == Quantity.VPD ? Unit.KPA : Unit.INHG;
-            default -> canonical;
-        };
+        return byre.rules.eval.MessageText.displayUnit(q, us);
     }
 
     static String label(Quantity q) {

@@ -45,18 +45,19 @@ class BarnPageHtmlTest {
         assertTrue(metric.contains("<dd>30.0\u00a0°C</dd>"), metric);
         assertTrue(metric.contains("<dd>2.0\u00a0m/s</dd>"), metric);
         String us = BarnPageHtml.page(US, v, DAY);
-        // 30 C = 86 F (9/5 * 30 + 32); 2 m/s = 393.7 ft/min (1 ft = 0.3048 m): common practice.
+        // 30 C = 86 F (9/5 * 30 + 32); 2 m/s = 4.47 mph (1 mile = 1609.344 m): common practice. Same units as the messages.
         assertTrue(us.contains("<dd>86.0\u00a0°F</dd>"), us);
-        assertTrue(us.contains("<dd>394\u00a0ft/min</dd>"), us);
-        // THI has no unit and is not converted; 78.95 is in the LWSI "alert" band (75-78, danger from 79).
-        assertTrue(us.contains("<span class=\"big\">79.0</span></div><span class=\"band b1\">alert</span>"), us);
+        assertTrue(us.contains("<dd>4.5\u00a0mph</dd>"), us);
+        // THI has no unit and is not converted; 78.95 shows as 79.0, and the band is judged on what is shown: LWSI
+        // "danger" from 79 (so the number and its band never disagree on the screen).
+        assertTrue(us.contains("<span class=\"big\">79.0</span></div><span class=\"band b2\">danger</span>"), us);
         assertTrue(us.contains("Values in US units"));
     }
 
     @Test
     void everyLwsiBandHasItsWordAndColour() {
         // Band edges of the Livestock Weather Safety Index (LCI 1970): normal < 75, alert 75-78, danger 79-83, emergency >= 84.
-        double[] thi = {74.9, 75.0, 79.0, 84.0};
+        double[] thi = {74.94, 74.96, 79.0, 83.96}; // judged as shown: 74.9, 75.0, 79.0, 84.0
         String[] word = {"normal", "alert", "danger", "emergency"};
         for (int i = 0; i < thi.length; i++) {
             assertEquals(i, BarnPageHtml.bandIndex(thi[i]));
