@@ -27,7 +27,7 @@ public record ByreConfig(Path file, String site, ZoneId timezone, DisplayUnits u
     }
 
     public ByreConfig withZones(Map<String, ZoneConfig> z) {
-        return new ByreConfig(file, site, timezone, units, mqtt, sensors, z, channels, rulePaths, history, admin, alerts);
+        return new ByreConfig(file, site, timezone, units, mqtt, sensors, z, channels, rulePaths, history, admin, alerts, page);
     }
 
     public ByreConfig withRulePaths(List<Path> paths) {
