@@ -75,13 +75,24 @@ final class RunCommand implements Callable<Integer> {
                 return Main.FAILURE;
             }
         }
+        byre.page.BarnPage page = null;
+        try {
+            page = byre.page.BarnPage.start(cfg, daemon, live, registry, Clock.systemUTC()).orElse(null);
+        } catch (java.io.IOException e) {
+            System.err.println("byre: cannot open the barn page on " + cfg.page().host() + ":" + cfg.page().port() + ": " + e.getMessage());
+            if (admin != null) admin.close();
+            daemon.close();
+            return Main.FAILURE;
+        }
         SystemdWatchdog watchdog = SystemdWatchdog.startIfRequested(System.getenv(), health);
         onSighup(reloadAction(daemon));
 
         CountDownLatch stopped = new CountDownLatch(1);
         AdminServer adminToClose = admin;
+        byre.page.BarnPage pageToClose = page;
         Thread hook = new Thread(() -> {
             watchdog.close();
+            if (pageToClose != null) pageToClose.close();
             if (adminToClose != null) adminToClose.close();
             daemon.close();
             stopped.countDown();

@@ -9,28 +9,28 @@ import java.util.Map;
 public record ByreConfig(Path file, String site, ZoneId timezone, DisplayUnits units, MqttSettings mqtt,
                          Map<String, SensorConfig> sensors, Map<String, ZoneConfig> zones,
                          Map<String, ChannelConfig> channels, List<Path> rulePaths,
-                         HistorySettings history, AdminSettings admin, AlertSettings alerts) {
+                         HistorySettings history, AdminSettings admin, AlertSettings alerts, PageSettings page) {
 
     /** How values are shown in messages and on the console. */
     public enum DisplayUnits { METRIC, US }
 
     public ByreConfig withMqtt(MqttSettings m) {
-        return new ByreConfig(file, site, timezone, units, m, sensors, zones, channels, rulePaths, history, admin, alerts);
+        return new ByreConfig(file, site, timezone, units, m, sensors, zones, channels, rulePaths, history, admin, alerts, page);
     }
 
     public ByreConfig withHistory(HistorySettings h) {
-        return new ByreConfig(file, site, timezone, units, mqtt, sensors, zones, channels, rulePaths, h, admin, alerts);
+        return new ByreConfig(file, site, timezone, units, mqtt, sensors, zones, channels, rulePaths, h, admin, alerts, page);
     }
 
     public ByreConfig withAdmin(AdminSettings a) {
-        return new ByreConfig(file, site, timezone, units, mqtt, sensors, zones, channels, rulePaths, history, a, alerts);
+        return new ByreConfig(file, site, timezone, units, mqtt, sensors, zones, channels, rulePaths, history, a, alerts, page);
     }
 
     public ByreConfig withZones(Map<String, ZoneConfig> z) {
-        return new ByreConfig(file, site, timezone, units, mqtt, sensors, z, channels, rulePaths, history, admin, alerts);
+        return new ByreConfig(file, site, timezone, units, mqtt, sensors, z, channels, rulePaths, history, admin, alerts, page);
     }
 
     public ByreConfig withRulePaths(List<Path> paths) {
-        return new ByreConfig(file, site, timezone, units, mqtt, sensors, zones, channels, paths, history, admin, alerts);
+        return new ByreConfig(file, site, timezone, units, mqtt, sensors, zones, channels, paths, history, admin, alerts, page);
     }
 }

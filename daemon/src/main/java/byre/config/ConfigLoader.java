@@ -37,7 +37,7 @@ import org.snakeyaml.engine.v2.nodes.SequenceNode;
  */
 public final class ConfigLoader {
     static final Set<String> TOP_KEYS = ordered("site", "timezone", "units", "mqtt", "sensors", "zones", "notify",
-            "rules", "history", "admin", "digest", "self-alerts");
+            "rules", "history", "admin", "digest", "self-alerts", "page");
     static final Set<String> DIGEST_KEYS = ordered("at", "notify");
     static final Set<String> SELF_ALERT_KEYS = ordered("notify", "channel-failing-after");
     static final Set<String> MQTT_KEYS = ordered("broker", "listen", "client-id", "username", "password-file",
@@ -46,6 +46,7 @@ public final class ConfigLoader {
     static final Set<String> ZONE_KEYS = ordered("groups", "sensors", "elevation", "psychrometer", "max-age", "thi");
     static final Set<String> HISTORY_KEYS = ordered("path", "keep-raw", "keep-minute", "keep-hour");
     static final Set<String> ADMIN_KEYS = ordered("listen", "token-file");
+    static final Set<String> PAGE_KEYS = ordered("listen", "base-url", "link-key-file", "link-valid", "reading");
     static final Map<String, Set<String>> CHANNEL_KEYS = Map.of(
             "webhook", ordered("type", "url", "secret-file", "headers", "template", "timeout", "rate-limit", "give-up"),
             "mqtt", ordered("type", "topic", "retain", "rate-limit", "give-up"),
@@ -130,9 +131,10 @@ public final class ConfigLoader {
         HistorySettings history = history(keys.get("history"));
         AdminSettings admin = admin(keys.get("admin"));
         AlertSettings alerts = alerts(keys.get("digest"), keys.get("self-alerts"), channels);
+        PageSettings page = page(keys.get("page"));
 
         if (!problems.isEmpty()) throw new ConfigException(problems);
-        return new ByreConfig(Path.of(fileName), site, tz, units, mqtt, sensors, zones, channels, rules, history, admin, alerts);
+        return new ByreConfig(Path.of(fileName), site, tz, units, mqtt, sensors, zones, channels, rules, history, admin, alerts, page);
     }
 
     // ---- sections ----
@@ -528,6 +530,34 @@ public final class ConfigLoader {
             }
         }
         return new AdminSettings(hp[0], Integer.parseInt(hp[1]), token, tokenProblem);
+    }
+
+    private PageSettings page(Node node) {
+        Map<String, Node> m = node == null ? Map.of() : mapping(node, PAGE_KEYS, "page");
+        String listen = string(m.get("listen"), "page.listen", "127.0.0.1:0");
+        String[] hp = hostPort(m.get("listen"), "page.listen", listen);
+        String baseUrl = string(m.get("base-url"), "page.base-url", null);
+        if (baseUrl != null) {
+            baseUrl = baseUrl.strip();
+            while (baseUrl.endsWith("/")) baseUrl = baseUrl.substring(0, baseUrl.length() - 1);
+            if (!baseUrl.matches("https?://[^\\s/?#]+(/[^\\s?#]*)?")) {
+                problem(m.get("base-url"), "page.base-url must be the address a phone uses to reach the page, such as "
+                        + "http://192.168.1.20:9467, not '" + baseUrl + "'");
+                baseUrl = null;
+            }
+        }
+        String keyFile = string(m.get("link-key-file"), "page.link-key-file", null);
+        Duration valid = duration(m.get("link-valid"), "page.link-valid", PageSettings.DEFAULT_LINK_VALID);
+        String reading = string(m.get("reading"), "page.reading", "open");
+        if (!reading.equals("open") && !reading.equals("token")) {
+            problem(m.get("reading"), "page.reading must be 'open' (no login on the listener's network) or 'token' "
+                    + "(the admin token as password), not '" + reading + "'");
+        }
+        if (baseUrl != null && Integer.parseInt(hp[1]) == 0) {
+            problem(m.get("base-url"), "page.base-url is set but page.listen is not: links would lead nowhere");
+        }
+        return new PageSettings(hp[0], Integer.parseInt(hp[1]), baseUrl, keyFile == null ? null : resolve(keyFile), valid,
+                reading.equals("token"));
     }
 
     // ---- typed accessors; each records a problem and returns a fallback on a wrong type ----

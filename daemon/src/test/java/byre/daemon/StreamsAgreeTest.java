@@ -130,7 +130,7 @@ class StreamsAgreeTest {
             zones.put(z.id(), new ZoneConfig(z.id(), z.groups(), z.sensors(), z.elevationM(), z.psychrometer(), z.maxAge(), variant.id(), z.line()));
         }
         return new ByreConfig(c.file(), c.site(), c.timezone(), c.units(), c.mqtt(), c.sensors(), zones, c.channels(), c.rulePaths(),
-                c.history(), c.admin(), c.alerts());
+                c.history(), c.admin(), c.alerts(), c.page());
     }
 
     /** Feeds one reading of each sensor through the zone stage and its published derivation; what comes out per zone. */

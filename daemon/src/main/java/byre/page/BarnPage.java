@@ -1,0 +1,87 @@
+package byre.page;
+
+import byre.admin.LiveValues;
+import byre.alerts.OpenIncident;
+import byre.config.ByreConfig;
+import byre.config.PageSettings;
+import byre.daemon.Daemon;
+import java.io.IOException;
+import java.nio.file.Path;
+import java.time.Clock;
+import java.util.List;
+import java.util.Optional;
+import java.util.function.Supplier;
+import org.slf4j.Logger;
+import org.slf4j.LoggerFactory;
+
+/**
+ * The barn page of a running daemon, assembled from the configuration ({@code page:}): its listener, the link key
+ * and the signer of acknowledgement links, which it hands to the daemon's messages when {@code page.base-url} is
+ * set. {@code byre run} and the tests start it the same way.
+ */
+public final class BarnPage implements byre.alerts.AckLinks, AutoCloseable {
+    private static final Logger LOG = LoggerFactory.getLogger(BarnPage.class);
+
+    private final PageServer server;
+    private final AckLinkSigner signer;
+    private final boolean linksInMessages;
+
+    private BarnPage(PageServer server, AckLinkSigner signer, boolean linksInMessages) {
+        this.server = server;
+        this.signer = signer;
+        this.linksInMessages = linksInMessages;
+    }
+
+    /**
+     * Starts the page when {@code page.listen} is set; empty when it is off. A link key that cannot be read or made
+     * leaves signed links off (logged) but the page on.
+     *
+     * @throws IOException when the listener's address cannot be bound
+     */
+    public static Optional<BarnPage> start(ByreConfig cfg, Daemon daemon, LiveValues live, io.micrometer.core.instrument.MeterRegistry registry,
+                                           Clock clock) throws IOException {
+        PageSettings ps = cfg.page();
+        if (!ps.enabled()) return Optional.empty();
+        AckLinkSigner signer = null;
+        Path keyFile = ps.keyFile(cfg.history());
+        try {
+            signer = new AckLinkSigner(LinkKey.loadOrCreate(keyFile), ps.baseUrl() == null ? "" : ps.baseUrl(), ps.linkValid(), clock);
+        } catch (IOException e) {
+            LOG.error("acknowledgement links are off: {}", e.getMessage());
+        }
+        if (ps.baseUrl() == null) {
+            LOG.info("page.base-url is not set: messages carry no acknowledgement link");
+        }
+        Supplier<List<OpenIncident>> open = () -> daemon.alerts().book().openIncidents();
+        BarnPageSource source = new BarnPageSource(cfg, live, () -> daemon.store().openReader(), open);
+        BarnPageHtml.Site site = new BarnPageHtml.Site(cfg.site(), cfg.timezone(), cfg.units() == ByreConfig.DisplayUnits.US);
+        PageServer server = PageServer.start(ps.host(), ps.port(), site, source, open, daemon.alerts(), signer, cfg.admin().token(),
+                ps.readingNeedsToken(), clock, registry);
+        BarnPage page = new BarnPage(server, signer, ps.linksEnabled() && signer != null);
+        if (page.linksInMessages) daemon.alerts().useAckLinks(page);
+        return Optional.of(page);
+    }
+
+    public int port() {
+        return server.port();
+    }
+
+    /**
+     * The acknowledgement link for an incident as of now, for messages; empty when links are off (no
+     * {@code page.base-url}, or no key).
+     */
+    @Override
+    public Optional<String> linkFor(String incidentId) {
+        return linksInMessages ? signer.linkFor(incidentId) : Optional.empty();
+    }
+
+    /** The signer itself (tests; the message texts take {@link #linkFor}). */
+    public Optional<AckLinkSigner> signer() {
+        return Optional.ofNullable(signer);
+    }
+
+    @Override
+    public void close() {
+        server.close();
+    }
+}
