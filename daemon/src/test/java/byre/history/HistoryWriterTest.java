@@ -71,6 +71,57 @@ class HistoryWriterTest {
         await().atMost(Duration.ofSeconds(10)).until(() -> writer.stats().rowsWritten() == 1);
     }
 
+    /** Elapsed time for the writer, moved by the test. */
+    final java.util.concurrent.atomic.AtomicLong ticker = new java.util.concurrent.atomic.AtomicLong();
+
+    HistoryWriter startTicking(WriterSettings settings) {
+        store = HistoryStore.open(dir.resolve("history.db"), clock);
+        writer = HistoryWriter.start(store, Retention.DEFAULT, clock, ticker::get, settings);
+        return writer;
+    }
+
+    /** Returns once the writer has gone round its loop after everything queued before (two tasks, in order). */
+    void writerWentRound() throws Exception {
+        writer.runOnWriter(c -> { }).get();
+        writer.runOnWriter(c -> { }).get();
+    }
+
+    @Test
+    void acknowledgedReadingsWaitForTheCommitIntervalAndAreReleasedByItsCommit() throws Exception {
+        startTicking(WriterSettings.builder().commitEvery(Duration.ofSeconds(2)).firstBatchAtOnce(false).build());
+        java.util.concurrent.atomic.AtomicInteger acks = new java.util.concurrent.atomic.AtomicInteger();
+        for (int i = 0; i < 3; i++) writer.append(PEN1_DRY, T0.plusSeconds(i).toEpochMilli(), i, acks::incrementAndGet);
+        writerWentRound(); // taken at time 0
+        ticker.addAndGet(Duration.ofMillis(1999).toNanos());
+        writerWentRound();
+        assertEquals(0, acks.get(), "not committed, so not acknowledged, before the interval");
+        assertEquals(0, writer.stats().batches());
+        ticker.addAndGet(Duration.ofMillis(1).toNanos());
+        await().atMost(Duration.ofSeconds(10)).until(() -> acks.get() == 3);
+        assertEquals(1, writer.stats().batches(), "one commit for the three readings");
+        assertEquals(3, Sql.number(store.path(), "SELECT count(*) FROM reading"), "acknowledged only once committed");
+    }
+
+    @Test
+    void aPauseWithManyAcknowledgementsHeldCommitsAtOnce() throws Exception {
+        // The broker stops sending when its in-flight window is full of unacknowledged messages: do not wait 2 s.
+        startTicking(WriterSettings.builder().commitEvery(Duration.ofSeconds(2)).firstBatchAtOnce(false).build());
+        java.util.concurrent.atomic.AtomicInteger acks = new java.util.concurrent.atomic.AtomicInteger();
+        for (int i = 0; i < BatchLoop.STALL_MIN_HELD - 1; i++) writer.append(PEN1_DRY, T0.plusSeconds(i).toEpochMilli(), i, acks::incrementAndGet);
+        writerWentRound();
+        ticker.addAndGet(BatchLoop.STALL_NANOS);
+        writerWentRound();
+        assertEquals(0, acks.get(), "too few held to be a full window");
+        writer.append(PEN1_DRY, T0.plusSeconds(100).toEpochMilli(), 1.0, acks::incrementAndGet);
+        writerWentRound();
+        ticker.addAndGet(BatchLoop.STALL_NANOS - 1);
+        writerWentRound();
+        assertEquals(0, acks.get(), "still arriving");
+        ticker.addAndGet(1);
+        await().atMost(Duration.ofSeconds(10)).until(() -> acks.get() == BatchLoop.STALL_MIN_HELD);
+        assertEquals(1, writer.stats().batches());
+    }
+
     @Test
     void commitsABatchWhenItHoldsBatchRows() {
         // A 1-hour delay: only the row count can trigger these commits.
