@@ -5,7 +5,12 @@
 # Usage, from the repository root: daemon/src/test/bench/wear.sh [--seconds 60] [--seed-rows 1000000]
 set -eu
 cd "$(dirname "$0")/../../../.."
-mvn -q -B -o -pl daemon -am test-compile dependency:build-classpath \
-    -Dmdep.outputFile=target/bench.classpath -Dmdep.includeScope=test
-CP="daemon/target/test-classes:daemon/target/classes:$(cat daemon/target/bench.classpath)"
+mvn -q -B -o -pl daemon -am test-compile
+if mvn -q -B -o -pl daemon -am dependency:build-classpath -Dmdep.outputFile=target/bench.classpath -Dmdep.includeScope=test >/dev/null 2>&1; then
+    CP="daemon/target/test-classes:daemon/target/classes:$(cat daemon/target/bench.classpath)"
+else
+    # Without the dependency plugin (offline): the class path surefire used for the last test run of the module.
+    mvn -q -B -o -pl daemon -am test -Dtest=CadenceTest -Dsurefire.failIfNoSpecifiedTests=false >/dev/null
+    CP=$(sed -n 's/.*name="surefire.test.class.path" value="\([^"]*\)".*/\1/p' daemon/target/surefire-reports/TEST-byre.daemon.CadenceTest.xml)
+fi
 exec java -Xmx512m -cp "$CP" byre.bench.WearBench "$@"

@@ -67,6 +67,7 @@ public final class WearBench {
                 "byre", "2 s writer", "60 s writer", "byre / 2 s writer");
         System.out.println("|---|---|---|---|---|");
         for (String[] r : table) System.out.printf(Locale.ROOT, "| %-70s | %14s | %14s | %14s | %s |%n", (Object[]) r);
+        System.exit(0); // the load generator's client threads would keep the JVM alive
     }
 
     static void run(Load load, int seconds, long seedRows, List<String[]> table) throws Exception {
