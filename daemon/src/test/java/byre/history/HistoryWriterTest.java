@@ -72,11 +72,11 @@ class HistoryWriterTest {
     }
 
     /** Elapsed time for the writer, moved by the test. */
-    final java.util.concurrent.atomic.AtomicLong ticker = new java.util.concurrent.atomic.AtomicLong();
+    final ManualTicker ticker = new ManualTicker();
 
     HistoryWriter startTicking(WriterSettings settings) {
         store = HistoryStore.open(dir.resolve("history.db"), clock);
-        writer = HistoryWriter.start(store, Retention.DEFAULT, clock, ticker::get, settings);
+        writer = HistoryWriter.start(store, Retention.DEFAULT, clock, settings, ticker);
         return writer;
     }
 
@@ -92,11 +92,11 @@ class HistoryWriterTest {
         java.util.concurrent.atomic.AtomicInteger acks = new java.util.concurrent.atomic.AtomicInteger();
         for (int i = 0; i < 3; i++) writer.append(PEN1_DRY, T0.plusSeconds(i).toEpochMilli(), i, acks::incrementAndGet);
         writerWentRound(); // taken at time 0
-        ticker.addAndGet(Duration.ofMillis(1999).toNanos());
+        ticker.advance(Duration.ofMillis(1999));
         writerWentRound();
         assertEquals(0, acks.get(), "not committed, so not acknowledged, before the interval");
         assertEquals(0, writer.stats().batches());
-        ticker.addAndGet(Duration.ofMillis(1).toNanos());
+        ticker.advance(Duration.ofMillis(1));
         await().atMost(Duration.ofSeconds(10)).until(() -> acks.get() == 3);
         assertEquals(1, writer.stats().batches(), "one commit for the three readings");
         assertEquals(3, Sql.number(store.path(), "SELECT count(*) FROM reading"), "acknowledged only once committed");
@@ -109,15 +109,15 @@ class HistoryWriterTest {
         java.util.concurrent.atomic.AtomicInteger acks = new java.util.concurrent.atomic.AtomicInteger();
         for (int i = 0; i < BatchLoop.STALL_MIN_HELD - 1; i++) writer.append(PEN1_DRY, T0.plusSeconds(i).toEpochMilli(), i, acks::incrementAndGet);
         writerWentRound();
-        ticker.addAndGet(BatchLoop.STALL_NANOS);
+        ticker.advance(Duration.ofNanos(BatchLoop.STALL_NANOS));
         writerWentRound();
         assertEquals(0, acks.get(), "too few held to be a full window");
         writer.append(PEN1_DRY, T0.plusSeconds(100).toEpochMilli(), 1.0, acks::incrementAndGet);
         writerWentRound();
-        ticker.addAndGet(BatchLoop.STALL_NANOS - 1);
+        ticker.advance(Duration.ofNanos(BatchLoop.STALL_NANOS - 1));
         writerWentRound();
         assertEquals(0, acks.get(), "still arriving");
-        ticker.addAndGet(1);
+        ticker.advance(Duration.ofNanos(1));
         await().atMost(Duration.ofSeconds(10)).until(() -> acks.get() == BatchLoop.STALL_MIN_HELD);
         assertEquals(1, writer.stats().batches());
     }
