@@ -118,7 +118,7 @@ final class DemoCommand implements Callable<Integer> {
             long deadline = started + realDuration.toNanos();
             while (System.nanoTime() < deadline) {
                 if (interrupted.await(200, TimeUnit.MILLISECONDS)) break;
-                if (firstStored < 0 && d.history().rowsWritten() > 0) {
+                if (firstStored < 0 && d.history().stats().rowsWritten() > 0) {
                     firstStored = System.nanoTime();
                 }
                 if (feed.failure().isPresent()) {
@@ -128,7 +128,7 @@ final class DemoCommand implements Callable<Integer> {
             }
             feed.stop();
             d.flush();
-            long rows = d.history().rowsWritten();
+            long rows = d.history().stats().rowsWritten();
             System.out.printf("byre demo: stopped. %d rows stored (%d readings from %d sensors); first row stored %.2f s after start.%n",
                     rows, d.processed(), cfg.sensors().size(), firstStored < 0 ? Double.NaN : (firstStored - started) / 1e9);
             return Main.OK;

@@ -44,7 +44,7 @@ public final class ConfigLoader {
             "password-env", "publish-prefix", "qos", "ca-file", "publish-events", "publish-every", "accept-acks");
     static final Set<String> SENSOR_KEYS = ordered("topic", "quantity", "unit", "payload", "time", "id-level", "max-ids");
     static final Set<String> ZONE_KEYS = ordered("groups", "sensors", "elevation", "psychrometer", "max-age", "thi");
-    static final Set<String> HISTORY_KEYS = ordered("path", "keep-raw", "keep-minute", "keep-hour");
+    static final Set<String> HISTORY_KEYS = ordered("path", "keep-raw", "keep-minute", "keep-hour", "commit-every");
     static final Set<String> ADMIN_KEYS = ordered("listen", "token-file");
     static final Set<String> PAGE_KEYS = ordered("listen", "base-url", "link-key-file", "link-valid", "reading");
     static final Map<String, Set<String>> CHANNEL_KEYS = Map.of(
@@ -485,7 +485,12 @@ public final class ConfigLoader {
         Duration hour = duration(m.get("keep-hour"), "history.keep-hour", Duration.ofDays(5 * 365 + 1));
         if (raw.compareTo(minute) > 0) problem(m.get("keep-raw"), "history.keep-raw must not be longer than keep-minute");
         if (minute.compareTo(hour) > 0) problem(m.get("keep-minute"), "history.keep-minute must not be longer than keep-hour");
-        return new HistorySettings(path, raw, minute, hour);
+        Duration commitEvery = duration(m.get("commit-every"), "history.commit-every", HistorySettings.DEFAULT_COMMIT_EVERY);
+        if (commitEvery.compareTo(Duration.ofMinutes(1)) > 0) {
+            problem(m.get("commit-every"), "history.commit-every must be at most 1m: readings not yet committed are held only by the broker,"
+                + " whose in-flight window and queue must hold that many");
+        }
+        return new HistorySettings(path, raw, minute, hour, commitEvery);
     }
 
     /**

@@ -93,7 +93,7 @@ public final class Daemon implements AutoCloseable {
             if (db.getParent() != null) Files.createDirectories(db.getParent());
             store = HistoryStore.open(db, clock);
             writer = HistoryWriter.start(store, new Retention(config.history().keepRaw(), config.history().keepMinute(),
-                    config.history().keepHour()), clock);
+                    config.history().keepHour()), clock, byre.history.WriterSettings.builder().commitEvery(config.history().commitEvery()).build(), ticker);
             registerHistoryMeters();
 
             // Zones combine inputs with the max-ages known at start (learnt from the history where not configured).
@@ -166,14 +166,15 @@ public final class Daemon implements AutoCloseable {
     }
 
     private void registerHistoryMeters() {
-        Gauge.builder("byre.history.queue", writer, HistoryWriter::queueDepth).description("Rows waiting for the history writer").register(registry);
-        Gauge.builder("byre.history.backlog", writer, HistoryWriter::backlogRows).description("Rows held in memory while the database cannot be written").register(registry);
-        Gauge.builder("byre.history.rows.written", writer, HistoryWriter::rowsWritten).description("Rows committed to the history").register(registry);
-        Gauge.builder("byre.history.batch.rows", writer, HistoryWriter::lastBatchRows).description("Rows in the last committed batch").register(registry);
-        Gauge.builder("byre.history.commit.millis", writer, HistoryWriter::lastCommitMillis).description("Duration of the last commit").register(registry);
-        Gauge.builder("byre.history.rows.dropped", writer, HistoryWriter::rowsDropped).description("Rows dropped because the backlog was full").register(registry);
-        Gauge.builder("byre.history.write.errors", writer, HistoryWriter::writeErrors).description("Failed history writes").register(registry);
-        Gauge.builder("byre.history.healthy", writer, w -> w.isHealthy() ? 1 : 0).description("1 while history writes succeed").register(registry);
+        Gauge.builder("byre.history.queue", writer, w -> w.stats().queueDepth()).description("Rows waiting for the history writer").register(registry);
+        Gauge.builder("byre.history.backlog", writer, w -> w.stats().backlogRows()).description("Rows held in memory while the database cannot be written").register(registry);
+        Gauge.builder("byre.history.rows.written", writer, w -> w.stats().rowsWritten()).description("Rows committed to the history").register(registry);
+        Gauge.builder("byre.history.commits", writer, w -> w.stats().batches()).description("History batches committed (one commit each)").register(registry);
+        Gauge.builder("byre.history.batch.rows", writer, w -> w.stats().lastBatchRows()).description("Rows in the last committed batch").register(registry);
+        Gauge.builder("byre.history.commit.millis", writer, w -> w.stats().lastCommitMillis()).description("Duration of the last commit").register(registry);
+        Gauge.builder("byre.history.rows.dropped", writer, w -> w.stats().rowsDropped()).description("Rows dropped because the backlog was full").register(registry);
+        Gauge.builder("byre.history.write.errors", writer, w -> w.stats().writeErrors()).description("Failed history writes").register(registry);
+        Gauge.builder("byre.history.healthy", writer, w -> w.stats().healthy() ? 1 : 0).description("1 while history writes succeed").register(registry);
         Gauge.builder("byre.history.size.bytes", store, HistoryStore::sizeOnDiskBytes).description("Database size on disk").register(registry);
     }
 
@@ -237,9 +238,9 @@ public final class Daemon implements AutoCloseable {
         HistoryWriter w = writer;
         Pipeline p = pipeline;
         return new HealthSnapshot(l != null && l.isConnected(), l == null ? "not started" : l.lastError(),
-                w != null && w.isHealthy(), w == null ? "not started" : w.lastError().orElse(""),
+                w != null && w.stats().healthy(), w == null ? "not started" : w.stats().lastError().orElse(""),
                 p == null ? Long.MAX_VALUE : p.idleNanos() / 1_000_000L,
-                p == null ? 0 : p.depth(), processed(), w == null ? 0 : w.queueDepth(),
+                p == null ? 0 : p.depth(), processed(), w == null ? 0 : w.stats().queueDepth(),
                 l == null ? 0 : l.quietWhileConnected().toMillis(), quietLimit.toMillis());
     }
 
@@ -262,7 +263,7 @@ public final class Daemon implements AutoCloseable {
         // Stop taking messages, store and acknowledge what was taken, then say goodbye to the broker.
         if (link != null) link.pauseIntake();
         if (pipeline != null) pipeline.close();
-        if (writer != null && writer.isHealthy()) writer.flush(java.time.Duration.ofSeconds(10));
+        if (writer != null && writer.stats().healthy()) writer.flush(java.time.Duration.ofSeconds(10));
         if (link != null) link.close();
         if (alerts != null) alerts.close();
         if (writer != null) writer.close();

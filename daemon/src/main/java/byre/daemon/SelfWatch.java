@@ -37,7 +37,8 @@ final class SelfWatch implements Pipeline.ZoneListener {
     @Override
     public void tick(Instant now) {
         if (!checks.due(now)) return;
-        boolean healthy = writer.isHealthy();
+        byre.history.WriterStats stats = writer.stats();
+        boolean healthy = stats.healthy();
         if (healthy) {
             unhealthySince = null;
         } else if (unhealthySince == null || unhealthySince.isAfter(now)) {
@@ -47,7 +48,7 @@ final class SelfWatch implements Pipeline.ZoneListener {
         if (bad != raised) {
             raised = bad;
             alerts.selfAlert(HISTORY_DISK, bad, bad
-                    ? "byre cannot write its history database (" + writer.lastError().orElse("unknown error")
+                    ? "byre cannot write its history database (" + stats.lastError().orElse("unknown error")
                             + "); alerts still work. Free disk space or check the SD card."
                     : "byre writes its history database again");
         }

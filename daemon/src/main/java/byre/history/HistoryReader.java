@@ -122,12 +122,16 @@ public final class HistoryReader implements AutoCloseable {
 
     /** Streams the raw readings of one stream in [from, to), oldest first, to {@code sink}. */
     public void forEachRaw(StreamKey key, Instant from, Instant to, Consumer<HistoryRow> sink) {
+        rawRange(key, lo(from), hi(to), sink);
+    }
+
+    private void rawRange(StreamKey key, long lo, long hi, Consumer<HistoryRow> sink) {
         query("raw readings of " + key, "SELECT r.ts, r.value FROM reading r JOIN stream s ON s.id = r.stream "
                 + "WHERE s.kind = ? AND s.key = ? AND r.ts >= ? AND r.ts < ? ORDER BY r.ts",
             ps -> {
                 bindKey(ps, 1, key);
-                ps.setLong(3, lo(from));
-                ps.setLong(4, hi(to));
+                ps.setLong(3, lo);
+                ps.setLong(4, hi);
             },
             rs -> sink.accept(new HistoryRow(key, Instant.ofEpochMilli(rs.getLong(1)), rs.getDouble(2))));
     }
@@ -180,15 +184,46 @@ public final class HistoryReader implements AutoCloseable {
         return out;
     }
 
-    /** Streams the stored rollups of one stream whose bucket starts in [from, to), oldest first. */
+    /**
+     * Streams the rollups of one stream whose bucket starts in [from, to), oldest first. Buckets the writer still
+     * holds in memory (newer than the level's mark, see {@code rollup_mark}) are summed from the finer stored levels.
+     */
     public void forEachRollup(StreamKey key, Resolution resolution, Instant from, Instant to, Consumer<RollupRow> sink) {
+        long[] marks;
+        try {
+            marks = OpenRollups.readMarks(conn);
+        } catch (SQLException e) {
+            throw new HistoryException("history query (rollup marks) failed: " + e.getMessage(), e);
+        }
+        long mark = resolution == Resolution.MINUTE ? marks[0] : marks[1];
+        long lo = lo(from);
+        long hi = hi(to);
+        storedRollups(key, resolution, lo, Math.min(hi, mark), sink);
+        if (hi <= mark) return;
+        // Buckets starting in [start, end): the marks are aligned to their level's width.
+        long w = resolution.widthMs;
+        long start = lo <= mark ? mark : -Math.floorDiv(-lo, w) * w;
+        long end = hi == Long.MAX_VALUE ? hi : -Math.floorDiv(-hi, w) * w;
+        if (start >= end) return;
+        BucketMerger merger = new BucketMerger(key, resolution.width(), sink);
+        long rawFrom = start;
+        if (resolution == Resolution.HOUR && marks[0] > start) {
+            storedRollups(key, Resolution.MINUTE, start, Math.min(end, marks[0]), merger::add);
+            rawFrom = Math.max(start, marks[0]);
+        }
+        if (rawFrom < end) rawRange(key, rawFrom, end, merger::add);
+        merger.finish();
+    }
+
+    private void storedRollups(StreamKey key, Resolution resolution, long lo, long hi, Consumer<RollupRow> sink) {
+        if (lo >= hi) return;
         Duration width = resolution.width();
         query(resolution.name().toLowerCase() + " rollups of " + key, "SELECT r.ts, r.lo, r.hi, r.total, r.n FROM " + resolution.table
                 + " r JOIN stream s ON s.id = r.stream WHERE s.kind = ? AND s.key = ? AND r.ts >= ? AND r.ts < ? ORDER BY r.ts",
             ps -> {
                 bindKey(ps, 1, key);
-                ps.setLong(3, lo(from));
-                ps.setLong(4, hi(to));
+                ps.setLong(3, lo);
+                ps.setLong(4, hi);
             },
             rs -> {
                 long n = rs.getLong(5);

@@ -83,7 +83,21 @@ final class Migrations {
               done_at    INTEGER,
               PRIMARY KEY (channel, event)) WITHOUT ROWID""",
             "CREATE INDEX outbox_delivery_state ON outbox_delivery (state, channel, event)",
-            "CREATE INDEX outbox_delivery_done ON outbox_delivery (channel, done_at)"))
+            "CREATE INDEX outbox_delivery_done ON outbox_delivery (channel, done_at)")),
+        new Migration(3, "rollup marks: rollups are written when their bucket closes", List.of(
+            // The minute (hour) table holds exactly the raw rows older than the minute (hour) mark; newer rows are
+            // summed in memory until their bucket closes, and summed from the raw rows when read (epoch ms, aligned).
+            """
+            CREATE TABLE rollup_mark (
+              res  TEXT    PRIMARY KEY CHECK (res IN ('minute', 'hour')),
+              upto INTEGER NOT NULL) WITHOUT ROWID""",
+            // Earlier versions wrote every row's rollups at once: everything stored so far is rolled up, so both marks
+            // start at the end of the newest hour bucket (0 for a new file); rows of that hour still go into both tables
+            // at once. One stream at a time: the key bounds each scan.
+            """
+            INSERT INTO rollup_mark(res, upto)
+              SELECT 'minute', coalesce(max((SELECT max(ts) FROM rollup_hour h WHERE h.stream = s.id)) + 3600000, 0) FROM stream s""",
+            "INSERT INTO rollup_mark(res, upto) SELECT 'hour', upto FROM rollup_mark WHERE res = 'minute'"))
     );
 
     static int latestVersion() { return ALL.get(ALL.size() - 1).version(); }

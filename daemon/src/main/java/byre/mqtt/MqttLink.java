@@ -142,7 +142,10 @@ public final class MqttLink implements AutoCloseable {
         return () -> {
             ackGate.readLock().lock();
             try {
-                if (deliveredOn != connection) {
+                // The client turns "not connected" first thing when its socket fails, before it reports the loss
+                // (which moves the connection number): an acknowledgement handed to it then could go out later on
+                // the next connection, where the same packet id may name another message.
+                if (deliveredOn != connection || !client.isConnected()) {
                     LOG.debug("acknowledgement of message {} not sent: its connection is gone", id);
                     return;
                 }
@@ -257,8 +260,13 @@ public final class MqttLink implements AutoCloseable {
                 onConnecting.forEach(Runnable::run);
                 client.connect(options()).waitForCompletion(10_000);
                 if (!client.isConnected()) throw new MqttException(MqttException.REASON_CODE_CLIENT_TIMEOUT);
-                for (Map.Entry<String, Handler> s : subscriptions.entrySet()) {
-                    client.subscribe(s.getKey(), settings.qos()).waitForCompletion(10_000);
+                // One SUBSCRIBE for every filter: one round trip, however many sensors, to a broker that may be
+                // slow just after its own restart (reloading and saving its sessions).
+                if (!subscriptions.isEmpty()) {
+                    String[] filters = subscriptions.keySet().toArray(new String[0]);
+                    int[] qos = new int[filters.length];
+                    java.util.Arrays.fill(qos, settings.qos());
+                    client.subscribe(filters, qos).waitForCompletion(10_000);
                 }
                 connected = true;
                 quiet.connected(ticker.nanos());

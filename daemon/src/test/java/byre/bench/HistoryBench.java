@@ -2,6 +2,7 @@ package byre.bench;
 
 import byre.history.HistoryStore;
 import byre.history.HistoryWriter;
+import byre.history.WriterSettings;
 import byre.history.Retention;
 import byre.history.StreamKey;
 import java.io.IOException;
@@ -104,7 +105,7 @@ public final class HistoryBench {
                 }
                 if (!w.flush()) throw new IllegalStateException("flush timed out");
                 t1 = System.nanoTime();
-                if (w.rowsWritten() != rows) throw new IllegalStateException("wrote " + w.rowsWritten() + " of " + rows);
+                if (w.stats().rowsWritten() != rows) throw new IllegalStateException("wrote " + w.stats().rowsWritten() + " of " + rows);
             }
             store.checkpoint();
         }
@@ -130,7 +131,7 @@ public final class HistoryBench {
                     ps.setLong(2, ts(i, streams));
                     ps.setDouble(3, value(i));
                     ps.addBatch();
-                    if ((i + 1) % HistoryWriter.Settings.DEFAULT.batchRows() == 0) {
+                    if ((i + 1) % WriterSettings.DEFAULT.batchRows() == 0) {
                         ps.executeBatch();
                         c.commit();
                     }

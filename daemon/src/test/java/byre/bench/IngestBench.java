@@ -51,7 +51,7 @@ import org.eclipse.paho.client.mqttv3.persist.MemoryPersistence;
 public final class IngestBench {
     static final int SENSORS = 200;
     static final int ZONES = 50;
-    static final int BATCH_ROWS = byre.history.HistoryWriter.Settings.DEFAULT.batchRows();
+    static final int BATCH_ROWS = byre.history.WriterSettings.DEFAULT.batchRows();
 
     /** One QoS level of one round: the baseline process, the in-process subscriber and byre. */
     record Round(double bareRate, long bareGot, double inJvmRate, double byreRate, long byreRows, long published) {}

@@ -78,6 +78,7 @@ class ConfigLoaderTest {
         assertTrue(Double.isNaN(c.zones().get("cow-shed").elevationM()));
         assertEquals(dir.resolve("history.db"), c.history().path());
         assertEquals(Duration.ofDays(90), c.history().keepMinute(), "default");
+        assertEquals(Duration.ofSeconds(2), c.history().commitEvery(), "default");
         assertEquals(List.of(dir.resolve("rules.d")), c.rulePaths());
         assertEquals("mqtt", c.channels().get("barn-siren").type());
     }
@@ -93,6 +94,7 @@ class ConfigLoaderTest {
             wrong type               | mqtt: [a, b]                                   | byre.yaml:1: mqtt must be a mapping of keys, not a list
             bad qos                  | mqtt:\\n  qos: two                             | byre.yaml:2: mqtt.qos must be a whole number, not 'two'
             bad duration             | history:\\n  keep-raw: fortnight               | byre.yaml:2: history.keep-raw must be a duration such as 30s, 20m, 2h, 14d or 5y, not 'fortnight'
+            commit interval too long | history:\\n  commit-every: 5m                 | byre.yaml:2: history.commit-every must be at most 1m: readings not yet committed are held only by the broker, whose in-flight window and queue must hold that many
             channel missing field    | notify:\\n  night-phone: { type: webhook }     | byre.yaml:2: webhook channel night-phone is missing 'url'
             unknown channel type     | notify:\\n  n: { type: webhok, url: x }        | byre.yaml:2: unknown channel type 'webhok' (did you mean 'webhook'?); one of webhook, mqtt, email, command
             bad time zone            | timezone: Europe/Londn                          | byre.yaml:1: unknown time zone 'Europe/Londn' (did you mean 'Europe/London'?); use a region name such as Europe/London

@@ -55,23 +55,23 @@ class DiskFullTest {
                 await().atMost(Duration.ofSeconds(15)).until(() -> d.link().isConnected());
                 HistoryWriter writer = d.history();
                 try (SensorStream sensors = new SensorStream(m.uri(), System.currentTimeMillis() - 120_000, 300)) {
-                    await().atMost(Duration.ofSeconds(20)).until(() -> writer.rowsWritten() >= 200);
+                    await().atMost(Duration.ofSeconds(20)).until(() -> writer.stats().rowsWritten() >= 200);
                     WriterHooks.capAtCurrentSize(writer);
-                    await().atMost(Duration.ofSeconds(20)).until(() -> !writer.isHealthy());
+                    await().atMost(Duration.ofSeconds(20)).until(() -> !writer.stats().healthy());
                     assertEquals(0.0, registry.get("byre.history.healthy").gauge().value(), "the health gauge says so");
-                    assertTrue(writer.lastError().orElse("").contains("full"), writer.lastError().orElse(""));
+                    assertTrue(writer.stats().lastError().orElse("").contains("full"), writer.stats().lastError().orElse(""));
 
                     long processedWhenFull = d.processed();
                     long zonesWhenFull = zoneReadings.get();
-                    long writtenWhenFull = writer.rowsWritten();
+                    long writtenWhenFull = writer.stats().rowsWritten();
                     await().atMost(Duration.ofSeconds(20)).until(() -> d.processed() >= processedWhenFull + 1000);
                     assertTrue(zoneReadings.get() > zonesWhenFull, "zone streams are still derived while the disk is full");
-                    assertFalse(writer.isHealthy());
-                    assertEquals(writtenWhenFull, writer.rowsWritten(), "nothing could be written");
-                    assertTrue(writer.backlogRows() > 500, "readings wait in memory: " + writer.backlogRows());
+                    assertFalse(writer.stats().healthy());
+                    assertEquals(writtenWhenFull, writer.stats().rowsWritten(), "nothing could be written");
+                    assertTrue(writer.stats().backlogRows() > 500, "readings wait in memory: " + writer.stats().backlogRows());
 
                     WriterHooks.lift(writer);
-                    await().atMost(Duration.ofSeconds(40)).until(writer::isHealthy);
+                    await().atMost(Duration.ofSeconds(40)).until(() -> writer.stats().healthy());
                     sensors.close();
                     Set<String> acked = sensors.acknowledged();
                     await().atMost(Duration.ofSeconds(20)).untilAsserted(() -> {
@@ -80,8 +80,8 @@ class DiskFullTest {
                         missing.removeAll(FaultRig.sensorRows(db));
                         assertEquals(Set.of(), missing, "readings taken in while the disk was full");
                     });
-                    assertEquals(0, writer.rowsDropped());
-                    assertEquals(0, writer.backlogRows());
+                    assertEquals(0, writer.stats().rowsDropped());
+                    assertEquals(0, writer.stats().backlogRows());
                 }
             }
         }

@@ -75,7 +75,11 @@ class KillNineTest {
                     sensors.close();
                     Set<String> acked = sensors.acknowledged();
                     try {
-                        // Until the backlog is in: every committed row found, and no new row for 3 s (> the 2 s batch delay).
+                        // Up first: on a busy machine the JVM can take longer to start than the quiet spell below, which
+                        // would then pass before byre had taken in anything.
+                        await().atMost(Duration.ofSeconds(60)).pollInterval(Duration.ofMillis(100))
+                                .until(() -> byre.log().contains("connected to MQTT broker"));
+                        // Until the backlog is in: every committed row found, and no new row for 3 s (> the 2 s commit interval).
                         long[] last = {-1, System.nanoTime()};
                         await().atMost(Duration.ofSeconds(40)).pollInterval(Duration.ofMillis(250)).until(() -> {
                             if (!Files.exists(db)) return false;

@@ -33,7 +33,7 @@ class HistorySizeTest {
                     writer.append(StreamKey.sensor("shed" + s / 10 + "-sensor" + s), ts, Math.round((12 + 8 * rnd.nextDouble()) * 100) / 100.0);
                 }
                 assertTrue(writer.flush());
-                assertEquals(rows, writer.rowsWritten());
+                assertEquals(rows, writer.stats().rowsWritten());
             }
             store.checkpoint();
         }

@@ -27,7 +27,7 @@ class HistoryWriterTest {
     HistoryStore store;
     HistoryWriter writer;
 
-    HistoryWriter start(HistoryWriter.Settings settings) {
+    HistoryWriter start(WriterSettings settings) {
         store = HistoryStore.open(dir.resolve("history.db"), clock);
         writer = HistoryWriter.start(store, Retention.DEFAULT, clock, settings);
         return writer;
@@ -42,7 +42,7 @@ class HistoryWriterTest {
 
     @Test
     void writesAndReadsBack() {
-        start(HistoryWriter.Settings.DEFAULT.withBatch(1000, Duration.ofSeconds(2)));
+        start(WriterSettings.builder().batchRows(1000).commitEvery(Duration.ofSeconds(2)).firstBatchAtOnce(false).build());
         assertTrue(writer.append(PEN1_DRY, T0, 21.5));
         assertTrue(writer.append(PEN1_DRY, T0.plusSeconds(10), 21.75));
         assertTrue(writer.append(new ZoneReading(T0.plusSeconds(10), "cows", COWS_THI.quantity().orElseThrow(), 71.2)));
@@ -55,9 +55,9 @@ class HistoryWriterTest {
             assertEquals(List.of(PEN1_DRY, COWS_THI), r.streams());
             assertEquals("zone:cows.thi", r.streams().get(1).toString());
         }
-        assertEquals(3, writer.rowsWritten());
-        assertEquals(1, writer.batches());
-        assertEquals(3, writer.lastBatchRows());
+        assertEquals(3, writer.stats().rowsWritten());
+        assertEquals(1, writer.stats().batches());
+        assertEquals(3, writer.stats().lastBatchRows());
         assertTrue(writer.databaseSizeBytes() > 0);
     }
 
@@ -66,23 +66,74 @@ class HistoryWriterTest {
         // The ticker never moves, so the 2 s batch delay never passes: only the first-batch rule can commit.
         ManualTicker ticker = new ManualTicker();
         store = HistoryStore.open(dir.resolve("history.db"), clock);
-        writer = HistoryWriter.start(store, Retention.DEFAULT, clock, HistoryWriter.Settings.DEFAULT, ticker);
+        writer = HistoryWriter.start(store, Retention.DEFAULT, clock, WriterSettings.DEFAULT, ticker);
         writer.append(PEN1_DRY, T0, 1.0);
-        await().atMost(Duration.ofSeconds(10)).until(() -> writer.rowsWritten() == 1);
+        await().atMost(Duration.ofSeconds(10)).until(() -> writer.stats().rowsWritten() == 1);
+    }
+
+    /** Elapsed time for the writer, moved by the test. */
+    final ManualTicker ticker = new ManualTicker();
+
+    HistoryWriter startTicking(WriterSettings settings) {
+        store = HistoryStore.open(dir.resolve("history.db"), clock);
+        writer = HistoryWriter.start(store, Retention.DEFAULT, clock, settings, ticker);
+        return writer;
+    }
+
+    /** Returns once the writer has gone round its loop after everything queued before (two tasks, in order). */
+    void writerWentRound() throws Exception {
+        writer.runOnWriter(c -> { }).get();
+        writer.runOnWriter(c -> { }).get();
+    }
+
+    @Test
+    void acknowledgedReadingsWaitForTheCommitIntervalAndAreReleasedByItsCommit() throws Exception {
+        startTicking(WriterSettings.builder().commitEvery(Duration.ofSeconds(2)).firstBatchAtOnce(false).build());
+        java.util.concurrent.atomic.AtomicInteger acks = new java.util.concurrent.atomic.AtomicInteger();
+        for (int i = 0; i < 3; i++) writer.append(PEN1_DRY, T0.plusSeconds(i).toEpochMilli(), i, acks::incrementAndGet);
+        writerWentRound(); // taken at time 0
+        ticker.advance(Duration.ofMillis(1999));
+        writerWentRound();
+        assertEquals(0, acks.get(), "not committed, so not acknowledged, before the interval");
+        assertEquals(0, writer.stats().batches());
+        ticker.advance(Duration.ofMillis(1));
+        await().atMost(Duration.ofSeconds(10)).until(() -> acks.get() == 3);
+        assertEquals(1, writer.stats().batches(), "one commit for the three readings");
+        assertEquals(3, Sql.number(store.path(), "SELECT count(*) FROM reading"), "acknowledged only once committed");
+    }
+
+    @Test
+    void aPauseWithManyAcknowledgementsHeldCommitsAtOnce() throws Exception {
+        // The broker stops sending when its in-flight window is full of unacknowledged messages: do not wait 2 s.
+        startTicking(WriterSettings.builder().commitEvery(Duration.ofSeconds(2)).firstBatchAtOnce(false).build());
+        java.util.concurrent.atomic.AtomicInteger acks = new java.util.concurrent.atomic.AtomicInteger();
+        for (int i = 0; i < BatchLoop.STALL_MIN_HELD - 1; i++) writer.append(PEN1_DRY, T0.plusSeconds(i).toEpochMilli(), i, acks::incrementAndGet);
+        writerWentRound();
+        ticker.advance(Duration.ofNanos(BatchLoop.STALL_NANOS));
+        writerWentRound();
+        assertEquals(0, acks.get(), "too few held to be a full window");
+        writer.append(PEN1_DRY, T0.plusSeconds(100).toEpochMilli(), 1.0, acks::incrementAndGet);
+        writerWentRound();
+        ticker.advance(Duration.ofNanos(BatchLoop.STALL_NANOS - 1));
+        writerWentRound();
+        assertEquals(0, acks.get(), "still arriving");
+        ticker.advance(Duration.ofNanos(1));
+        await().atMost(Duration.ofSeconds(10)).until(() -> acks.get() == BatchLoop.STALL_MIN_HELD);
+        assertEquals(1, writer.stats().batches());
     }
 
     @Test
     void commitsABatchWhenItHoldsBatchRows() {
         // A 1-hour delay: only the row count can trigger these commits.
-        start(HistoryWriter.Settings.DEFAULT.withBatch(100, Duration.ofHours(1)));
+        start(WriterSettings.builder().batchRows(100).commitEvery(Duration.ofHours(1)).firstBatchAtOnce(false).build());
         for (int i = 0; i < 250; i++) writer.append(PEN1_DRY, T0.plusSeconds(i), i);
-        await().atMost(Duration.ofSeconds(10)).until(() -> writer.batches() == 2);
-        assertEquals(200, writer.rowsWritten());
-        assertEquals(100, writer.lastBatchRows());
-        assertEquals(50, writer.backlogRows(), "the rest waits for the next trigger");
+        await().atMost(Duration.ofSeconds(10)).until(() -> writer.stats().batches() == 2);
+        assertEquals(200, writer.stats().rowsWritten());
+        assertEquals(100, writer.stats().lastBatchRows());
+        assertEquals(50, writer.stats().backlogRows(), "the rest waits for the next trigger");
         assertEquals(200, Sql.number(store.path(), "SELECT count(*) FROM reading"));
         assertTrue(writer.flush());
-        assertEquals(250, writer.rowsWritten());
+        assertEquals(250, writer.stats().rowsWritten());
     }
 
     @Test
@@ -91,20 +142,20 @@ class HistoryWriterTest {
         // hand-moved ticker, can trigger this commit.
         ManualTicker ticker = new ManualTicker();
         store = HistoryStore.open(dir.resolve("history.db"), clock);
-        writer = HistoryWriter.start(store, Retention.DEFAULT, clock, HistoryWriter.Settings.DEFAULT.withBatch(1000, Duration.ofHours(1)), ticker);
+        writer = HistoryWriter.start(store, Retention.DEFAULT, clock, WriterSettings.builder().batchRows(1000).commitEvery(Duration.ofHours(1)).firstBatchAtOnce(false).build(), ticker);
         for (int i = 0; i < 5; i++) writer.append(PEN1_DRY, T0.plusSeconds(i), i);
-        await().atMost(Duration.ofSeconds(10)).until(() -> writer.backlogRows() == 5); // taken by the writer: the delay runs
+        await().atMost(Duration.ofSeconds(10)).until(() -> writer.stats().backlogRows() == 5); // taken by the writer: the delay runs
         ticker.advance(Duration.ofMinutes(59));
-        assertEquals(0, writer.rowsWritten());
+        assertEquals(0, writer.stats().rowsWritten());
         ticker.advance(Duration.ofMinutes(1));
-        await().atMost(Duration.ofSeconds(10)).until(() -> writer.rowsWritten() == 5);
-        assertEquals(1, writer.batches());
+        await().atMost(Duration.ofSeconds(10)).until(() -> writer.stats().rowsWritten() == 5);
+        assertEquals(1, writer.stats().batches());
         assertEquals(5, Sql.number(store.path(), "SELECT count(*) FROM reading"));
     }
 
     @Test
     void redeliveredReadingsAreStoredOnceAndCountedOnceInTheRollups() {
-        start(HistoryWriter.Settings.DEFAULT.withBatch(3, Duration.ofHours(1)));
+        start(WriterSettings.builder().batchRows(3).commitEvery(Duration.ofHours(1)).firstBatchAtOnce(false).build());
         writer.append(PEN1_DRY, T0, 10.0);
         writer.append(PEN1_DRY, T0.plusSeconds(10), 20.0);
         writer.append(PEN1_DRY, T0.plusSeconds(10), 99.0); // duplicate inside the same batch
@@ -112,8 +163,8 @@ class HistoryWriterTest {
         writer.append(PEN1_DRY, T0, 50.0);                  // redelivery in a later batch
         writer.append(PEN1_DRY, T0.plusSeconds(20), 30.0);
         assertTrue(writer.flush());
-        assertEquals(3, writer.rowsWritten());
-        assertEquals(2, writer.rowsDuplicate());
+        assertEquals(3, writer.stats().rowsWritten());
+        assertEquals(2, writer.stats().rowsDuplicate());
         try (HistoryReader r = store.openReader()) {
             assertEquals(List.of(10.0, 20.0, 30.0), r.raw(PEN1_DRY, null, null).stream().map(HistoryRow::value).toList(),
                 "the first value of a (stream, time) is kept");
@@ -129,7 +180,7 @@ class HistoryWriterTest {
     void interleavedStreamsInOneBatchKeepEachStreamsFirstValue() {
         // The writer sorts a batch by stream before inserting; arrival order must still decide which duplicate wins.
         StreamKey wet = StreamKey.sensor("pen1-wet");
-        start(HistoryWriter.Settings.DEFAULT.withBatch(6, Duration.ofHours(1)));
+        start(WriterSettings.builder().batchRows(6).commitEvery(Duration.ofHours(1)).firstBatchAtOnce(false).build());
         writer.append(wet, T0.plusSeconds(5), 7.0);
         writer.append(PEN1_DRY, T0.plusSeconds(5), 20.0);
         writer.append(wet, T0, 6.0);
@@ -137,8 +188,8 @@ class HistoryWriterTest {
         writer.append(wet, T0.plusSeconds(5), 98.0);
         writer.append(PEN1_DRY, T0, 10.0);
         assertTrue(writer.flush());
-        assertEquals(4, writer.rowsWritten());
-        assertEquals(2, writer.rowsDuplicate());
+        assertEquals(4, writer.stats().rowsWritten());
+        assertEquals(2, writer.stats().rowsDuplicate());
         try (HistoryReader r = store.openReader()) {
             assertEquals(List.of(10.0, 20.0), r.raw(PEN1_DRY, null, null).stream().map(HistoryRow::value).toList());
             assertEquals(List.of(6.0, 7.0), r.raw(wet, null, null).stream().map(HistoryRow::value).toList());
@@ -149,71 +200,70 @@ class HistoryWriterTest {
 
     @Test
     void rejectsValuesThatAreNotFiniteAndReadingsOlderThanKeepRaw() {
-        start(HistoryWriter.Settings.DEFAULT);
+        start(WriterSettings.DEFAULT);
         assertFalse(writer.append(PEN1_DRY, T0, Double.NaN));
         assertFalse(writer.append(PEN1_DRY, T0, Double.POSITIVE_INFINITY));
         assertFalse(writer.append(null, T0, 1.0));
-        assertEquals(3, writer.rowsRejected());
+        assertEquals(3, writer.stats().rowsRejected());
         writer.append(PEN1_DRY, clock.instant().minus(Duration.ofDays(15)), 1.0);
         writer.append(PEN1_DRY, clock.instant().minus(Duration.ofDays(13)), 2.0);
         assertTrue(writer.flush());
-        assertEquals(1, writer.rowsTooOld());
-        assertEquals(1, writer.rowsWritten());
-        assertTrue(writer.isHealthy());
+        assertEquals(1, writer.stats().rowsTooOld());
+        assertEquals(1, writer.stats().rowsWritten());
+        assertTrue(writer.stats().healthy());
     }
 
     @Test
     void appendAfterCloseIsRejectedAndCloseFlushes() {
-        start(HistoryWriter.Settings.DEFAULT.withBatch(1000, Duration.ofHours(1)));
+        start(WriterSettings.builder().batchRows(1000).commitEvery(Duration.ofHours(1)).firstBatchAtOnce(false).build());
         writer.append(PEN1_DRY, T0, 1.0);
         writer.close();
         assertEquals(1, Sql.number(store.path(), "SELECT count(*) FROM reading"));
         assertFalse(writer.append(PEN1_DRY, T0.plusSeconds(1), 2.0));
-        assertEquals(1, writer.rowsRejected());
+        assertEquals(1, writer.stats().rowsRejected());
     }
 
     @Test
     void aFullDiskMakesTheWriterUnhealthyKeepsTheRowsAndWritesThemWhenSpaceReturns() throws Exception {
-        start(HistoryWriter.Settings.DEFAULT.withBatch(500, Duration.ofMillis(50)).withMaxRetryDelay(Duration.ofMillis(200)));
+        start(WriterSettings.builder().batchRows(500).commitEvery(Duration.ofMillis(50)).firstBatchAtOnce(false).maxRetryDelay(Duration.ofMillis(200)).build());
         writer.append(PEN1_DRY, T0, 0.0);
         assertTrue(writer.flush());
         // Cap the file at its current size: the next pages cannot be allocated (SQLITE_FULL).
         WriterHooks.capAtCurrentSize(writer);
         int rows = 20_000;
         for (int i = 1; i <= rows; i++) assertTrue(writer.append(PEN1_DRY, T0.plusSeconds(i), i));
-        await().atMost(Duration.ofSeconds(20)).until(() -> !writer.isHealthy());
-        assertTrue(writer.lastError().orElseThrow().contains("full"), writer.lastError().orElseThrow());
-        assertTrue(writer.writeErrors() >= 1);
-        await().atMost(Duration.ofSeconds(20)).until(() -> writer.queueDepth() == 0);
-        assertTrue(writer.backlogRows() > 0, "rows are kept in memory");
+        await().atMost(Duration.ofSeconds(20)).until(() -> !writer.stats().healthy());
+        assertTrue(writer.stats().lastError().orElseThrow().contains("full"), writer.stats().lastError().orElseThrow());
+        assertTrue(writer.stats().writeErrors() >= 1);
+        await().atMost(Duration.ofSeconds(20)).until(() -> writer.stats().queueDepth() == 0);
+        assertTrue(writer.stats().backlogRows() > 0, "rows are kept in memory");
         long storedWhileFull = Sql.number(store.path(), "SELECT count(*) FROM reading");
         assertTrue(storedWhileFull < rows + 1);
-        assertEquals(0, writer.rowsDropped());
+        assertEquals(0, writer.stats().rowsDropped());
 
         WriterHooks.lift(writer);
-        await().atMost(Duration.ofSeconds(20)).until(writer::isHealthy);
+        await().atMost(Duration.ofSeconds(20)).until(() -> writer.stats().healthy());
         assertTrue(writer.flush());
         assertEquals(rows + 1, Sql.number(store.path(), "SELECT count(*) FROM reading"));
         assertEquals(rows + 1, Sql.number(store.path(), "SELECT sum(n) FROM rollup_minute"), "no batch counted twice by the retries");
-        assertEquals(0, writer.backlogRows());
+        assertEquals(0, writer.stats().backlogRows());
     }
 
     @Test
     void aBacklogBeyondItsBoundDropsTheOldestRowsAndCountsThem() throws Exception {
-        start(HistoryWriter.Settings.DEFAULT.withBatch(100, Duration.ofMillis(50)).withBacklogLimit(1000)
-            .withMaxRetryDelay(Duration.ofMillis(200)));
+        start(WriterSettings.builder().batchRows(100).commitEvery(Duration.ofMillis(50)).firstBatchAtOnce(false).backlogLimit(1000).maxRetryDelay(Duration.ofMillis(200)).build());
         writer.append(PEN1_DRY, T0, 0.0);
         assertTrue(writer.flush());
         WriterHooks.capAtCurrentSize(writer);
         // Enough rows that a batch needs new pages, then more than the backlog holds.
         for (int i = 1; i <= 3000; i++) writer.append(PEN1_DRY, T0.plusSeconds(i), i);
-        await().atMost(Duration.ofSeconds(20)).until(() -> writer.queueDepth() == 0 && writer.rowsDropped() > 0);
-        assertFalse(writer.isHealthy());
-        assertTrue(writer.backlogRows() <= 1000);
+        await().atMost(Duration.ofSeconds(20)).until(() -> writer.stats().queueDepth() == 0 && writer.stats().rowsDropped() > 0);
+        assertFalse(writer.stats().healthy());
+        assertTrue(writer.stats().backlogRows() <= 1000);
         WriterHooks.lift(writer);
         assertTrue(writer.flush(Duration.ofSeconds(20)));
         long stored = Sql.number(store.path(), "SELECT count(*) FROM reading");
-        assertEquals(3001, stored + writer.rowsDropped(), "every row is either stored or counted as dropped");
+        assertEquals(3001, stored + writer.stats().rowsDropped(), "every row is either stored or counted as dropped");
         // The newest rows survive: it is the oldest that are dropped.
         assertEquals(T0.plusSeconds(3000).toEpochMilli(), Sql.number(store.path(), "SELECT max(ts) FROM reading"));
     }

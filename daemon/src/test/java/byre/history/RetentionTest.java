@@ -25,7 +25,7 @@ class RetentionTest {
         Retention keep = new Retention(Duration.ofDays(1), Duration.ofDays(2), Duration.ofDays(3));
         try (HistoryStore store = HistoryStore.open(dir.resolve("history.db"), clock);
              HistoryWriter writer = HistoryWriter.start(store, keep, clock,
-                 HistoryWriter.Settings.DEFAULT.withRetention(Duration.ofDays(365), 100))) {
+                 WriterSettings.builder().retention(Duration.ofDays(365), 100).build())) {
             Path db = store.path();
             // Readings every 30 s over [T-20h, T): 2400 per stream, 1200 minutes, 20 hours.
             for (long s = 0; s < 20 * 3600; s += 30) {
@@ -43,8 +43,8 @@ class RetentionTest {
             assertEquals(2400, Sql.number(db, "SELECT count(*) FROM rollup_minute"));
             assertEquals(40, Sql.number(db, "SELECT count(*) FROM rollup_hour"));
             // 720 old rows per stream in steps of at most 100 rows.
-            assertEquals(100, writer.maxRetentionStepRows());
-            assertTrue(writer.retentionSteps() >= 2 * 8, "steps: " + writer.retentionSteps());
+            assertEquals(100, writer.stats().maxRetentionStepRows());
+            assertTrue(writer.stats().retentionSteps() >= 2 * 8, "steps: " + writer.stats().retentionSteps());
 
             // T+40h: every raw row is past 1 day; minutes before T-8h are past 2 days; hours still kept.
             clock.advance(Duration.ofHours(30));
@@ -60,9 +60,9 @@ class RetentionTest {
             await().atMost(Duration.ofSeconds(20)).until(() -> Sql.number(db, "SELECT count(*) FROM rollup_hour") == 2 * 2);
             assertEquals(T.minus(Duration.ofHours(2)).toEpochMilli(), Sql.number(db, "SELECT min(ts) FROM rollup_hour"));
             assertEquals(0, Sql.number(db, "SELECT count(*) FROM rollup_minute"));
-            assertEquals(100, writer.maxRetentionStepRows());
-            assertEquals(4800 + 2400 + 36, writer.retentionRowsDeleted());
-            assertTrue(writer.isHealthy());
+            assertEquals(100, writer.stats().maxRetentionStepRows());
+            assertEquals(4800 + 2400 + 36, writer.stats().retentionRowsDeleted());
+            assertTrue(writer.stats().healthy());
         }
     }
 

@@ -39,7 +39,7 @@ class RollupAndQueryTest {
         TestClock clock = new TestClock(T0.plus(Duration.ofHours(3)));
         store = HistoryStore.open(dir.resolve("history.db"), clock);
         // 37-row batches: minute and hour buckets are split across many batches.
-        writer = HistoryWriter.start(store, Retention.DEFAULT, clock, HistoryWriter.Settings.DEFAULT.withBatch(37, Duration.ofHours(1)));
+        writer = HistoryWriter.start(store, Retention.DEFAULT, clock, WriterSettings.builder().batchRows(37).commitEvery(Duration.ofHours(1)).firstBatchAtOnce(false).build());
         Random rnd = new Random(42);
         for (StreamKey k : KEYS) truth.put(k, new TreeMap<>());
         // 2.5 hours, every 7 s (does not divide a minute), plus about 10 % redeliveries with other values.
@@ -97,7 +97,7 @@ class RollupAndQueryTest {
                 for (HistoryRow row : rows) assertEquals(truth.get(k).get(row.at().toEpochMilli()), row.value());
             }
         }
-        assertTrue(writer.rowsDuplicate() > 0, "the data set must contain redeliveries");
+        assertTrue(writer.stats().rowsDuplicate() > 0, "the data set must contain redeliveries");
     }
 
     @Test

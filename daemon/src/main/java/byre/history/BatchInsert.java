@@ -1,0 +1,123 @@
+package byre.history;
+
+import java.sql.Connection;
+import java.sql.PreparedStatement;
+import java.sql.ResultSet;
+import java.sql.SQLException;
+import java.util.Arrays;
+import java.util.HashMap;
+import java.util.Iterator;
+import java.util.Map;
+
+/**
+ * The SQL of one batch, in one transaction: the raw rows (sorted by stream), the rollups of the rows that were
+ * really added, and the rollup buckets that closed. No thread of its own: the writer's loop calls it, and tests
+ * call it directly on a connection.
+ */
+final class BatchInsert {
+
+    /** What one batch did. */
+    record Result(int inserted, int duplicate, int tooOld, boolean rollupsWritten) {}
+
+    private final Connection conn;
+    private final OpenRollups rollups = new OpenRollups();
+    private final Map<StreamKey, Integer> streamIds = new HashMap<>();
+
+    /** Reads the rollup marks and rebuilds the open rollup buckets (after a crash, from the raw rows). */
+    BatchInsert(Connection conn) throws SQLException {
+        this.conn = conn;
+        rollups.load(conn);
+    }
+
+    int openRollupBuckets() { return rollups.openBuckets(); }
+
+    /**
+     * Writes the next {@code n} rows of {@code batch} and commits. Rows older than {@code cutoffMs} are skipped; a row whose (stream, time)
+     * is stored already is ignored (the first value is kept, and the rollups count it once). With
+     * {@code allRollups} every open rollup bucket is written too.
+     *
+     * @throws SQLException after rolling back: nothing of the batch is stored or counted
+     */
+    Result write(Iterator<WriterItem.Row> batch, int n, long nowMs, long cutoffMs, boolean allRollups) throws SQLException {
+        Map<StreamKey, Integer> newIds = new HashMap<>();
+        int inserted = 0;
+        int duplicate = 0;
+        int tooOld = 0;
+        boolean rollupsWritten;
+        try {
+            WriterTx.begin(conn);
+            WriterItem.Row[] rows = new WriterItem.Row[n];
+            // (stream id << 32 | position): sorted, the batch visits each stream's place in the table once and in
+            // time order, which keeps the B-tree work local; a stream's rows keep their arrival order.
+            long[] order = new long[n];
+            int queued = 0;
+            for (int i = 0; i < n; i++) {
+                WriterItem.Row r = batch.next();
+                if (r.tsMs < cutoffMs) {
+                    tooOld++;
+                    continue;
+                }
+                rows[queued] = r;
+                order[queued] = ((long) streamId(r.key, newIds) << 32) | queued;
+                queued++;
+            }
+            Arrays.sort(order, 0, queued);
+            if (queued > 0) {
+                try (PreparedStatement ins = conn.prepareStatement("INSERT OR IGNORE INTO reading(stream, ts, value) VALUES (?, ?, ?)")) {
+                    for (int i = 0; i < queued; i++) {
+                        WriterItem.Row r = rows[(int) order[i]];
+                        ins.setInt(1, (int) (order[i] >>> 32));
+                        ins.setLong(2, r.tsMs);
+                        ins.setDouble(3, r.value);
+                        ins.addBatch();
+                    }
+                    // sqlite-jdbc reports the change count of each statement: 0 means the row was already stored.
+                    int[] changes = ins.executeBatch();
+                    if (changes.length != queued) throw new SQLException("batch insert reported " + changes.length + " results for " + queued + " rows");
+                    for (int i = 0; i < queued; i++) {
+                        if (changes[i] == 1) {
+                            inserted++;
+                            WriterItem.Row r = rows[(int) order[i]];
+                            rollups.add((int) (order[i] >>> 32), r.tsMs, r.value);
+                        } else if (changes[i] == 0) {
+                            duplicate++;
+                        } else {
+                            throw new SQLException("batch insert gave no row count (" + changes[i] + "); cannot keep rollups exact");
+                        }
+                    }
+                }
+            }
+            rollupsWritten = rollups.write(conn, nowMs, allRollups);
+            WriterTx.commit(conn);
+        } catch (SQLException | RuntimeException e) {
+            WriterTx.rollbackQuietly(conn);
+            rollups.rolledBack();
+            throw e;
+        }
+        rollups.committed();
+        streamIds.putAll(newIds);
+        return new Result(inserted, duplicate, tooOld, rollupsWritten);
+    }
+
+    /** The id of a stream, creating it in the current transaction; new ids are cached only after commit. */
+    private int streamId(StreamKey key, Map<StreamKey, Integer> newIds) throws SQLException {
+        Integer id = streamIds.get(key);
+        if (id == null) id = newIds.get(key);
+        if (id != null) return id;
+        try (PreparedStatement ps = conn.prepareStatement("INSERT OR IGNORE INTO stream(kind, key) VALUES (?, ?)")) {
+            ps.setString(1, key.kind().dbName());
+            ps.setString(2, key.name());
+            ps.executeUpdate();
+        }
+        try (PreparedStatement ps = conn.prepareStatement("SELECT id FROM stream WHERE kind = ? AND key = ?")) {
+            ps.setString(1, key.kind().dbName());
+            ps.setString(2, key.name());
+            try (ResultSet rs = ps.executeQuery()) {
+                if (!rs.next()) throw new SQLException("stream " + key + " vanished while being created");
+                id = rs.getInt(1);
+            }
+        }
+        newIds.put(key, id);
+        return id;
+    }
+}
