@@ -132,7 +132,14 @@ public final class Chromium implements AutoCloseable {
 
     /** The one element matching a CSS selector; fails when there is none. */
     public String one(String css) throws IOException, InterruptedException {
+        // A click that submits a form can return before the next page is there (seen on a loaded machine): look
+        // again for a while before deciding the element is missing.
+        long deadline = System.nanoTime() + 10_000_000_000L;
         List<String> found = all(css);
+        while (found.isEmpty() && System.nanoTime() < deadline) {
+            Thread.sleep(50);
+            found = all(css);
+        }
         if (found.isEmpty()) throw new AssertionError("no element matches " + css);
         return found.get(0);
     }
