@@ -1,39 +1,65 @@
 package byre.notify;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import byre.alerts.AlertEvent;
 import byre.alerts.EventKind;
+import byre.config.Secret;
+import jakarta.mail.Session;
+import jakarta.mail.internet.MimeMessage;
 import java.io.BufferedReader;
+import java.io.ByteArrayInputStream;
+import java.io.InputStream;
 import java.io.InputStreamReader;
 import java.io.OutputStream;
 import java.net.InetAddress;
 import java.net.ServerSocket;
 import java.net.Socket;
 import java.nio.charset.StandardCharsets;
+import java.nio.file.Path;
+import java.security.KeyStore;
+import java.security.cert.Certificate;
 import java.time.Duration;
 import java.time.Instant;
 import java.time.ZoneId;
 import java.util.ArrayList;
 import java.util.Base64;
 import java.util.List;
+import java.util.Properties;
+import java.util.concurrent.TimeUnit;
+import javax.net.ssl.KeyManagerFactory;
+import javax.net.ssl.SSLContext;
+import javax.net.ssl.SSLSocket;
+import javax.net.ssl.SSLSocketFactory;
+import javax.net.ssl.TrustManagerFactory;
 import org.junit.jupiter.api.AfterEach;
 import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
 
-/** The SMTP client against a minimal SMTP server written here, on loopback (RFC 5321 dialogue). */
+/** The email channel against a small SMTP server written here, on loopback (RFC 5321, STARTTLS RFC 3207, 8BITMIME RFC 6152). */
 class EmailChannelTest {
     static final Instant T0 = Instant.parse("2026-07-14T13:35:00Z");
-    static final AlertEvent EVENT = new AlertEvent("e1", "i1", EventKind.RAISED, "larkmoor", "heat-stress", "cows", "warning",
-            "thi", 73.4, "", Instant.parse("2026-07-14T13:05:00Z"), T0, "Heat stress in cows: THI 73.4.\n.Check fans", null, List.of(), List.of());
+    static final AlertEvent EVENT = event("heat-stress", "cows", "Heat stress in cows: THI 73.4.\n.Check fans");
 
-    /** One-connection SMTP server: records the client's lines, answers from a script, rejects RCPT when told. */
+    static AlertEvent event(String watch, String zone, String message) {
+        return new AlertEvent("e1", "i1", EventKind.RAISED, "larkmoor", watch, zone, "warning", "thi", 73.4, "",
+                Instant.parse("2026-07-14T13:05:00Z"), T0, message, null, List.of(), List.of());
+    }
+
+    /** One-connection SMTP server: records the client's lines and the message, answers as configured. */
     static final class MiniSmtp implements AutoCloseable {
         final ServerSocket socket;
         final List<String> received = new ArrayList<>();
         final StringBuilder data = new StringBuilder();
         final Thread thread;
         volatile String rcptReply = "250 2.1.5 ok";
+        volatile String authReply = "235 2.7.0 accepted";
+        volatile boolean eightBit = true;
+        /** Offers STARTTLS with this context when set. */
+        volatile SSLContext tls;
+        volatile boolean mailAfterTls;
 
         MiniSmtp() throws Exception {
             socket = new ServerSocket(0, 5, InetAddress.getLoopbackAddress());
@@ -46,9 +72,12 @@ class EmailChannelTest {
         }
 
         private void serve() {
-            try (Socket s = socket.accept()) {
-                BufferedReader in = new BufferedReader(new InputStreamReader(s.getInputStream(), StandardCharsets.UTF_8));
+            try (Socket plain = socket.accept()) {
+                plain.setSoTimeout(10_000);
+                Socket s = plain;
+                BufferedReader in = reader(s);
                 OutputStream out = s.getOutputStream();
+                boolean secure = false;
                 say(out, "220 mail.larkmoor.test ESMTP ready");
                 String line;
                 boolean inData = false;
@@ -66,26 +95,73 @@ class EmailChannelTest {
                         received.add(line);
                     }
                     String cmd = line.toUpperCase();
-                    if (cmd.startsWith("EHLO")) say(out, "250-mail.larkmoor.test\r\n250-AUTH PLAIN LOGIN\r\n250 8BITMIME");
-                    else if (cmd.startsWith("AUTH PLAIN")) say(out, "235 2.7.0 accepted");
-                    else if (cmd.startsWith("MAIL FROM")) say(out, "250 2.1.0 ok");
-                    else if (cmd.startsWith("RCPT TO")) say(out, rcptReply);
-                    else if (cmd.equals("DATA")) {
+                    if (cmd.startsWith("EHLO")) {
+                        say(out, "250-mail.larkmoor.test\r\n" + (tls != null && !secure ? "250-STARTTLS\r\n" : "") + "250-AUTH PLAIN LOGIN\r\n"
+                                + (eightBit ? "250-8BITMIME\r\n" : "") + "250 SIZE 1000000");
+                    } else if (cmd.equals("STARTTLS") && tls != null) {
+                        say(out, "220 2.0.0 go ahead");
+                        SSLSocket ssl = (SSLSocket) tls.getSocketFactory().createSocket(s, "127.0.0.1", s.getPort(), true);
+                        ssl.setUseClientMode(false);
+                        ssl.startHandshake();
+                        s = ssl;
+                        in = reader(s);
+                        out = s.getOutputStream();
+                        secure = true;
+                    } else if (cmd.startsWith("AUTH PLAIN")) {
+                        if (cmd.equals("AUTH PLAIN")) {
+                            say(out, "334 ");
+                            synchronized (received) {
+                                received.add(in.readLine());
+                            }
+                        }
+                        say(out, authReply);
+                    } else if (cmd.startsWith("AUTH LOGIN")) {
+                        say(out, "334 VXNlcm5hbWU6");
+                        in.readLine();
+                        say(out, "334 UGFzc3dvcmQ6");
+                        in.readLine();
+                        say(out, authReply);
+                    } else if (cmd.startsWith("MAIL FROM")) {
+                        mailAfterTls = secure;
+                        say(out, "250 2.1.0 ok");
+                    } else if (cmd.startsWith("RCPT TO")) {
+                        say(out, rcptReply);
+                    } else if (cmd.equals("DATA")) {
                         say(out, "354 end with <CRLF>.<CRLF>");
                         inData = true;
+                    } else if (cmd.equals("RSET") || cmd.equals("NOOP")) {
+                        say(out, "250 2.0.0 ok");
                     } else if (cmd.equals("QUIT")) {
                         say(out, "221 bye");
                         return;
-                    } else say(out, "500 unknown");
+                    } else {
+                        say(out, "500 unknown");
+                    }
                 }
             } catch (Exception ignored) {
                 // test ends
             }
         }
 
+        private static BufferedReader reader(Socket s) throws Exception {
+            return new BufferedReader(new InputStreamReader(s.getInputStream(), StandardCharsets.UTF_8));
+        }
+
         private static void say(OutputStream out, String reply) throws Exception {
             out.write((reply + "\r\n").getBytes(StandardCharsets.UTF_8));
             out.flush();
+        }
+
+        List<String> received() {
+            synchronized (received) {
+                return List.copyOf(received);
+            }
+        }
+
+        /** The message as received, parsed back by Jakarta Mail. */
+        MimeMessage parsed() throws Exception {
+            byte[] raw = data.toString().replace("\n", "\r\n").getBytes(StandardCharsets.UTF_8);
+            return new MimeMessage(Session.getInstance(new Properties()), new ByteArrayInputStream(raw));
         }
 
         @Override
@@ -95,6 +171,9 @@ class EmailChannelTest {
         }
     }
 
+    @TempDir
+    Path dir;
+
     MiniSmtp server;
 
     @AfterEach
@@ -102,10 +181,14 @@ class EmailChannelTest {
         if (server != null) server.close();
     }
 
+    EmailChannel channel(EmailChannel.Tls tls, String user, String password, SSLSocketFactory ssl) {
+        return new EmailChannel("office", new EmailChannel.Settings("127.0.0.1", server.port(), tls, "byre@larkmoor.test",
+                List.of("office@larkmoor.test", "vet@larkmoor.test"), user, password == null ? null : new Secret(password, "test"),
+                Duration.ofSeconds(5)), new MessageText(ZoneId.of("Europe/London")), ssl);
+    }
+
     EmailChannel channel(String user, String password) {
-        return new EmailChannel("office", new SmtpClient("127.0.0.1", server.port(), SmtpClient.Tls.NONE, 5000, null),
-                "byre@larkmoor.test", List.of("office@larkmoor.test", "vet@larkmoor.test"), user, password,
-                new MessageText(ZoneId.of("Europe/London")));
+        return channel(EmailChannel.Tls.NONE, user, password, null);
     }
 
     @Test
@@ -114,12 +197,19 @@ class EmailChannelTest {
         DeliveryResult r = channel("byre", "pa55").deliver(EVENT);
         assertTrue(r.ok(), r.toString());
         server.thread.join(2000);
-        String plain = Base64.getEncoder().encodeToString("\0byre\0pa55".getBytes(StandardCharsets.UTF_8));
-        assertEquals(List.of("EHLO byre.localdomain", "AUTH PLAIN " + plain, "MAIL FROM:<byre@larkmoor.test>",
-                "RCPT TO:<office@larkmoor.test>", "RCPT TO:<vet@larkmoor.test>", "DATA", "QUIT"), server.received);
+        // RFC 4616: authorisation id (empty or the user's own), user name, password
+        List<String> plain = List.of(Base64.getEncoder().encodeToString("\0byre\0pa55".getBytes(StandardCharsets.UTF_8)),
+                Base64.getEncoder().encodeToString("byre\0byre\0pa55".getBytes(StandardCharsets.UTF_8)));
+        List<String> got = server.received();
+        // EHLO names this computer (RFC 5321 4.1.1.1), not a made-up name
+        assertEquals("EHLO " + InetAddress.getLocalHost().getCanonicalHostName(), got.get(0));
+        assertTrue(plain.stream().anyMatch(p -> got.get(1).equals("AUTH PLAIN " + p)), got.toString());
+        assertEquals(List.of("MAIL FROM:<byre@larkmoor.test>", "RCPT TO:<office@larkmoor.test>", "RCPT TO:<vet@larkmoor.test>", "DATA", "QUIT"),
+                got.subList(got.indexOf("DATA") - 3, got.size()).stream().map(l -> l.replace(" BODY=8BITMIME", "")).toList());
         String mail = server.data.toString();
         assertTrue(mail.contains("Subject: [byre larkmoor] ALERT: heat-stress cows (warning)\n"), mail);
         assertTrue(mail.contains("Content-Type: text/plain; charset=UTF-8\n"), mail);
+        assertTrue(mail.contains("Message-ID: <e1@byre.larkmoor>\n"), mail);
         assertTrue(mail.contains("Heat stress in cows: THI 73.4.\n"), mail);
         // dot-stuffing (RFC 5321 4.5.2): a line starting with '.' travels as '..'
         assertTrue(mail.contains("\n..Check fans\n"), mail);
@@ -127,6 +217,73 @@ class EmailChannelTest {
         // 13:35 UTC is 14:35 in London in July (BST, UTC+1)
         assertTrue(mail.contains("\nFarm time: Tue 14 Jul 14:35 BST\n"), mail);
         assertTrue(!mail.contains("Since:"), mail);
+    }
+
+    @Test
+    void eightBitTravelsOnlyToAServerThatOffersIt() throws Exception {
+        AlertEvent e = event("heat-stress", "kälberstall", "Hitzestress im Kälberstall: 31 °C.");
+        server = new MiniSmtp();
+        assertTrue(channel(null, null).deliver(e).ok());
+        server.thread.join(2000);
+        assertTrue(server.data.toString().contains("Content-Transfer-Encoding: 8bit\n"), server.data.toString());
+        assertTrue(server.parsed().getContent().toString().replace("\r\n", "\n").startsWith("Hitzestress im Kälberstall: 31 °C.\n"));
+        server.close();
+
+        server = new MiniSmtp();
+        server.eightBit = false;
+        assertTrue(channel(null, null).deliver(e).ok());
+        server.thread.join(2000);
+        String mail = server.data.toString();
+        assertTrue(mail.chars().allMatch(c -> c < 0x80), "only 7-bit bytes to a server without 8BITMIME:\n" + mail);
+        assertFalse(mail.contains("Content-Transfer-Encoding: 8bit"), mail);
+        assertTrue(server.parsed().getContent().toString().replace("\r\n", "\n").startsWith("Hitzestress im Kälberstall: 31 °C.\n"));
+    }
+
+    @Test
+    void aLongEncodedSubjectIsFolded() throws Exception {
+        AlertEvent e = event("hitzestress-überwachung-im-kälberstall-nord", "kälberstall-nord-mit-iglus-und-außenausläufen", "Hitzestress.");
+        server = new MiniSmtp();
+        assertTrue(channel(null, null).deliver(e).ok());
+        server.thread.join(2000);
+        String head = server.data.toString().split("\n\n", 2)[0];
+        // RFC 5322 2.1.1: lines of at most 78 characters; RFC 2047 2: encoded words of at most 75
+        for (String l : head.split("\n")) assertTrue(l.length() <= 78, "too long: " + l);
+        assertTrue(head.contains("Subject: =?UTF-8?"), head);
+        assertEquals(new MessageText(ZoneId.of("UTC")).subject(e), server.parsed().getSubject());
+    }
+
+    @Test
+    void sendsOverStarttlsWithACertificateForTheHost() throws Exception {
+        Tls t = Tls.make(dir);
+        server = new MiniSmtp();
+        server.tls = t.server;
+        DeliveryResult r = channel(EmailChannel.Tls.STARTTLS, "byre", "pa55", t.client.getSocketFactory()).deliver(EVENT);
+        assertTrue(r.ok(), r.toString());
+        server.thread.join(2000);
+        List<String> got = server.received();
+        assertEquals("STARTTLS", got.get(1));
+        assertTrue(got.get(2).startsWith("EHLO "), got.toString());
+        assertTrue(server.mailAfterTls, "the password and the message travel only after the upgrade");
+        assertTrue(server.data.toString().contains("Heat stress in cows: THI 73.4.\n"));
+    }
+
+    @Test
+    void aCertificateTheJdkDoesNotTrustIsATlsFailure() throws Exception {
+        Tls t = Tls.make(dir);
+        server = new MiniSmtp();
+        server.tls = t.server;
+        DeliveryResult r = channel(EmailChannel.Tls.STARTTLS, null, null, null).deliver(EVENT);
+        assertEquals(FailureReason.TLS, r.reason(), r.toString());
+        assertTrue(r.detail().startsWith("TLS with SMTP server 127.0.0.1:" + server.port() + " failed: "), r.detail());
+    }
+
+    @Test
+    void refusedAuthenticationReportsTheExactReply() throws Exception {
+        server = new MiniSmtp();
+        server.authReply = "535 5.7.8 Authentication credentials invalid";
+        DeliveryResult r = channel("byre", "wrong").deliver(EVENT);
+        assertEquals(FailureReason.SMTP_REPLY, r.reason(), r.toString());
+        assertEquals("AUTH PLAIN refused: 535 5.7.8 Authentication credentials invalid", r.detail());
     }
 
     @Test
@@ -141,9 +298,53 @@ class EmailChannelTest {
     @Test
     void starttlsRequiredButNotOfferedIsATlsFailure() throws Exception {
         server = new MiniSmtp();
-        DeliveryResult r = new EmailChannel("office", new SmtpClient("127.0.0.1", server.port(), SmtpClient.Tls.STARTTLS, 5000, null),
-                "byre@larkmoor.test", List.of("office@larkmoor.test"), null, null, new MessageText(ZoneId.of("UTC"))).deliver(EVENT);
+        DeliveryResult r = channel(EmailChannel.Tls.STARTTLS, null, null, null).deliver(EVENT);
         assertEquals(FailureReason.TLS, r.reason());
-        assertTrue(r.detail().contains("does not offer STARTTLS"), r.detail());
+        assertEquals("server 127.0.0.1:" + server.port() + " does not offer STARTTLS (set tls: none only on a trusted local network)", r.detail());
+    }
+
+    @Test
+    void aClosedPortIsRefused() throws Exception {
+        int port;
+        try (ServerSocket s = new ServerSocket(0, 1, InetAddress.getLoopbackAddress())) {
+            port = s.getLocalPort();
+        }
+        DeliveryResult r = new EmailChannel("office", new EmailChannel.Settings("127.0.0.1", port, EmailChannel.Tls.NONE, "byre@larkmoor.test",
+                List.of("office@larkmoor.test"), null, null, Duration.ofSeconds(5)), new MessageText(ZoneId.of("UTC")), null).deliver(EVENT);
+        assertEquals(FailureReason.REFUSED, r.reason(), r.toString());
+        assertTrue(r.detail().startsWith("connection to SMTP server 127.0.0.1:" + port + " refused ("), r.detail());
+    }
+
+    /** A key pair and certificate for 127.0.0.1 made by the JDK's keytool, as a server context and a client that trusts it. */
+    record Tls(SSLContext server, SSLContext client) {
+        static Tls make(Path dir) throws Exception {
+            Path store = dir.resolve("smtp.p12");
+            Process p = new ProcessBuilder(Path.of(System.getProperty("java.home"), "bin", "keytool").toString(), "-genkeypair",
+                    "-alias", "smtp", "-keyalg", "EC", "-groupname", "secp256r1", "-dname", "CN=mail.larkmoor.test",
+                    "-ext", "san=ip:127.0.0.1", "-validity", "2", "-storetype", "PKCS12", "-keystore", store.toString(),
+                    "-storepass", "larkmoor", "-keypass", "larkmoor").redirectErrorStream(true).start();
+            String out;
+            try (InputStream in = p.getInputStream()) {
+                out = new String(in.readAllBytes(), StandardCharsets.UTF_8);
+            }
+            assertTrue(p.waitFor(60, TimeUnit.SECONDS) && p.exitValue() == 0, out);
+            KeyStore ks = KeyStore.getInstance("PKCS12");
+            try (InputStream in = java.nio.file.Files.newInputStream(store)) {
+                ks.load(in, "larkmoor".toCharArray());
+            }
+            KeyManagerFactory kmf = KeyManagerFactory.getInstance(KeyManagerFactory.getDefaultAlgorithm());
+            kmf.init(ks, "larkmoor".toCharArray());
+            SSLContext server = SSLContext.getInstance("TLS");
+            server.init(kmf.getKeyManagers(), null, null);
+            Certificate cert = ks.getCertificate("smtp");
+            KeyStore trust = KeyStore.getInstance("PKCS12");
+            trust.load(null, null);
+            trust.setCertificateEntry("smtp", cert);
+            TrustManagerFactory tmf = TrustManagerFactory.getInstance(TrustManagerFactory.getDefaultAlgorithm());
+            tmf.init(trust);
+            SSLContext client = SSLContext.getInstance("TLS");
+            client.init(null, tmf.getTrustManagers(), null);
+            return new Tls(server, client);
+        }
     }
 }
