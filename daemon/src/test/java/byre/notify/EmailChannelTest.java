@@ -7,6 +7,8 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 import byre.alerts.AlertEvent;
 import byre.alerts.EventKind;
 import byre.config.Secret;
+import byre.testing.SmtpServer;
+import byre.testing.TestCertificate;
 import jakarta.mail.Session;
 import jakarta.mail.internet.MimeMessage;
 import java.io.BufferedReader;
@@ -48,133 +50,10 @@ class EmailChannelTest {
                 Instant.parse("2026-07-14T13:05:00Z"), T0, message, null, List.of(), List.of());
     }
 
-    /** One-connection SMTP server: records the client's lines and the message, answers as configured. */
-    static final class MiniSmtp implements AutoCloseable {
-        final ServerSocket socket;
-        final List<String> received = new ArrayList<>();
-        final StringBuilder data = new StringBuilder();
-        final Thread thread;
-        volatile String rcptReply = "250 2.1.5 ok";
-        volatile String authReply = "235 2.7.0 accepted";
-        volatile boolean eightBit = true;
-        /** Offers STARTTLS with this context when set. */
-        volatile SSLContext tls;
-        volatile boolean mailAfterTls;
-
-        MiniSmtp() throws Exception {
-            socket = new ServerSocket(0, 5, InetAddress.getLoopbackAddress());
-            thread = new Thread(this::serve, "mini-smtp");
-            thread.start();
-        }
-
-        int port() {
-            return socket.getLocalPort();
-        }
-
-        private void serve() {
-            try (Socket plain = socket.accept()) {
-                plain.setSoTimeout(10_000);
-                Socket s = plain;
-                BufferedReader in = reader(s);
-                OutputStream out = s.getOutputStream();
-                boolean secure = false;
-                say(out, "220 mail.larkmoor.test ESMTP ready");
-                String line;
-                boolean inData = false;
-                while ((line = in.readLine()) != null) {
-                    if (inData) {
-                        if (line.equals(".")) {
-                            inData = false;
-                            say(out, "250 2.0.0 queued as 4711");
-                        } else {
-                            data.append(line).append('\n');
-                        }
-                        continue;
-                    }
-                    synchronized (received) {
-                        received.add(line);
-                    }
-                    String cmd = line.toUpperCase();
-                    if (cmd.startsWith("EHLO")) {
-                        say(out, "250-mail.larkmoor.test\r\n" + (tls != null && !secure ? "250-STARTTLS\r\n" : "") + "250-AUTH PLAIN LOGIN\r\n"
-                                + (eightBit ? "250-8BITMIME\r\n" : "") + "250 SIZE 1000000");
-                    } else if (cmd.equals("STARTTLS") && tls != null) {
-                        say(out, "220 2.0.0 go ahead");
-                        SSLSocket ssl = (SSLSocket) tls.getSocketFactory().createSocket(s, "127.0.0.1", s.getPort(), true);
-                        ssl.setUseClientMode(false);
-                        ssl.startHandshake();
-                        s = ssl;
-                        in = reader(s);
-                        out = s.getOutputStream();
-                        secure = true;
-                    } else if (cmd.startsWith("AUTH PLAIN")) {
-                        if (cmd.equals("AUTH PLAIN")) {
-                            say(out, "334 ");
-                            synchronized (received) {
-                                received.add(in.readLine());
-                            }
-                        }
-                        say(out, authReply);
-                    } else if (cmd.startsWith("AUTH LOGIN")) {
-                        say(out, "334 VXNlcm5hbWU6");
-                        in.readLine();
-                        say(out, "334 UGFzc3dvcmQ6");
-                        in.readLine();
-                        say(out, authReply);
-                    } else if (cmd.startsWith("MAIL FROM")) {
-                        mailAfterTls = secure;
-                        say(out, "250 2.1.0 ok");
-                    } else if (cmd.startsWith("RCPT TO")) {
-                        say(out, rcptReply);
-                    } else if (cmd.equals("DATA")) {
-                        say(out, "354 end with <CRLF>.<CRLF>");
-                        inData = true;
-                    } else if (cmd.equals("RSET") || cmd.equals("NOOP")) {
-                        say(out, "250 2.0.0 ok");
-                    } else if (cmd.equals("QUIT")) {
-                        say(out, "221 bye");
-                        return;
-                    } else {
-                        say(out, "500 unknown");
-                    }
-                }
-            } catch (Exception ignored) {
-                // test ends
-            }
-        }
-
-        private static BufferedReader reader(Socket s) throws Exception {
-            return new BufferedReader(new InputStreamReader(s.getInputStream(), StandardCharsets.UTF_8));
-        }
-
-        private static void say(OutputStream out, String reply) throws Exception {
-            out.write((reply + "\r\n").getBytes(StandardCharsets.UTF_8));
-            out.flush();
-        }
-
-        List<String> received() {
-            synchronized (received) {
-                return List.copyOf(received);
-            }
-        }
-
-        /** The message as received, parsed back by Jakarta Mail. */
-        MimeMessage parsed() throws Exception {
-            byte[] raw = data.toString().replace("\n", "\r\n").getBytes(StandardCharsets.UTF_8);
-            return new MimeMessage(Session.getInstance(new Properties()), new ByteArrayInputStream(raw));
-        }
-
-        @Override
-        public void close() throws Exception {
-            socket.close();
-            thread.join(2000);
-        }
-    }
-
     @TempDir
     Path dir;
 
-    MiniSmtp server;
+    SmtpServer server;
 
     @AfterEach
     void stop() throws Exception {
@@ -193,7 +72,7 @@ class EmailChannelTest {
 
     @Test
     void sendsAPlainTextMailWithTheExpectedDialogue() throws Exception {
-        server = new MiniSmtp();
+        server = new SmtpServer();
         DeliveryResult r = channel("byre", "pa55").deliver(EVENT);
         assertTrue(r.ok(), r.toString());
         server.thread.join(2000);
@@ -222,14 +101,14 @@ class EmailChannelTest {
     @Test
     void eightBitTravelsOnlyToAServerThatOffersIt() throws Exception {
         AlertEvent e = event("heat-stress", "kälberstall", "Hitzestress im Kälberstall: 31 °C.");
-        server = new MiniSmtp();
+        server = new SmtpServer();
         assertTrue(channel(null, null).deliver(e).ok());
         server.thread.join(2000);
         assertTrue(server.data.toString().contains("Content-Transfer-Encoding: 8bit\n"), server.data.toString());
         assertTrue(server.parsed().getContent().toString().replace("\r\n", "\n").startsWith("Hitzestress im Kälberstall: 31 °C.\n"));
         server.close();
 
-        server = new MiniSmtp();
+        server = new SmtpServer();
         server.eightBit = false;
         assertTrue(channel(null, null).deliver(e).ok());
         server.thread.join(2000);
@@ -242,7 +121,7 @@ class EmailChannelTest {
     @Test
     void aLongEncodedSubjectIsFolded() throws Exception {
         AlertEvent e = event("hitzestress-überwachung-im-kälberstall-nord", "kälberstall-nord-mit-iglus-und-außenausläufen", "Hitzestress.");
-        server = new MiniSmtp();
+        server = new SmtpServer();
         assertTrue(channel(null, null).deliver(e).ok());
         server.thread.join(2000);
         String head = server.data.toString().split("\n\n", 2)[0];
@@ -254,10 +133,10 @@ class EmailChannelTest {
 
     @Test
     void sendsOverStarttlsWithACertificateForTheHost() throws Exception {
-        Tls t = Tls.make(dir);
-        server = new MiniSmtp();
-        server.tls = t.server;
-        DeliveryResult r = channel(EmailChannel.Tls.STARTTLS, "byre", "pa55", t.client.getSocketFactory()).deliver(EVENT);
+        TestCertificate t = TestCertificate.make(dir);
+        server = new SmtpServer();
+        server.tls = t.server();
+        DeliveryResult r = channel(EmailChannel.Tls.STARTTLS, "byre", "pa55", t.client().getSocketFactory()).deliver(EVENT);
         assertTrue(r.ok(), r.toString());
         server.thread.join(2000);
         List<String> got = server.received();
@@ -269,9 +148,9 @@ class EmailChannelTest {
 
     @Test
     void aCertificateTheJdkDoesNotTrustIsATlsFailure() throws Exception {
-        Tls t = Tls.make(dir);
-        server = new MiniSmtp();
-        server.tls = t.server;
+        TestCertificate t = TestCertificate.make(dir);
+        server = new SmtpServer();
+        server.tls = t.server();
         DeliveryResult r = channel(EmailChannel.Tls.STARTTLS, null, null, null).deliver(EVENT);
         assertEquals(FailureReason.TLS, r.reason(), r.toString());
         assertTrue(r.detail().startsWith("TLS with SMTP server 127.0.0.1:" + server.port() + " failed: "), r.detail());
@@ -279,7 +158,7 @@ class EmailChannelTest {
 
     @Test
     void refusedAuthenticationReportsTheExactReply() throws Exception {
-        server = new MiniSmtp();
+        server = new SmtpServer();
         server.authReply = "535 5.7.8 Authentication credentials invalid";
         DeliveryResult r = channel("byre", "wrong").deliver(EVENT);
         assertEquals(FailureReason.SMTP_REPLY, r.reason(), r.toString());
@@ -288,7 +167,7 @@ class EmailChannelTest {
 
     @Test
     void aRejectedRecipientReportsTheExactReply() throws Exception {
-        server = new MiniSmtp();
+        server = new SmtpServer();
         server.rcptReply = "550 5.1.1 <office@larkmoor.test>: mailbox unavailable";
         DeliveryResult r = channel(null, null).deliver(EVENT);
         assertEquals(FailureReason.SMTP_REPLY, r.reason());
@@ -297,7 +176,7 @@ class EmailChannelTest {
 
     @Test
     void starttlsRequiredButNotOfferedIsATlsFailure() throws Exception {
-        server = new MiniSmtp();
+        server = new SmtpServer();
         DeliveryResult r = channel(EmailChannel.Tls.STARTTLS, null, null, null).deliver(EVENT);
         assertEquals(FailureReason.TLS, r.reason());
         assertEquals("server 127.0.0.1:" + server.port() + " does not offer STARTTLS (set tls: none only on a trusted local network)", r.detail());
@@ -315,36 +194,4 @@ class EmailChannelTest {
         assertTrue(r.detail().startsWith("connection to SMTP server 127.0.0.1:" + port + " refused ("), r.detail());
     }
 
-    /** A key pair and certificate for 127.0.0.1 made by the JDK's keytool, as a server context and a client that trusts it. */
-    record Tls(SSLContext server, SSLContext client) {
-        static Tls make(Path dir) throws Exception {
-            Path store = dir.resolve("smtp.p12");
-            Process p = new ProcessBuilder(Path.of(System.getProperty("java.home"), "bin", "keytool").toString(), "-genkeypair",
-                    "-alias", "smtp", "-keyalg", "EC", "-groupname", "secp256r1", "-dname", "CN=mail.larkmoor.test",
-                    "-ext", "san=ip:127.0.0.1", "-validity", "2", "-storetype", "PKCS12", "-keystore", store.toString(),
-                    "-storepass", "larkmoor", "-keypass", "larkmoor").redirectErrorStream(true).start();
-            String out;
-            try (InputStream in = p.getInputStream()) {
-                out = new String(in.readAllBytes(), StandardCharsets.UTF_8);
-            }
-            assertTrue(p.waitFor(60, TimeUnit.SECONDS) && p.exitValue() == 0, out);
-            KeyStore ks = KeyStore.getInstance("PKCS12");
-            try (InputStream in = java.nio.file.Files.newInputStream(store)) {
-                ks.load(in, "larkmoor".toCharArray());
-            }
-            KeyManagerFactory kmf = KeyManagerFactory.getInstance(KeyManagerFactory.getDefaultAlgorithm());
-            kmf.init(ks, "larkmoor".toCharArray());
-            SSLContext server = SSLContext.getInstance("TLS");
-            server.init(kmf.getKeyManagers(), null, null);
-            Certificate cert = ks.getCertificate("smtp");
-            KeyStore trust = KeyStore.getInstance("PKCS12");
-            trust.load(null, null);
-            trust.setCertificateEntry("smtp", cert);
-            TrustManagerFactory tmf = TrustManagerFactory.getInstance(TrustManagerFactory.getDefaultAlgorithm());
-            tmf.init(trust);
-            SSLContext client = SSLContext.getInstance("TLS");
-            client.init(null, tmf.getTrustManagers(), null);
-            return new Tls(server, client);
-        }
-    }
 }
