@@ -2,6 +2,7 @@ package byre.notify;
 
 import byre.alerts.AlertEvent;
 import byre.config.ChannelFields;
+import byre.config.PublishesToBroker;
 import byre.mqtt.MqttLink;
 import java.util.List;
 
@@ -10,7 +11,12 @@ import java.util.List;
  * {@code retain: true} the broker keeps the last event for whoever subscribes later (a siren, a display).
  */
 public final class MqttChannel implements Channel {
-    public record Settings(String topic, boolean retain) {}
+    public record Settings(String topic, boolean retain) implements PublishesToBroker {
+        @Override
+        public String brokerTopic() {
+            return topic;
+        }
+    }
 
     public static final ChannelKind<Settings> KIND = ChannelKind.of("mqtt", List.of("topic", "retain"), List.of("topic"), MqttChannel::read,
             (name, s, ctx) -> new MqttChannel(name, s.topic(), s.retain(), ctx.link(), ChannelFactory.DEFAULT_TIMEOUT.toMillis()));
