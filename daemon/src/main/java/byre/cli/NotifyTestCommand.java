@@ -11,6 +11,7 @@ import byre.notify.Channel;
 import byre.notify.ChannelFactory;
 import byre.notify.DeliveryResult;
 import byre.notify.FailureReason;
+import byre.notify.MqttChannel;
 import byre.units.Suggest;
 import java.nio.charset.StandardCharsets;
 import java.time.Instant;
@@ -49,8 +50,8 @@ final class NotifyTestCommand implements Callable<Integer> {
                 "notify-test", "byre", "info", null, Double.NaN, null, now, now,
                 EventText.metric(cfg.site()).test(channel, incident), null, List.of(), List.of(channel));
         DeliveryResult r;
-        if ("mqtt".equals(cc.type())) {
-            r = mqtt(cfg.mqtt(), cc.string("topic", ""), test.toJson());
+        if (cc.settings() instanceof MqttChannel.Settings m) {
+            r = mqtt(cfg.mqtt(), m.topic(), m.retain(), test.toJson());
         } else {
             Channel ch;
             try {
@@ -70,7 +71,7 @@ final class NotifyTestCommand implements Callable<Integer> {
     }
 
     /** A short-lived client of its own (clean session, no last will), so the daemon's session and status stay untouched. */
-    static DeliveryResult mqtt(MqttSettings s, String topic, String json) {
+    static DeliveryResult mqtt(MqttSettings s, String topic, boolean retain, String json) {
         MqttClient c = null;
         try {
             c = new MqttClient(s.connectUri(), s.clientId() + "-notify-test", new MemoryPersistence());
@@ -81,8 +82,8 @@ final class NotifyTestCommand implements Callable<Integer> {
             if (s.username() != null) o.setUserName(s.username());
             if (s.password() != null) o.setPassword(s.password().reveal().toCharArray());
             c.connect(o);
-            c.publish(topic, json.getBytes(StandardCharsets.UTF_8), 1, false);
-            return DeliveryResult.success("published to " + topic + " on " + s.connectUri());
+            c.publish(topic, json.getBytes(StandardCharsets.UTF_8), 1, retain);
+            return DeliveryResult.success((retain ? "published (retained) to " : "published to ") + topic + " on " + s.connectUri());
         } catch (MqttException e) {
             FailureReason why = e.getReasonCode() == MqttException.REASON_CODE_CLIENT_TIMEOUT ? FailureReason.TIMEOUT
                     : e.getReasonCode() == MqttException.REASON_CODE_SERVER_CONNECT_ERROR ? FailureReason.REFUSED : FailureReason.IO;

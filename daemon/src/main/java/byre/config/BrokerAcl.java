@@ -32,7 +32,9 @@ public final class BrokerAcl {
         for (SensorConfig s : c.sensors().values()) sensorTopics.add(checked(s.topic()));
         Set<String> channelTopics = new LinkedHashSet<>();
         for (ChannelConfig ch : c.channels().values()) {
-            if (ch.type().equals("mqtt") && ch.string("topic", null) != null) channelTopics.add(checked(ch.string("topic", null)));
+            if (ch.settings() instanceof PublishesToBroker p && p.brokerTopic() != null && !p.brokerTopic().isEmpty()) {
+                channelTopics.add(checked(p.brokerTopic()));
+            }
         }
         StringBuilder sb = new StringBuilder();
         sb.append("# Access list of byre's logins on the barn broker, for site ").append(c.site()).append(", written by 'byre broker-acl'\n")

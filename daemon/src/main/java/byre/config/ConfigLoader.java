@@ -47,31 +47,30 @@ public final class ConfigLoader {
     static final Set<String> HISTORY_KEYS = ordered("path", "keep-raw", "keep-minute", "keep-hour", "commit-every");
     static final Set<String> ADMIN_KEYS = ordered("listen", "token-file");
     static final Set<String> PAGE_KEYS = ordered("listen", "base-url", "link-key-file", "link-valid", "reading");
-    static final Map<String, Set<String>> CHANNEL_KEYS = Map.of(
-            "webhook", ordered("type", "url", "secret-file", "headers", "template", "timeout", "rate-limit", "give-up"),
-            "mqtt", ordered("type", "topic", "retain", "rate-limit", "give-up"),
-            "email", ordered("type", "smtp", "from", "to", "username", "password-file", "tls", "timeout", "rate-limit",
-                    "give-up"),
-            "command", ordered("type", "argv", "timeout", "rate-limit", "give-up"));
-    // webhook "template": body with {placeholders}; "rate-limit": messages per 10 minutes; "give-up": e.g. 24h
-    static final Map<String, List<String>> CHANNEL_REQUIRED = Map.of(
-            "webhook", List.of("url"), "mqtt", List.of("topic"), "email", List.of("smtp", "from", "to"),
-            "command", List.of("argv"));
+    /** Keys every channel has, whatever its kind. */
+    static final Set<String> CHANNEL_COMMON_KEYS = ordered("type", "rate-limit", "give-up");
     static final List<String> THI_VARIANTS = java.util.Arrays.stream(byre.climate.ThiVariant.values()).map(byre.climate.ThiVariant::id).toList();
 
     private final String fileName;
     private final Path baseDir;
     private final Function<String, String> environment;
+    private final List<ChannelType<?>> channelTypes;
     private final List<ConfigProblem> problems = new ArrayList<>();
 
-    private ConfigLoader(String fileName, Path baseDir, Function<String, String> environment) {
+    private ConfigLoader(String fileName, Path baseDir, Function<String, String> environment, List<? extends ChannelType<?>> channelTypes) {
         this.fileName = fileName;
         this.baseDir = baseDir;
         this.environment = environment;
+        this.channelTypes = List.copyOf(channelTypes);
     }
 
-    /** Loads and validates a configuration file. */
+    /** Loads and validates a configuration file, with byre's channel kinds. */
     public static ByreConfig load(Path file) throws ConfigException {
+        return load(file, byre.notify.ChannelTypes.ALL);
+    }
+
+    /** Loads and validates a configuration file; {@code channelTypes} are the kinds a channel's {@code type:} may name. */
+    public static ByreConfig load(Path file, List<? extends ChannelType<?>> channelTypes) throws ConfigException {
         String text;
         try {
             text = new String(SmallFile.read(file, SmallFile.CONFIG_MAX_BYTES), StandardCharsets.UTF_8);
@@ -82,13 +81,19 @@ public final class ConfigLoader {
                     "cannot read the configuration: " + describe(e))));
         }
         Path dir = file.toAbsolutePath().getParent();
-        return parse(file.toString(), text, dir, System::getenv);
+        return parse(file.toString(), text, dir, System::getenv, channelTypes);
     }
 
-    /** Validates configuration text; relative paths are resolved against {@code baseDir}. */
+    /** Validates configuration text, with byre's channel kinds; relative paths are resolved against {@code baseDir}. */
     public static ByreConfig parse(String fileName, String text, Path baseDir, Function<String, String> environment)
             throws ConfigException {
-        return new ConfigLoader(fileName, baseDir, environment).read(text);
+        return parse(fileName, text, baseDir, environment, byre.notify.ChannelTypes.ALL);
+    }
+
+    /** The same with the given channel kinds. */
+    public static ByreConfig parse(String fileName, String text, Path baseDir, Function<String, String> environment,
+                                   List<? extends ChannelType<?>> channelTypes) throws ConfigException {
+        return new ConfigLoader(fileName, baseDir, environment, channelTypes).read(text);
     }
 
     private ByreConfig read(String text) throws ConfigException {
@@ -360,36 +365,36 @@ public final class ConfigLoader {
             }
             Map<String, Node> raw = mapping(mn, null, "channel " + name);
             String type = string(raw.get("type"), "type", null);
+            List<String> ids = channelTypes.stream().map(ChannelType::id).toList();
             if (type == null) {
-                problem(n, "channel " + name + " has no type (one of " + String.join(", ", CHANNEL_KEYS.keySet().stream().sorted().toList()) + ")");
+                problem(n, "channel " + name + " has no type (one of " + String.join(", ", ids.stream().sorted().toList()) + ")");
                 continue;
             }
-            Set<String> allowed = CHANNEL_KEYS.get(type);
-            if (allowed == null) {
-                problem(raw.get("type"), "unknown channel type '" + type + "'" + Suggest.hint(type, CHANNEL_KEYS.keySet())
-                        + "; one of webhook, mqtt, email, command");
+            ChannelType<?> kind = channelTypes.stream().filter(k -> k.id().equals(type)).findFirst().orElse(null);
+            if (kind == null) {
+                problem(raw.get("type"), "unknown channel type '" + type + "'" + Suggest.hint(type, ids) + "; one of " + String.join(", ", ids));
                 continue;
             }
-            Map<String, Object> fields = new LinkedHashMap<>();
-            Map<String, Secret> secrets = new LinkedHashMap<>();
+            Set<String> allowed = ordered("type");
+            allowed.addAll(kind.keys());
+            allowed.addAll(CHANNEL_COMMON_KEYS);
+            Map<String, Node> known = new LinkedHashMap<>();
             for (Map.Entry<String, Node> f : raw.entrySet()) {
-                if (!allowed.contains(f.getKey())) {
+                if (allowed.contains(f.getKey())) {
+                    known.put(f.getKey(), f.getValue());
+                } else {
                     problem(keyNodes.getOrDefault(f.getValue(), f.getValue()), "unknown key '" + f.getKey() + "' in " + type + " channel " + name
                             + Suggest.hint(f.getKey(), allowed));
-                    continue;
-                }
-                if (f.getKey().endsWith("-file") && !f.getKey().equals("type")) {
-                    Secret s = secretFile(f.getValue(), name + "." + f.getKey());
-                    if (s != null) secrets.put(f.getKey(), s);
-                } else {
-                    fields.put(f.getKey(), plain(f.getValue()));
                 }
             }
-            for (String req : CHANNEL_REQUIRED.get(type)) {
+            for (String req : kind.required()) {
                 if (!raw.containsKey(req)) problem(n, type + " channel " + name + " is missing '" + req + "'");
             }
-            checkChannelFields(n, name, type, raw);
-            out.put(name, new ChannelConfig(name, type, fields, secrets, line(n)));
+            int rate = integer(known.get("rate-limit"), name + ".rate-limit", ChannelConfig.DEFAULT_RATE_LIMIT);
+            if (rate < 1) problem(known.get("rate-limit"), name + ".rate-limit must be at least 1 (messages per 10 minutes)");
+            Duration giveUp = duration(known.get("give-up"), name + ".give-up", ChannelConfig.DEFAULT_GIVE_UP);
+            Object settings = kind.read(new ChannelFields(this, name, n, known));
+            out.put(name, new ChannelConfig(name, kind, settings, Math.max(1, rate), giveUp, line(n)));
         }
         return out;
     }
@@ -430,38 +435,6 @@ public final class ConfigLoader {
             if (!channels.containsKey(c)) problem(node, what + " names unknown channel '" + c + "'" + Suggest.hint(c, channels.keySet()));
         }
         return out;
-    }
-
-    private void checkChannelFields(Node n, String name, String type, Map<String, Node> raw) {
-        Node rate = raw.get("rate-limit");
-        if (rate != null) {
-            int r = integer(rate, name + ".rate-limit", 10);
-            if (r < 1) problem(rate, name + ".rate-limit must be at least 1 (messages per 10 minutes)");
-        }
-        if (raw.get("timeout") != null) duration(raw.get("timeout"), name + ".timeout", null);
-        if (raw.get("give-up") != null) duration(raw.get("give-up"), name + ".give-up", null);
-        if (raw.get("tls") != null) {
-            String t = string(raw.get("tls"), name + ".tls", "");
-            if (!List.of("starttls", "implicit", "none").contains(t)) {
-                problem(raw.get("tls"), name + ".tls must be starttls, implicit or none, not '" + t + "'"
-                        + Suggest.hint(t, List.of("starttls", "implicit", "none")));
-            }
-        }
-        if (raw.get("headers") != null && !(raw.get("headers") instanceof MappingNode)) {
-            problem(raw.get("headers"), name + ".headers must be a mapping such as { Authorization: \"Bearer …\" }");
-        }
-        if ("webhook".equals(type) && raw.get("url") != null) {
-            String u = string(raw.get("url"), name + ".url", "");
-            if (!u.startsWith("http://") && !u.startsWith("https://")) problem(raw.get("url"), name + ".url must start with https:// or http://, not '" + u + "'");
-        }
-        if ("webhook".equals(type) && raw.get("template") != null) {
-            for (String p : byre.notify.Template.unknown(string(raw.get("template"), name + ".template", ""))) {
-                problem(raw.get("template"), name + ".template: " + p);
-            }
-        }
-        if ("command".equals(type) && raw.get("argv") != null && !(raw.get("argv") instanceof SequenceNode)) {
-            problem(raw.get("argv"), name + ".argv must be a list such as [/usr/local/bin/send-sms, \"+440000000000\"] (no shell is used)");
-        }
     }
 
     private List<Path> rules(Node node) {
@@ -598,7 +571,7 @@ public final class ConfigLoader {
         return out;
     }
 
-    private String string(Node node, String what, String fallback) {
+    String string(Node node, String what, String fallback) {
         if (node == null) return fallback;
         if (node instanceof ScalarNode s) {
             return s.getValue().isEmpty() && fallback != null ? fallback : s.getValue();
@@ -607,7 +580,7 @@ public final class ConfigLoader {
         return fallback;
     }
 
-    private int integer(Node node, String what, int fallback) {
+    int integer(Node node, String what, int fallback) {
         String s = string(node, what, null);
         if (s == null) return fallback;
         try {
@@ -618,7 +591,7 @@ public final class ConfigLoader {
         }
     }
 
-    private boolean bool(Node node, String what, boolean fallback) {
+    boolean bool(Node node, String what, boolean fallback) {
         String s = string(node, what, null);
         if (s == null) return fallback;
         return switch (s.strip().toLowerCase(java.util.Locale.ROOT)) {
@@ -631,7 +604,7 @@ public final class ConfigLoader {
         };
     }
 
-    private Duration duration(Node node, String what, Duration fallback) {
+    Duration duration(Node node, String what, Duration fallback) {
         String s = string(node, what, null);
         if (s == null) return fallback;
         Optional<Duration> d = Durations.parse(s);
@@ -642,7 +615,7 @@ public final class ConfigLoader {
         return d.get();
     }
 
-    private List<String> stringList(Node node, String what) {
+    List<String> stringList(Node node, String what) {
         List<String> out = new ArrayList<>();
         if (node == null) return out;
         if (node instanceof ScalarNode s) {
@@ -660,21 +633,7 @@ public final class ConfigLoader {
         return out;
     }
 
-    private Object plain(Node node) {
-        if (node instanceof ScalarNode s) return s.getValue();
-        if (node instanceof SequenceNode seq) {
-            List<Object> l = new ArrayList<>();
-            for (Node n : seq.getValue()) l.add(plain(n));
-            return l;
-        }
-        Map<String, Object> m = new LinkedHashMap<>();
-        for (NodeTuple t : ((MappingNode) node).getValue()) {
-            m.put(t.getKeyNode() instanceof ScalarNode k ? k.getValue() : "?", plain(t.getValueNode()));
-        }
-        return m;
-    }
-
-    private Secret secretFile(Node node, String what) {
+    Secret secretFile(Node node, String what) {
         String s = string(node, what, null);
         if (s == null) return null;
         Path p = resolve(s);
@@ -713,12 +672,12 @@ public final class ConfigLoader {
         return new String[] {"127.0.0.1", "0"};
     }
 
-    private Path resolve(String s) {
+    Path resolve(String s) {
         Path p = Path.of(s);
         return p.isAbsolute() || baseDir == null ? p : baseDir.resolve(p).normalize();
     }
 
-    private void problem(Node node, String message) {
+    void problem(Node node, String message) {
         problems.add(new ConfigProblem(fileName, node == null ? 0 : line(node), message));
     }
 

@@ -227,10 +227,16 @@ public final class MqttLink implements AutoCloseable {
 
     /** Publishes and waits for the broker's acknowledgement (QoS 1); false on failure or timeout. */
     public boolean publishAndWait(String topic, String payload, long timeoutMs) {
+        return publishAndWait(topic, payload, false, timeoutMs);
+    }
+
+    /** The same, with the retain flag: the broker then keeps the message for later subscribers. */
+    public boolean publishAndWait(String topic, String payload, boolean retained, long timeoutMs) {
         if (!connected) return false;
         try {
             MqttMessage m = new MqttMessage(payload.getBytes(StandardCharsets.UTF_8));
             m.setQos(1);
+            m.setRetained(retained);
             IMqttDeliveryToken t = client.publish(topic, m);
             t.waitForCompletion(timeoutMs);
             return t.isComplete() && t.getException() == null;

@@ -52,7 +52,7 @@ public final class AlertServices {
             // reminder and all-clear in order, retried like any channel while the broker is away. Its name is the
             // topic: a configured channel's name cannot hold '/', so the two never meet. Never folded.
             eventsChannel = base + "/events";
-            channels.put(eventsChannel, new MqttChannel(eventsChannel, eventsChannel, link, ChannelFactory.DEFAULT_TIMEOUT.toMillis()));
+            channels.put(eventsChannel, new MqttChannel(eventsChannel, eventsChannel, false, link, ChannelFactory.DEFAULT_TIMEOUT.toMillis()));
             policies.put(eventsChannel, new ChannelFactory.Policy(Integer.MAX_VALUE, ChannelFactory.DEFAULT_GIVE_UP));
         }
         AlertService service = assemble(config.site(), channels, policies, new Outbox(store.openSyncedConnection()), store::putState,

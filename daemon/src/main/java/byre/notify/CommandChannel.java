@@ -1,6 +1,7 @@
 package byre.notify;
 
 import byre.alerts.AlertEvent;
+import byre.config.ChannelFields;
 import java.io.ByteArrayOutputStream;
 import java.io.IOException;
 import java.io.InputStream;
@@ -22,6 +23,21 @@ public final class CommandChannel implements Channel {
     private static final int STDERR_KEEP = 4096;
     /** PATH when byre has none (systemd gives services this one). */
     static final String DEFAULT_PATH = "/usr/local/sbin:/usr/local/bin:/usr/sbin:/usr/bin:/sbin:/bin";
+
+    public record Settings(List<String> argv, Duration timeout) {}
+
+    public static final ChannelKind<Settings> KIND = ChannelKind.of("command", List.of("argv", "timeout"), List.of("argv"),
+            CommandChannel::read, (name, s, ctx) -> new CommandChannel(name, s.argv(), s.timeout()));
+
+    static Settings read(ChannelFields f) {
+        String name = f.channel();
+        if (f.has("argv") && !f.isList("argv")) {
+            f.problem("argv", name + ".argv must be a list such as [/usr/local/bin/send-sms, \"+440000000000\"] (no shell is used)");
+        }
+        List<String> argv = f.list("argv");
+        if (f.has("argv") && (argv.isEmpty() || argv.get(0).isBlank())) f.problem("argv", name + ".argv is empty");
+        return new Settings(List.copyOf(argv), f.duration("timeout", ChannelFactory.DEFAULT_TIMEOUT));
+    }
 
     private final String name;
     private final List<String> argv;

@@ -1,30 +1,70 @@
 package byre.notify;
 
 import byre.alerts.AlertEvent;
-import java.nio.charset.StandardCharsets;
-import java.time.ZonedDateTime;
-import java.time.format.DateTimeFormatter;
-import java.util.Base64;
+import byre.config.ChannelFields;
+import byre.config.Secret;
+import byre.units.Suggest;
+import java.time.Duration;
+import java.time.Instant;
 import java.util.List;
+import javax.net.ssl.SSLSocketFactory;
 
-/** Sends a short plain-text mail (subject = the headline) through an SMTP submission server. */
+/**
+ * Sends a short plain-text mail (subject = the headline, body = the event's message and the farm's time) through an
+ * SMTP submission server. The sending is done by {@link MailSender} (Jakarta Mail), loaded on the first delivery.
+ */
 public final class EmailChannel implements Channel {
-    private final String name;
-    private final SmtpClient smtp;
-    private final String from;
-    private final List<String> to;
-    private final String username;
-    private final String password;
-    private final MessageText text;
+    static final List<String> TLS_WORDS = List.of("starttls", "implicit", "none");
 
-    public EmailChannel(String name, SmtpClient smtp, String from, List<String> to, String username, String password, MessageText text) {
+    /** How the connection is protected: TLS from the first byte (port 465), upgraded with STARTTLS, or plain. */
+    public enum Tls { IMPLICIT, STARTTLS, NONE }
+
+    /** {@code tls}: STARTTLS (the default), TLS from the first byte (the default on port 465), or none. */
+    public record Settings(String host, int port, Tls tls, String from, List<String> to, String username, Secret password,
+                           Duration timeout) {}
+
+    public static final ChannelKind<Settings> KIND = ChannelKind.of("email",
+            List.of("smtp", "from", "to", "username", "password-file", "tls", "timeout"), List.of("smtp", "from", "to"), EmailChannel::read,
+            (name, s, ctx) -> new EmailChannel(name, s, new MessageText(ctx.zone()), null));
+
+    static Settings read(ChannelFields f) {
+        String name = f.channel();
+        String smtp = f.string("smtp", "");
+        int colon = smtp.lastIndexOf(':');
+        String host = colon > 0 ? smtp.substring(0, colon) : smtp;
+        int port = 587;
+        if (colon > 0) {
+            try {
+                port = Integer.parseInt(smtp.substring(colon + 1));
+            } catch (NumberFormatException e) {
+                f.problem("smtp", name + ".smtp must be host:port, not '" + smtp + "'");
+            }
+        }
+        String t = f.string("tls", port == 465 ? "implicit" : "starttls");
+        Tls tls = switch (t) {
+            case "implicit" -> Tls.IMPLICIT;
+            case "starttls" -> Tls.STARTTLS;
+            case "none" -> Tls.NONE;
+            default -> {
+                f.problem("tls", name + ".tls must be starttls, implicit or none, not '" + t + "'" + Suggest.hint(t, TLS_WORDS));
+                yield Tls.STARTTLS;
+            }
+        };
+        return new Settings(host, port, tls, f.string("from", ""), List.copyOf(f.list("to")), f.string("username", null),
+                f.secretFile("password-file"), f.duration("timeout", ChannelFactory.DEFAULT_TIMEOUT));
+    }
+
+    private final String name;
+    private final Settings settings;
+    private final MessageText text;
+    private final SSLSocketFactory ssl;
+
+    /** {@code ssl}: the TLS sockets to use, null for the JDK's trusted authorities (tests pass their own). */
+    public EmailChannel(String name, Settings settings, MessageText text, SSLSocketFactory ssl) {
         this.name = name;
-        this.smtp = smtp;
-        this.from = from;
-        this.to = List.copyOf(to);
-        this.username = username;
-        this.password = password;
+        this.settings = settings;
         this.text = text;
+        this.ssl = ssl;
     }
 
     @Override
@@ -37,36 +77,9 @@ public final class EmailChannel implements Channel {
         return "email";
     }
 
-    /** The message as sent (RFC 5322 headers, UTF-8 text body). */
-    public String message(AlertEvent e) {
-        StringBuilder sb = new StringBuilder();
-        sb.append("From: ").append(from).append("\r\n");
-        sb.append("To: ").append(String.join(", ", to)).append("\r\n");
-        sb.append("Subject: ").append(header(text.subject(e))).append("\r\n");
-        sb.append("Date: ").append(DateTimeFormatter.RFC_1123_DATE_TIME.format(
-                e.at() == null ? ZonedDateTime.now() : e.at().atZone(java.time.ZoneOffset.UTC))).append("\r\n");
-        if (e.id() != null) sb.append("Message-ID: <").append(e.id()).append("@byre.").append(e.site()).append(">\r\n");
-        sb.append("MIME-Version: 1.0\r\n");
-        sb.append("Content-Type: text/plain; charset=UTF-8\r\n");
-        sb.append("Content-Transfer-Encoding: 8bit\r\n");
-        sb.append("\r\n");
-        sb.append(text.body(e).replace("\n", "\r\n"));
-        return sb.toString();
-    }
-
-    /** RFC 2047 encoded word when the header is not plain ASCII. */
-    private static String header(String s) {
-        if (s.chars().allMatch(c -> c >= 0x20 && c < 0x7f)) return s;
-        return "=?UTF-8?B?" + Base64.getEncoder().encodeToString(s.getBytes(StandardCharsets.UTF_8)) + "?=";
-    }
-
     @Override
-    public DeliveryResult deliver(AlertEvent event) {
-        try {
-            smtp.send(from, to, username, password, message(event));
-            return DeliveryResult.success("accepted for " + String.join(", ", to));
-        } catch (SmtpClient.SmtpException e) {
-            return DeliveryResult.failure(e.reason, e.getMessage());
-        }
+    public DeliveryResult deliver(AlertEvent e) {
+        String id = e.id() == null ? null : "<" + e.id() + "@byre." + e.site() + ">";
+        return MailSender.send(settings, ssl, text.subject(e), text.body(e), e.at() == null ? Instant.now() : e.at(), id);
     }
 }

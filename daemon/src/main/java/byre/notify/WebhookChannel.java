@@ -1,9 +1,12 @@
 package byre.notify;
 
 import byre.alerts.AlertEvent;
+import byre.config.ChannelFields;
+import byre.config.Secret;
 import java.io.IOException;
 import java.net.ConnectException;
 import java.net.URI;
+import java.net.URISyntaxException;
 import java.net.UnknownHostException;
 import java.net.http.HttpClient;
 import java.net.http.HttpConnectTimeoutException;
@@ -13,6 +16,7 @@ import java.net.http.HttpTimeoutException;
 import java.nio.channels.UnresolvedAddressException;
 import java.nio.charset.StandardCharsets;
 import java.time.Duration;
+import java.util.List;
 import java.util.Map;
 import javax.net.ssl.SSLException;
 
@@ -22,6 +26,43 @@ import javax.net.ssl.SSLException;
  */
 public final class WebhookChannel implements Channel {
     public static final String SIGNATURE_HEADER = "X-Byre-Signature";
+
+    /** {@code template}: the body with {placeholders}; {@code secret-file}: the HMAC key; {@code headers}: extra request headers. */
+    public record Settings(URI url, String template, java.util.Map<String, String> headers, Secret secret, Duration timeout) {}
+
+    public static final ChannelKind<Settings> KIND = ChannelKind.of("webhook",
+            List.of("url", "secret-file", "headers", "template", "timeout"), List.of("url"), WebhookChannel::read,
+            (name, s, ctx) -> new WebhookChannel(name, s.url(), s.template(), s.headers(), s.secret() == null ? null : s.secret().reveal(),
+                    s.timeout()));
+
+    static Settings read(ChannelFields f) {
+        String name = f.channel();
+        URI url = null;
+        String u = f.string("url", null);
+        if (u != null) {
+            if (!u.startsWith("http://") && !u.startsWith("https://")) {
+                f.problem("url", name + ".url must start with https:// or http://, not '" + u + "'");
+            } else {
+                try {
+                    url = new URI(u);
+                    if (url.getHost() == null) {
+                        f.problem("url", name + ".url must be http(s)://host/..., not '" + u + "'");
+                        url = null;
+                    }
+                } catch (URISyntaxException e) {
+                    f.problem("url", name + ".url is not a valid URL: " + e.getMessage());
+                }
+            }
+        }
+        if (f.has("headers") && !f.isMapping("headers")) {
+            f.problem("headers", name + ".headers must be a mapping such as { Authorization: \"Bearer …\" }");
+        }
+        String template = f.string("template", null);
+        if (template != null) {
+            for (String p : Template.unknown(template)) f.problem("template", name + ".template: " + p);
+        }
+        return new Settings(url, template, f.map("headers"), f.secretFile("secret-file"), f.duration("timeout", ChannelFactory.DEFAULT_TIMEOUT));
+    }
 
     private final String name;
     private final URI url;

@@ -3,6 +3,7 @@ package byre.cli;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
+import byre.testing.SmtpServer;
 import com.sun.net.httpserver.HttpServer;
 import java.io.ByteArrayOutputStream;
 import java.io.PrintStream;
@@ -75,6 +76,25 @@ class NotifyTestCommandTest {
             assertTrue(r.out().contains("{\"error\":\"bad app token\"}"), r.out());
         } finally {
             s.stop(0);
+        }
+    }
+
+    @Test
+    void anEmailChannelWhoseServerRefusesTheLoginPrintsTheReplyAndExitsOne() throws Exception {
+        try (SmtpServer smtp = new SmtpServer()) {
+            smtp.authReply = "535 5.7.8 Authentication credentials invalid";
+            Files.writeString(dir.resolve("smtp.secret"), "not-the-password\n");
+            Path f = dir.resolve("mail.yaml");
+            Files.writeString(f, """
+                    site: larkmoor
+                    notify:
+                      office: { type: email, smtp: "127.0.0.1:%d", from: byre@larkmoor.test, to: office@larkmoor.test,
+                                username: byre, password-file: smtp.secret, tls: none }
+                    """.formatted(smtp.port()));
+            CliRun r = run("notify-test", "office", "--config", f.toString());
+            assertEquals(1, r.code(), r.err());
+            assertEquals("FAILED (smtp-reply): office (email): AUTH PLAIN refused: 535 5.7.8 Authentication credentials invalid\n", r.out());
+            assertTrue(!r.out().contains("not-the-password") && !r.err().contains("not-the-password"), "the password never shows");
         }
     }
 

@@ -4,6 +4,7 @@ import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertNull;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
+import byre.notify.WebhookChannel;
 import java.nio.file.Path;
 import java.time.Duration;
 import java.time.LocalTime;
@@ -39,7 +40,8 @@ class AlertConfigTest {
         assertEquals(List.of("office"), c.alerts().digestNotify());
         assertEquals(List.of("night-phone", "office"), c.alerts().selfAlertNotify());
         assertEquals(Duration.ofMinutes(30), c.alerts().channelFailingAfter());
-        assertEquals("6", c.channels().get("night-phone").fields().get("rate-limit"));
+        assertEquals(6, c.channels().get("night-phone").rateLimit());
+        assertEquals(Duration.ofHours(12), c.channels().get("night-phone").giveUp());
     }
 
     @Test
@@ -79,6 +81,6 @@ class AlertConfigTest {
     @Test
     void aTemplateWithKnownPlaceholdersAndJsonBracesIsAccepted() throws Exception {
         ByreConfig c = parse(CHANNELS.replace("rate-limit: 6,", "rate-limit: 6, template: '{\"text\":\"{message}\",\"id\":\"{incident}\"}',"));
-        assertTrue(c.channels().get("night-phone").fields().containsKey("template"));
+        assertEquals("{\"text\":\"{message}\",\"id\":\"{incident}\"}", c.channels().get("night-phone").settings(WebhookChannel.Settings.class).template());
     }
 }

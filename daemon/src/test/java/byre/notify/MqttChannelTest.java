@@ -1,5 +1,6 @@
 package byre.notify;
 
+import byre.testing.Mosquitto;
 import byre.testing.MutableClock;
 import static org.awaitility.Awaitility.await;
 import static org.junit.jupiter.api.Assertions.assertEquals;
@@ -9,6 +10,9 @@ import byre.alerts.AlertPolicy;
 import byre.alerts.IdSource;
 import byre.alerts.OpenIncident;
 import byre.alerts.WatchOutcome;
+import byre.config.ByreConfig;
+import byre.config.ConfigException;
+import byre.config.ConfigLoader;
 import byre.config.MqttSettings;
 import byre.history.HistoryStore;
 import byre.json.Json;
@@ -45,7 +49,7 @@ class MqttChannelTest {
             MqttSettings settings = new MqttSettings(broker.uri(), "127.0.0.1", broker.port(), "byre-larkmoor-test", null, null, "byre", 1, null);
             MqttLink link = new MqttLink(settings, "larkmoor", new SimpleMeterRegistry());
             MutableClock clock = new MutableClock(T0);
-            Channel ch = new MqttChannel("barn-siren", "barn/siren/set", link, 5000);
+            Channel ch = new MqttChannel("barn-siren", "barn/siren/set", false, link, 5000);
             AlertService s = AlertServices.assemble("larkmoor", Map.of("barn-siren", ch), Map.of(), new Outbox(store.openSyncedConnection()),
                     store::putState, store::loadState, clock, new Random(1), IdSource.counting(), new SimpleMeterRegistry(), List.of(),
                     Duration.ofMinutes(15), "byre/larkmoor/ack");
@@ -83,5 +87,49 @@ class MqttChannelTest {
             s.close();
             link.close();
         }
+    }
+
+    @Test
+    void retainTrueLeavesTheEventWithTheBrokerForWhoeverSubscribesLater() throws Exception {
+        ByreConfig cfg = ConfigLoader.parse("byre.yaml", """
+                site: larkmoor
+                notify:
+                  barn-siren: { type: mqtt, topic: larkmoor/siren/set, retain: true }
+                  barn-lamp: { type: mqtt, topic: larkmoor/lamp/set }
+                """, dir, n -> null);
+        // mosquitto: it flags a retained message as such when it hands it to a new subscriber
+        try (Mosquitto broker = Mosquitto.start()) {
+            MqttSettings settings = new MqttSettings(broker.uri(), "127.0.0.1", broker.port(), "byre-larkmoor-retain", null, null, "byre", 1, null);
+            MqttLink link = new MqttLink(settings, "larkmoor", new SimpleMeterRegistry());
+            try {
+                link.start();
+                await().atMost(Duration.ofSeconds(15)).until(link::isConnected);
+                ChannelFactory factory = new ChannelFactory(link, java.time.ZoneOffset.UTC);
+                DeliveryResult siren = factory.build(cfg.channels().get("barn-siren")).deliver(EmailChannelTest.EVENT);
+                assertTrue(siren.ok(), siren.toString());
+                assertEquals("published (retained) to larkmoor/siren/set", siren.detail());
+                assertTrue(factory.build(cfg.channels().get("barn-lamp")).deliver(EmailChannelTest.EVENT).ok());
+            } finally {
+                link.close();
+            }
+            // a subscriber that arrives afterwards gets the retained event (flagged retained), and only that one;
+            // the marker published after the subscription shows that nothing else was kept
+            List<String> got = new CopyOnWriteArrayList<>();
+            try (TestPublisher late = new TestPublisher(broker.uri())) {
+                late.client().subscribe("larkmoor/+/set", 1, (t, m) -> got.add(t + (m.isRetained() ? " retained " : " ")
+                        + Json.parse(new String(m.getPayload(), StandardCharsets.UTF_8)).getClass().getSimpleName()));
+                late.publish("larkmoor/marker/set", "{}", 1, false);
+                await().atMost(Duration.ofSeconds(10)).until(() -> got.stream().anyMatch(g -> g.startsWith("larkmoor/marker/set")));
+            }
+            assertEquals("larkmoor/siren/set retained", got.get(0).substring(0, got.get(0).lastIndexOf(' ')));
+            assertEquals(2, got.size(), got.toString());
+        }
+    }
+
+    @Test
+    void retainMustBeTrueOrFalse() {
+        ConfigException e = org.junit.jupiter.api.Assertions.assertThrows(ConfigException.class, () -> ConfigLoader.parse("byre.yaml",
+                "site: larkmoor\nnotify:\n  barn-siren: { type: mqtt, topic: larkmoor/siren/set, retain: sometimes }\n", dir, n -> null));
+        assertEquals("[byre.yaml:3: barn-siren.retain must be true or false, not 'sometimes']", e.problems().stream().map(Object::toString).toList().toString());
     }
 }

@@ -135,9 +135,11 @@ class BrokerDropInTest {
                   shed-dry: { topic: larkmoor/cow-shed/dry, quantity: dry-bulb }
                 zones:
                   cow-shed: { sensors: [shed-dry] }
+                notify:
+                  barn-siren: { type: mqtt, topic: larkmoor/cow-shed/siren/set }
                 """, dir, n -> null);
         String acl = BrokerAcl.render(cfg, List.of("byre", "operators", "sensors", "hutch-node"));
-        assertTrue(acl.contains("\nuser byre\ntopic read larkmoor/cow-shed/dry\ntopic readwrite farm/larkmoor/#\n"), acl);
+        assertTrue(acl.contains("\nuser byre\ntopic read larkmoor/cow-shed/dry\ntopic readwrite farm/larkmoor/#\ntopic write larkmoor/cow-shed/siren/set\n"), acl);
         assertTrue(acl.contains("\nuser operators\ntopic write farm/larkmoor/ack\ntopic read #\n"), acl);
         assertTrue(acl.contains("\nuser sensors\ntopic write larkmoor/cow-shed/dry\n"), acl);
         assertTrue(acl.endsWith("\nuser hutch-node\ntopic write larkmoor/cow-shed/dry\n"), acl);
