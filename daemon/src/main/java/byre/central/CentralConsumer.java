@@ -91,7 +91,7 @@ public final class CentralConsumer implements AutoCloseable {
     }
 
     /** One event of a site: kept once by its id, acknowledged to the broker once it is on disk. */
-    void onEvent(String topic, byte[] payload, Runnable ack) {
+    void onEvent(String topic, byte[] payload, boolean retained, Runnable ack) {
         String[] levels = topic.split("/", -1);
         String site = levels.length >= 2 ? levels[levels.length - 2] : "?";
         String body = new String(payload, StandardCharsets.UTF_8);
