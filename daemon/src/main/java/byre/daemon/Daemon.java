@@ -99,8 +99,7 @@ public final class Daemon implements AutoCloseable {
 
             byre.config.CentralSettings sites = config.central();
             // A central zone takes its site's streams as they are: the barn derived them, the centre derives nothing.
-            ZoneDeriver zoneDeriver = !sites.enabled() ? deriver : (zone, inputs, out) -> isCentralZone(zone.id())
-                    ? ZoneDeriver.NONE.derive(zone, inputs, out) : deriver.derive(zone, inputs, out);
+            ZoneDeriver zoneDeriver = byre.central.CentralDeriver.wrap(sites, deriver);
             // Zones combine inputs with the max-ages known at start (learnt from the history where not configured).
             zones = new ZoneStage(new ArrayList<>(rules.effective().zones().values()), zoneDeriver, new ZoneMetrics(registry));
             pipeline = new Pipeline(zones, writer, clock, ticker);

@@ -54,6 +54,34 @@ class CentralConfigTest {
         assertEquals("at", thi.timePath());
         assertEquals(Quantity.ONLINE, c.sensors().get("larkmoor/online").quantity());
         assertFalse(c.sensors().containsKey("larkmoor/cow-shed/online"), "a mirrored zone has no online stream");
+        // Learnt max-ages replace the zones (byre.daemon.Freshness): the sites stay.
+        assertEquals(c.central(), c.withZones(c.zones()).central());
+    }
+
+    @Test
+    void aSitesZoneDerivesNothingAndAnyOtherZoneAsUsual() throws Exception {
+        ByreConfig c = load(CENTRAL + """
+                sensors:
+                  office-dry: { topic: hub/office/dry, quantity: dry-bulb }
+                  office-rh: { topic: hub/office/rh, quantity: rh }
+                zones:
+                  office: { sensors: [office-dry, office-rh] }
+                """);
+        var stage = new byre.zones.ZoneStage(List.copyOf(c.zones().values()),
+                CentralDeriver.wrap(c.central(), new byre.zones.ClimateDeriver()), new byre.zones.ZoneStage.Observer() {
+                    @Override public void wetBulbAboveDryBulb(String zone, double excessC) {}
+                    @Override public void derivationSkipped(String zone, String why) {}
+                    @Override public void derived(String zone) {}
+                });
+        List<byre.rules.ZoneReading> out = new java.util.ArrayList<>();
+        java.time.Instant t = java.time.Instant.parse("2026-07-14T13:00:00Z");
+        stage.accept(new byre.ingest.Reading("larkmoor/cow-shed/dry-bulb", Quantity.DRY_BULB, 30, t), out::add);
+        stage.accept(new byre.ingest.Reading("larkmoor/cow-shed/rh", Quantity.RH, 60, t.plusSeconds(2)), out::add);
+        stage.accept(new byre.ingest.Reading("office-dry", Quantity.DRY_BULB, 30, t), out::add);
+        stage.accept(new byre.ingest.Reading("office-rh", Quantity.RH, 60, t.plusSeconds(2)), out::add);
+        assertEquals(List.of(Quantity.DRY_BULB, Quantity.RH), out.stream().filter(r -> r.zone().equals("larkmoor/cow-shed"))
+                .map(byre.rules.ZoneReading::quantity).toList(), "the site's THI comes from the site, not from here");
+        assertTrue(out.stream().anyMatch(r -> r.zone().equals("office") && r.quantity() == Quantity.THI), "the centre's own zone derives");
     }
 
     @Test
