@@ -59,6 +59,35 @@ class CentralCliTest {
         assertEquals(true, r.err().contains("--site larkmor: not a site of this central byre's configuration (did you mean 'larkmoor'?)"), r.err());
     }
 
+    @Test
+    void checkAcceptsACentralConfigurationAndItsRules() throws Exception {
+        Path rules = java.nio.file.Files.createDirectories(dir.resolve("rules.d"));
+        java.nio.file.Files.writeString(rules.resolve("sites.rules"), """
+                watch site-down
+                  raise when @sites.online == 0 for 10m
+                  clear when @sites.online == 1 for 2m
+                  notify office
+                watch dairy-heat
+                  raise when @dairy.thi >= 72 for 30m
+                  clear when @dairy.thi <= 70 for 20m
+                  notify office
+                """);
+        Path cfg = dir.resolve("central.yaml");
+        java.nio.file.Files.writeString(cfg, """
+                site: hub
+                central:
+                  sites:
+                    larkmoor: { zones: [calf-barn, cow-shed], groups: [dairy] }
+                    brackenhill: { zones: [cow-shed], groups: [dairy] }
+                notify:
+                  office: { type: command, argv: [/bin/true] }
+                rules: rules.d
+                history: { path: h.db }
+                """);
+        CliRun r = CliRun.of("check", "--config", cfg.toString());
+        assertEquals(Main.OK, r.code(), r.out() + r.err());
+    }
+
     static StatusData.Zone zone(String id) {
         return new StatusData.Zone(id, List.of(), Duration.ofMinutes(5), Map.of(), Map.of());
     }
