@@ -92,7 +92,7 @@ class ManySitesTest {
                 "watch shed-warm\n  raise when cow-shed.dry-bulb > 30\n  clear when cow-shed.dry-bulb < 28\n  notify office\n");
         ByreConfig barnCfg = ConfigLoader.parse("barn.yaml", """
                 site: larkmoor
-                mqtt: { broker: tcp://127.0.0.1:%d, client-id: byre-larkmoor }
+                mqtt: { broker: tcp://127.0.0.1:%d, client-id: byre-larkmoor, accept-acks: true }
                 sensors:
                   shed-dry: { topic: larkmoor/cow-shed/dry, quantity: dry-bulb }
                   shed-rh: { topic: larkmoor/cow-shed/rh, quantity: rh }
