@@ -195,7 +195,7 @@ public final class EventText {
         return switch (q) {
             case AIR_SPEED, PRESSURE, HUMIDITY_RATIO -> 2;
             case VPD -> 3;
-            case SOLAR -> 0;
+            case SOLAR, ONLINE -> 0;
             case DRY_BULB, WET_BULB, RH, DEW_POINT, GLOBE, ENTHALPY, THI, HEAT_INDEX, WIND_CHILL, CCI, BGHI -> 1;
         };
     }

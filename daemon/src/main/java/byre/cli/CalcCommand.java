@@ -192,6 +192,7 @@ final class CalcCommand implements Callable<Integer> {
     static String json(DerivedClimate d) {
         StringBuilder sb = new StringBuilder("{");
         for (Quantity q : Quantity.values()) {
+            if (!q.climate()) continue;
             if (sb.length() > 1) sb.append(',');
             sb.append('"').append(q.id()).append("\":");
             double v = d.value(q);
@@ -216,6 +217,7 @@ final class CalcCommand implements Callable<Integer> {
         sb.append(String.format(Locale.ROOT, "%-15s %9s  %-7s %s%n", "quantity", "value", "unit", "method"));
         Map<String, List<String>> missing = new LinkedHashMap<>();
         for (Quantity q : Quantity.values()) {
+            if (!q.climate()) continue;
             Unit u = displayUnit(q, us);
             double v = d.value(q);
             String value;

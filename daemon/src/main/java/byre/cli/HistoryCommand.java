@@ -109,6 +109,9 @@ final class HistoryCommand implements Callable<Integer> {
             q = Quantity.byId(quantity).orElseThrow(() -> new BadQuery("unknown quantity '" + quantity + "'"
                     + Suggest.hint(quantity, Quantity.ids()) + "; known: " + String.join(", ", Quantity.ids())));
             key = StreamKey.zone(zone, q);
+            // A central zone's every value as its site published it (the zone stream is stored once a minute).
+            if (cfg.central().isMirroredZone(zone)) key = StreamKey.sensor(zone + "/" + q.id());
+            if (cfg.central().isSiteZone(zone) && q == Quantity.ONLINE) key = StreamKey.sensor(byre.config.CentralSettings.onlineSensor(zone));
             name = q.id();
         }
         Unit unit = CalcCommand.displayUnit(q, us);

@@ -144,7 +144,8 @@ final class ReplayCommand implements Callable<Integer> {
         RuleSet ruleSet = compiled.ruleSet().orElseThrow();
 
         Replay replay = new Replay(ruleSet, zone, config != null ? config.site() : "replay",
-                learnt != null ? new ArrayList<>(learnt.zones().values()) : null, new ClimateDeriver(),
+                learnt != null ? new ArrayList<>(learnt.zones().values()) : null,
+                config != null ? byre.central.CentralDeriver.wrap(config.central(), new ClimateDeriver()) : new ClimateDeriver(),
                 config != null && config.units() == ByreConfig.DisplayUnits.US);
         List<AlertEvent> events = new ArrayList<>();
         Instant end;

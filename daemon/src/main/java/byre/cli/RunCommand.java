@@ -58,10 +58,10 @@ final class RunCommand implements Callable<Integer> {
             try {
                 admin = AdminServer.start(cfg.admin().host(), cfg.admin().port(), cfg.admin().token(), registry::scrape, health, live,
                         Clock.systemUTC(), cfg.site());
-                byre.notify.AlertService alerts = daemon.alerts();
-                admin.setAlertSource(() -> alerts.book().openIncidents().stream().map(byre.admin.OpenAlert::of).toList());
+                Daemon running = daemon;
+                admin.setAlertSource(running::openAlerts);
                 admin.setAckHandler((incident, by) -> {
-                    byre.alerts.AckResult r = alerts.acknowledge(incident, by);
+                    byre.alerts.AckResult r = running.acknowledge(incident, by);
                     switch (r.status()) {
                         case ACKNOWLEDGED: return byre.admin.AckHandler.Result.acknowledged(r.detail());
                         case ALREADY: return new byre.admin.AckHandler.Result(byre.admin.AckHandler.Outcome.ALREADY_ACKNOWLEDGED, r.detail());

@@ -43,10 +43,19 @@ final class StatusCommand implements Callable<Integer> {
     @Option(names = "--no-color", description = "Plain text even on a terminal (also: NO_COLOR=1).")
     boolean noColour;
 
+    @Option(names = "--site", paramLabel = "SITE", description = "On a central byre: only this site's zones and alerts.")
+    String site;
+
     @Override
     public Integer call() {
         ByreConfig cfg = config.load(System.err);
         if (cfg == null) return Main.USAGE;
+        if (site != null && !cfg.central().siteIds().contains(site)) {
+            System.err.println("byre: --site " + site + ": not a site of this central byre's configuration"
+                    + byre.units.Suggest.hint(site, cfg.central().siteIds())
+                    + (cfg.central().enabled() ? "; sites: " + String.join(", ", cfg.central().siteIds()) : " (it has no central: section)"));
+            return Main.USAGE;
+        }
         Instant now = Clock.systemUTC().instant();
         StatusData.Daemon daemon = StatusData.Daemon.UNREACHABLE;
         AdminClient.Live live = null;
@@ -58,6 +67,7 @@ final class StatusCommand implements Callable<Integer> {
         StatusData data;
         try (HistoryReader r = HistoryReader.openReadOnly(cfg.history().path())) {
             data = gather(cfg, r, now, daemon, live);
+            if (site != null) data = forSite(data, site);
         } catch (HistoryException e) {
             System.err.println("byre: " + e.getMessage());
             return Main.FAILURE;
@@ -105,6 +115,8 @@ final class StatusCommand implements Callable<Integer> {
 
         List<StatusData.Silent> silent = new ArrayList<>();
         for (SensorConfig s : cfg.sensors().values()) {
+            // A site's zone mirrors only the streams that site publishes: the rest are not silent, they do not exist.
+            if (isCentral(cfg, s)) continue;
             ZoneConfig zone = cfg.zones().values().stream().filter(z -> z.sensors().contains(s.id())).findFirst().orElse(null);
             Duration maxAge = zone == null || zone.maxAge() == null ? DEFAULT_MAX_AGE : zone.maxAge();
             Instant last = null;
@@ -131,6 +143,21 @@ final class StatusCommand implements Callable<Integer> {
             if (!daemon.reachable()) from = "from the database; the daemon is not answering";
         }
         return new StatusData(daemon, zones, alerts, from, silent);
+    }
+
+    private static boolean isCentral(ByreConfig cfg, SensorConfig s) {
+        if (!cfg.central().enabled()) return false;
+        int slash = s.id().lastIndexOf('/');
+        String zone = slash > 0 ? s.id().substring(0, slash) : s.id();
+        return cfg.central().isMirroredZone(zone) || cfg.central().isSiteZone(zone);
+    }
+
+    /** One site of a central byre: its own zone, its zones ({@code <site>/…}), and alerts in them. */
+    static StatusData forSite(StatusData d, String site) {
+        java.util.function.Predicate<String> ofSite = z -> z != null && (z.equals(site) || z.startsWith(site + "/"));
+        return new StatusData(d.daemon(), d.zones().stream().filter(z -> ofSite.test(z.id())).toList(),
+                d.alerts().stream().filter(a -> ofSite.test(a.zone())).toList(), d.alertsFrom(),
+                d.silent().stream().filter(s -> ofSite.test(s.zone())).toList());
     }
 
     /** Open alerts from the alert stage's stored incidents; an unreadable snapshot shows none. */

@@ -116,7 +116,7 @@ final class ZoneLines implements Pipeline.ZoneListener {
             case WIND_CHILL -> "chill";
             case HEAT_INDEX -> "heat-index";
             case THI -> "THI";
-            case WET_BULB, RH, SOLAR, GLOBE, PRESSURE, HUMIDITY_RATIO, ENTHALPY, VPD, CCI, BGHI -> q.id();
+            case WET_BULB, RH, SOLAR, GLOBE, PRESSURE, HUMIDITY_RATIO, ENTHALPY, VPD, CCI, BGHI, ONLINE -> q.id();
         };
     }
 }

@@ -36,7 +36,7 @@ public record ClimateInputs(double dryBulbC, double wetBulbC, double rhPercent, 
             case SOLAR -> solarWm2;
             case GLOBE -> globeC;
             case PRESSURE -> pressureKPa;
-            case HUMIDITY_RATIO, ENTHALPY, VPD, THI, HEAT_INDEX, WIND_CHILL, CCI, BGHI -> Double.NaN;
+            case HUMIDITY_RATIO, ENTHALPY, VPD, THI, HEAT_INDEX, WIND_CHILL, CCI, BGHI, ONLINE -> Double.NaN;
         };
     }
 

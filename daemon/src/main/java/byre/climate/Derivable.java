@@ -20,6 +20,9 @@ import java.util.stream.Collectors;
 public final class Derivable {
     private Derivable() {}
 
+    /** What {@link Quantity#ONLINE} needs: it is not climate, and only a central byre's site zones have it. */
+    public static final String ONLY_SITE_ZONES = "a site's own zone on a central byre (`central:`)";
+
     /** The quantities a sensor may measure. */
     public static final Set<Quantity> MEASURED;
 
@@ -36,8 +39,9 @@ public final class Derivable {
             Map<Quantity, List<Set<Quantity>>> byQuantity = new EnumMap<>(Quantity.class);
             Map<Quantity, String> text = new EnumMap<>(Quantity.class);
             for (Quantity q : Quantity.values()) {
-                byQuantity.put(q, groups(q, v, null));
-                if (!hasRecipe(q)) text.put(q, "its own sensor");
+                byQuantity.put(q, q.climate() ? groups(q, v, null) : List.of());
+                if (!q.climate()) text.put(q, ONLY_SITE_ZONES);
+                else if (!hasRecipe(q)) text.put(q, "its own sensor");
                 else if (q.measurable()) text.put(q, "its own sensor, or " + groupsText(groups(q, v, q)));
                 else text.put(q, groupsText(byQuantity.get(q)));
             }
@@ -79,6 +83,7 @@ public final class Derivable {
      * or rh or dew-point, air-speed". Empty when it can.
      */
     public static Optional<String> whyNot(String zone, Quantity q, Collection<Quantity> measured, ThiVariant variant) {
+        if (!q.climate()) return Optional.of(zone + " has no " + q.id() + " stream: only " + ONLY_SITE_ZONES.replace("`", "'") + " has one");
         List<Set<Quantity>> missing = unmet(q, measured, variant);
         if (missing.isEmpty()) return Optional.empty();
         StringBuilder sb = new StringBuilder(zone).append(" has ");

@@ -88,6 +88,7 @@ public final class DerivedClimate {
      */
     public List<String> missingInputs(Quantity q) {
         if (has(q)) return List.of();
+        if (!q.climate()) return List.of(Derivable.ONLY_SITE_ZONES.replace("`", ""));
         Set<Quantity> given = EnumSet.noneOf(Quantity.class);
         for (Quantity m : Derivable.MEASURED) if (!Double.isNaN(inputs.measured(m))) given.add(m);
         List<String> need = new ArrayList<>(3);

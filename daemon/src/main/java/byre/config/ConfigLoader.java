@@ -37,7 +37,9 @@ import org.snakeyaml.engine.v2.nodes.SequenceNode;
  */
 public final class ConfigLoader {
     static final Set<String> TOP_KEYS = ordered("site", "timezone", "units", "mqtt", "sensors", "zones", "notify",
-            "rules", "history", "admin", "digest", "self-alerts", "page");
+            "rules", "history", "admin", "digest", "self-alerts", "page", "central");
+    static final Set<String> CENTRAL_KEYS = ordered("sites");
+    static final Set<String> SITE_KEYS = ordered("zones", "groups", "max-age");
     static final Set<String> DIGEST_KEYS = ordered("at", "notify");
     static final Set<String> SELF_ALERT_KEYS = ordered("notify", "channel-failing-after");
     static final Set<String> MQTT_KEYS = ordered("broker", "listen", "client-id", "username", "password-file",
@@ -137,9 +139,11 @@ public final class ConfigLoader {
         AdminSettings admin = admin(keys.get("admin"));
         AlertSettings alerts = alerts(keys.get("digest"), keys.get("self-alerts"), channels);
         PageSettings page = page(keys.get("page"));
+        CentralSettings central = central(keys.get("central"), site, mqtt, sensors, zones);
 
         if (!problems.isEmpty()) throw new ConfigException(problems);
-        return new ByreConfig(Path.of(fileName), site, tz, units, mqtt, sensors, zones, channels, rules, history, admin, alerts, page);
+        return new ByreConfig(Path.of(fileName), site, tz, units, mqtt, sensors, zones, channels, rules, history, admin, alerts, page,
+                central);
     }
 
     // ---- sections ----
@@ -339,6 +343,70 @@ public final class ConfigLoader {
             out.put(id, new ZoneConfig(id, groups, zs, elevationM, psychrometer, maxAge, thi, line(n), f.get("max-age") == null));
         }
         return out;
+    }
+
+    /**
+     * {@code central: { sites: { larkmoor: { zones: [cow-shed], groups: [dairy] } } }}: each listed zone becomes the zone
+     * {@code <site>/<zone>}, fed by one sensor per quantity on the site's zone-stream topics; each site also gets the zone
+     * {@code <site>} (group {@code sites}) whose {@code online} stream comes from its status and bridge topics. Added to
+     * {@code sensors} and {@code zones}, so the rules, the history and {@code byre status} see them like any other.
+     */
+    private CentralSettings central(Node node, String ownSite, MqttSettings mqtt, Map<String, SensorConfig> sensors,
+                                    Map<String, ZoneConfig> zones) {
+        if (node == null) return CentralSettings.NONE;
+        Map<String, Node> c = mapping(node, CENTRAL_KEYS, "central");
+        if (c.get("sites") == null) {
+            problem(node, "central: lists no sites (sites: { larkmoor: { zones: [cow-shed] } })");
+            return CentralSettings.NONE;
+        }
+        Map<String, CentralSettings.Site> sites = new LinkedHashMap<>();
+        for (Map.Entry<String, Node> e : mapping(c.get("sites"), null, "central.sites").entrySet()) {
+            String id = e.getKey();
+            Node n = e.getValue();
+            if (!id.matches("[A-Za-z0-9][A-Za-z0-9_.-]*")) {
+                problem(n, "site id '" + id + "' must be letters, digits, '-', '_' or '.' (it is a topic level of that site)");
+                continue;
+            }
+            if (id.equals(ownSite)) problem(n, "site '" + id + "' is this byre's own site: the centre needs a site id of its own");
+            if (zones.containsKey(id)) problem(n, "site '" + id + "' has the name of a zone of this configuration");
+            Map<String, Node> f = mapping(n, SITE_KEYS, "site " + id);
+            List<String> siteZones = stringList(f.get("zones"), "zones");
+            if (siteZones.isEmpty()) problem(n, "site " + id + " lists no zones (zones: [cow-shed, calf-pen-1])");
+            List<String> groups = stringList(f.get("groups"), "groups");
+            if (groups.contains(CentralSettings.SITES_GROUP)) {
+                problem(f.get("groups"), "group '" + CentralSettings.SITES_GROUP + "' is every site's own zone (its online stream); choose another name");
+            }
+            Duration maxAge = duration(f.get("max-age"), "max-age", Duration.ofMinutes(5));
+            for (String z : siteZones) {
+                if (!z.matches("[A-Za-z0-9][A-Za-z0-9_.-]*")) {
+                    problem(f.get("zones"), "zone id '" + z + "' must be letters, digits, '-', '_' or '.'");
+                    continue;
+                }
+                String zoneId = CentralSettings.zoneId(id, z);
+                if (zones.containsKey(zoneId)) {
+                    problem(f.get("zones"), "site " + id + " lists zone " + z + " twice");
+                    continue;
+                }
+                List<String> zoneSensors = new ArrayList<>();
+                for (Quantity q : Quantity.values()) {
+                    if (q == Quantity.ONLINE) continue;
+                    String sensorId = zoneId + "/" + q.id();
+                    String topic = mqtt.publishPrefix() + "/" + id + "/zones/" + z + "/" + q.id();
+                    sensors.put(sensorId, new SensorConfig(sensorId, topic, q, q.canonicalUnit(),
+                            new PayloadFormat(PayloadFormat.Kind.JSON, "value"), "at", 0, line(n)));
+                    zoneSensors.add(sensorId);
+                }
+                zones.put(zoneId, new ZoneConfig(zoneId, groups, zoneSensors, Double.NaN, ZoneConfig.Psychrometer.ASPIRATED, maxAge,
+                        "nrc-1971", line(n)));
+            }
+            String online = CentralSettings.onlineSensor(id);
+            sensors.put(online, new SensorConfig(online, mqtt.publishPrefix() + "/" + id + "/status", Quantity.ONLINE,
+                    Quantity.ONLINE.canonicalUnit(), PayloadFormat.NUMBER, null, 0, line(n)));
+            zones.put(id, new ZoneConfig(id, List.of(CentralSettings.SITES_GROUP), List.of(online), Double.NaN,
+                    ZoneConfig.Psychrometer.ASPIRATED, maxAge, "nrc-1971", line(n)));
+            sites.put(id, new CentralSettings.Site(id, siteZones, groups, maxAge, line(n)));
+        }
+        return new CentralSettings(sites);
     }
 
     private static boolean isFamilyMember(String id, Map<String, SensorConfig> sensors) {

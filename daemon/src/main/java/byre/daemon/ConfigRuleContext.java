@@ -36,7 +36,9 @@ public final class ConfigRuleContext implements RuleContext {
             for (String g : z.groups()) groups.computeIfAbsent(g, k -> new LinkedHashSet<>()).add(z.id());
             Set<Quantity> m = measuredBy(z, config);
             measured.put(z.id(), m);
-            streams.put(z.id(), Derivable.streams(m, thiVariant(z)));
+            // A central zone has the streams its site publishes, which the site's own configuration decides.
+            streams.put(z.id(), config.central().isSiteZone(z.id()) || config.central().isMirroredZone(z.id()) ? m
+                    : Derivable.streams(m, thiVariant(z)));
         }
     }
 
@@ -94,6 +96,12 @@ public final class ConfigRuleContext implements RuleContext {
     @Override
     public java.util.Optional<String> whyNoStream(String zone, Quantity quantity) {
         ZoneConfig z = config.zones().get(zone);
+        if (config.central().isSiteZone(zone)) {
+            return java.util.Optional.of(zone + " is a site's own zone: its one stream is 'online' (1 online, 0 offline)");
+        }
+        if (config.central().isMirroredZone(zone)) {
+            return java.util.Optional.of(zone + " mirrors a site's zone, which never publishes '" + quantity.id() + "'");
+        }
         return z == null ? java.util.Optional.empty() : Derivable.whyNot(zone, quantity, measured.get(zone), thiVariant(z));
     }
 

@@ -48,6 +48,7 @@ public final class Daemon implements AutoCloseable {
     private RuleLoader rules;
     private WatchStage watches;
     private byre.notify.AlertService alerts;
+    private byre.central.CentralConsumer central;
     private volatile boolean reloadRequested;
     private RuleReload reloads;
 
@@ -96,8 +97,11 @@ public final class Daemon implements AutoCloseable {
                     config.history().keepHour()), clock, byre.history.WriterSettings.builder().commitEvery(config.history().commitEvery()).build(), ticker);
             registerHistoryMeters();
 
+            byre.config.CentralSettings sites = config.central();
+            // A central zone takes its site's streams as they are: the barn derived them, the centre derives nothing.
+            ZoneDeriver zoneDeriver = byre.central.CentralDeriver.wrap(sites, deriver);
             // Zones combine inputs with the max-ages known at start (learnt from the history where not configured).
-            zones = new ZoneStage(new ArrayList<>(rules.effective().zones().values()), deriver, new ZoneMetrics(registry));
+            zones = new ZoneStage(new ArrayList<>(rules.effective().zones().values()), zoneDeriver, new ZoneMetrics(registry));
             pipeline = new Pipeline(zones, writer, clock, ticker);
             Gauge.builder("byre.pipeline.queue", pipeline, Pipeline::depth).description("Zone readings waiting for the pipeline thread").register(registry);
 
@@ -111,7 +115,23 @@ public final class Daemon implements AutoCloseable {
             link = new MqttLink(mqtt, config.site(), registry, ticker);
             quietLimit = QuietLimit.of(config, ReportingIntervals.fromHistory(config, clock.instant()));
             publisher = new ZoneStreamPublisher(link, config.mqtt().publishPrefix(), config.site(), config.mqtt().publishEvery());
-            pipeline.addListener(publisher);
+            if (sites.enabled()) {
+                // The centre does not send the sites' streams back out under its own name.
+                ZoneStreamPublisher own = publisher;
+                pipeline.addListener(new Pipeline.ZoneListener() {
+                    @Override
+                    public void accept(byre.rules.ZoneReading r) {
+                        if (!isCentralZone(r.zone())) own.accept(r);
+                    }
+
+                    @Override
+                    public void tick(java.time.Instant now) {
+                        own.tick(now);
+                    }
+                });
+            } else {
+                pipeline.addListener(publisher);
+            }
             alerts = byre.notify.AlertServices.create(config, store, link, registry, clock);
             if (config.mqtt().acceptAcks()) {
                 link.subscribe(alerts.ackTopic(), alerts::onAckMessage);
@@ -147,13 +167,20 @@ public final class Daemon implements AutoCloseable {
             extraListeners.forEach(pipeline::addListener);
 
             IngestStage ingest = new IngestStage(config.sensors().values(), clock, ticker, registry, pipeline::offer, FLOOD_LIMIT_PER_SENSOR);
+            java.util.Set<String> centralSensors = new java.util.HashSet<>();
+            if (sites.enabled()) {
+                for (var z : config.zones().values()) if (isCentralZone(z.id())) centralSensors.addAll(z.sensors());
+                central = new byre.central.CentralConsumer(config, link, store.openSyncedConnection(), clock, registry, pipeline::offer);
+                central.subscribe(ingest);
+            }
             for (SensorConfig s : config.sensors().values()) {
-                link.subscribeAcked(s.topic(), ingest::accept);
+                if (!centralSensors.contains(s.id())) link.subscribeAcked(s.topic(), ingest::accept);
             }
             link.onConnect(publisher::republishAll);
             if (broker != null) link.onConnect(broker::open);
             link.onConnecting(ingest::connected);
             pipeline.start();
+            if (central != null) central.start();
             alerts.start();
             link.start();
             LOG.info("byre started for site {}: {} sensors in {} zones, history {}", config.site(), config.sensors().size(),
@@ -186,6 +213,32 @@ public final class Daemon implements AutoCloseable {
     /** Incidents, outbox and channels; also the acknowledgement service of the admin API. */
     public byre.notify.AlertService alerts() {
         return alerts;
+    }
+
+    private boolean isCentralZone(String zone) {
+        return config.central().isSiteZone(zone) || config.central().isMirroredZone(zone);
+    }
+
+    /**
+     * Acknowledges an incident: one of the sites' (central byre) goes to that site's ack topic, any other to this
+     * byre's own alerts. The admin API's {@code POST /ack} calls this.
+     */
+    public byre.alerts.AckResult acknowledge(String incident, String by) {
+        byre.central.CentralConsumer c = central;
+        byre.alerts.AckResult r = c == null ? null : c.acknowledge(incident, by);
+        return r != null ? r : alerts.acknowledge(incident, by);
+    }
+
+    /** This byre's open alerts, and on a central byre every site's (zones as {@code <site>/<zone>}). */
+    public java.util.List<byre.admin.OpenAlert> openAlerts() {
+        java.util.List<byre.admin.OpenAlert> out = new ArrayList<>(alerts.book().openIncidents().stream().map(byre.admin.OpenAlert::of).toList());
+        if (central != null) out.addAll(central.openAlerts());
+        return out;
+    }
+
+    /** The central consumer, or null on a barn's byre. */
+    public byre.central.CentralConsumer central() {
+        return central;
     }
 
     public WatchStage watches() {
@@ -266,6 +319,7 @@ public final class Daemon implements AutoCloseable {
         if (writer != null && writer.stats().healthy()) writer.flush(java.time.Duration.ofSeconds(10));
         if (link != null) link.close();
         if (alerts != null) alerts.close();
+        if (central != null) central.close();
         if (writer != null) writer.close();
         if (store != null) store.close();
         if (broker != null) broker.close();

@@ -25,7 +25,9 @@ public enum Quantity {
     HEAT_INDEX("heat-index", Dimension.TEMPERATURE, false, -80, 100),
     WIND_CHILL("wind-chill", Dimension.TEMPERATURE, false, -100, 70),
     CCI("cci", Dimension.TEMPERATURE, false, -100, 100),
-    BGHI("bghi", Dimension.INDEX, false, 0, 150);
+    BGHI("bghi", Dimension.INDEX, false, 0, 150),
+    /** A site as a central byre sees it: 1 while its byre is online and its bridge connected, 0 when not. No recipe. */
+    ONLINE("online", Dimension.INDEX, false, 0, 1);
 
     private final String id;
     private final Dimension dimension;
@@ -47,6 +49,12 @@ public enum Quantity {
     public Dimension dimension() { return dimension; }
 
     public Unit canonicalUnit() { return dimension.canonicalUnit(); }
+
+    /**
+     * False only for {@link #ONLINE}: a site's link state, known to a central byre, which no sensor measures and no
+     * climate recipe gives (it has no place in {@code byre calc} or the derivation table).
+     */
+    public boolean climate() { return this != ONLINE; }
 
     /** True if a sensor may report it directly (configuration {@code quantity:}). */
     public boolean measurable() { return measurable; }

@@ -1,0 +1,153 @@
+package byre.central;
+
+import byre.admin.OpenAlert;
+import byre.alerts.AlertEvent;
+import byre.alerts.EventKind;
+import byre.config.CentralSettings;
+import java.sql.Connection;
+import java.sql.PreparedStatement;
+import java.sql.ResultSet;
+import java.sql.SQLException;
+import java.sql.Statement;
+import java.time.Instant;
+import java.util.ArrayList;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+
+/**
+ * The sites' alert events as a central byre received them, in the central history file (table {@code site_event},
+ * created by the first central start: a barn's file never has it). Each event is kept once by its id, however often
+ * the bridge or the broker delivers it, in the order it first arrived. The open incidents of every site are held in
+ * memory (rebuilt from the table at start) for {@code byre status} and for acknowledging from the centre.
+ */
+public final class SiteEventLog implements AutoCloseable {
+    /** One event as stored. */
+    public record Stored(long seq, String site, AlertEvent event) {}
+
+    /** An open incident of a site and what the centre shows of it. */
+    private record Open(String site, OpenAlert alert) {}
+
+    private final Connection conn;
+    private final Map<String, Open> open = new LinkedHashMap<>();
+
+    /** Uses (and closes) {@code conn}, a synced connection to the central history file. */
+    public SiteEventLog(Connection conn) throws SQLException {
+        this.conn = conn;
+        try (Statement st = conn.createStatement()) {
+            st.execute("""
+                    CREATE TABLE IF NOT EXISTS site_event (
+                      seq      INTEGER PRIMARY KEY AUTOINCREMENT,
+                      id       TEXT    NOT NULL UNIQUE,
+                      site     TEXT    NOT NULL,
+                      incident TEXT,
+                      kind     TEXT    NOT NULL,
+                      body     TEXT    NOT NULL,
+                      received INTEGER NOT NULL)""");
+            st.execute("CREATE INDEX IF NOT EXISTS site_event_incident ON site_event (incident)");
+        }
+        // Incidents not cleared yet, replayed in order.
+        try (Statement st = conn.createStatement();
+             ResultSet rs = st.executeQuery("SELECT seq, site, body FROM site_event WHERE incident NOT IN "
+                     + "(SELECT incident FROM site_event WHERE kind = 'cleared' AND incident IS NOT NULL) ORDER BY seq")) {
+            while (rs.next()) fold(rs.getString(2), AlertEvent.fromJson(rs.getString(3)));
+        }
+    }
+
+    /**
+     * Stores an event of {@code site} unless one with its id is already stored; the commit is on disk when this
+     * returns. True when it was new.
+     */
+    public boolean record(String site, AlertEvent e, String body, Instant received) throws SQLException {
+        synchronized (conn) {
+            try (PreparedStatement ps = conn.prepareStatement(
+                    "INSERT OR IGNORE INTO site_event(id, site, incident, kind, body, received) VALUES (?, ?, ?, ?, ?, ?)")) {
+                ps.setString(1, e.id());
+                ps.setString(2, site);
+                ps.setString(3, e.incident());
+                ps.setString(4, e.kind().id());
+                ps.setString(5, body);
+                ps.setLong(6, received.toEpochMilli());
+                if (ps.executeUpdate() == 0) return false;
+            }
+            fold(site, e);
+            return true;
+        }
+    }
+
+    private void fold(String site, AlertEvent e) {
+        if (e.incident() == null) return;
+        Open o = open.get(e.incident());
+        switch (e.kind()) {
+            case RAISED -> open.put(e.incident(), new Open(site, new OpenAlert(e.incident(), e.watch(),
+                    CentralSettings.zoneId(site, e.zone()), e.level(), e.quantity(), e.value(), e.since() != null ? e.since() : e.at(),
+                    null, null)));
+            case ACKNOWLEDGED -> {
+                if (o != null) {
+                    OpenAlert a = o.alert();
+                    open.put(e.incident(), new Open(site, new OpenAlert(a.incident(), a.watch(), a.zone(), a.level(), a.quantity(),
+                            a.value(), a.since(), e.by(), e.at())));
+                }
+            }
+            case REMINDER, ESCALATED -> {
+                if (o != null) {
+                    OpenAlert a = o.alert();
+                    open.put(e.incident(), new Open(site, new OpenAlert(a.incident(), a.watch(), a.zone(), e.level() != null ? e.level() : a.level(),
+                            a.quantity(), Double.isNaN(e.value()) ? a.value() : e.value(), a.since(), a.acknowledgedBy(), a.acknowledgedAt())));
+                }
+            }
+            case CLEARED -> open.remove(e.incident());
+            case TEST, SUMMARY, DIGEST -> { }
+        }
+    }
+
+    /** Every site's open incidents, oldest first; zones as central zone ids ({@code larkmoor/cow-shed}). */
+    public List<OpenAlert> openAlerts() {
+        synchronized (conn) {
+            return open.values().stream().map(Open::alert).toList();
+        }
+    }
+
+    /** The site an open incident belongs to, or null. */
+    public String siteOf(String incident) {
+        synchronized (conn) {
+            Open o = open.get(incident);
+            return o == null ? null : o.site();
+        }
+    }
+
+    /** The open incident, or null. */
+    public OpenAlert openAlert(String incident) {
+        synchronized (conn) {
+            Open o = open.get(incident);
+            return o == null ? null : o.alert();
+        }
+    }
+
+    /** The stored events of one site (all sites when null) in the order they arrived. */
+    public List<Stored> events(String site) throws SQLException {
+        List<Stored> out = new ArrayList<>();
+        synchronized (conn) {
+            try (PreparedStatement ps = conn.prepareStatement(site == null
+                    ? "SELECT seq, site, body FROM site_event ORDER BY seq"
+                    : "SELECT seq, site, body FROM site_event WHERE site = ? ORDER BY seq")) {
+                if (site != null) ps.setString(1, site);
+                try (ResultSet rs = ps.executeQuery()) {
+                    while (rs.next()) out.add(new Stored(rs.getLong(1), rs.getString(2), AlertEvent.fromJson(rs.getString(3))));
+                }
+            }
+        }
+        return out;
+    }
+
+    @Override
+    public void close() {
+        synchronized (conn) {
+            try {
+                conn.close();
+            } catch (SQLException ignored) {
+                // closing: nothing left to do
+            }
+        }
+    }
+}

@@ -1,0 +1,54 @@
+package byre.central;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
+import static org.junit.jupiter.api.Assertions.assertNull;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import byre.alerts.AlertEvent;
+import byre.history.HistoryStore;
+import java.nio.file.Path;
+import java.time.Instant;
+import java.util.List;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.io.TempDir;
+
+/** The sites' events at the centre: once each by id, in arrival order, open incidents surviving a restart. */
+class SiteEventLogTest {
+    @TempDir
+    Path dir;
+
+    static String event(String id, String incident, String kind, String by) {
+        return "{\"id\":\"" + id + "\",\"incident\":\"" + incident + "\",\"event\":\"" + kind + "\",\"site\":\"larkmoor\","
+                + "\"watch\":\"heat-stress\",\"zone\":\"cow-shed\",\"level\":\"warning\",\"quantity\":\"thi\",\"value\":73.4,"
+                + "\"unit\":\"\",\"since\":\"2026-07-14T13:05:00Z\",\"at\":\"2026-07-14T13:35:00Z\",\"message\":\"Heat stress\""
+                + (by == null ? "" : ",\"by\":\"" + by + "\"") + "}";
+    }
+
+    static boolean record(SiteEventLog log, String json) throws Exception {
+        return log.record("larkmoor", AlertEvent.fromJson(json), json, Instant.parse("2026-07-14T13:35:01Z"));
+    }
+
+    @Test
+    void eachEventOnceInOrderAndOpenIncidentsAfterARestart() throws Exception {
+        Path db = dir.resolve("central.db");
+        try (HistoryStore store = HistoryStore.open(db); SiteEventLog log = new SiteEventLog(store.openSyncedConnection())) {
+            assertTrue(record(log, event("e1", "i1", "raised", null)));
+            assertFalse(record(log, event("e1", "i1", "raised", null)), "delivered twice, kept once");
+            assertTrue(record(log, event("e2", "i2", "raised", null)));
+            assertTrue(record(log, event("e3", "i1", "cleared", null)));
+            assertTrue(record(log, event("e4", "i2", "acknowledged", "Ann")));
+            assertEquals(List.of("e1", "e2", "e3", "e4"), log.events("larkmoor").stream().map(s -> s.event().id()).toList());
+        }
+        try (HistoryStore store = HistoryStore.open(db); SiteEventLog log = new SiteEventLog(store.openSyncedConnection())) {
+            assertEquals(1, log.openAlerts().size());
+            var open = log.openAlerts().get(0);
+            assertEquals("i2", open.incident());
+            assertEquals("larkmoor/cow-shed", open.zone(), "zones as central zone ids");
+            assertEquals("Ann", open.acknowledgedBy());
+            assertEquals("larkmoor", log.siteOf("i2"));
+            assertNull(log.siteOf("i1"), "cleared");
+            assertFalse(record(log, event("e4", "i2", "acknowledged", "Ann")), "still known after the restart");
+        }
+    }
+}
