@@ -34,8 +34,13 @@ final class BatchLoop implements Runnable {
     private static final long INITIAL_RETRY_NANOS = TimeUnit.MILLISECONDS.toNanos(100);
     /** While a batch fills, the writer looks at its queue this often (a flush waits at most this much longer). */
     private static final long GATHER_NANOS = TimeUnit.MILLISECONDS.toNanos(20);
-    /** Held acknowledgements from which a pause in arrivals commits at once (fewer: no broker window is that small). */
-    static final int STALL_MIN_HELD = 16;
+    /**
+     * Held acknowledgements from which a pause in arrivals commits at once. It must stay below the smallest in-flight
+     * window of a broker byre reads: the embedded broker stops sending after 10 unacknowledged messages and
+     * mosquitto after 20 unless configured, and with a window at or below this the broker would wait out every
+     * commit interval (at 16, a QoS 1 stream through the embedded broker fell to 5 readings a second).
+     */
+    static final int STALL_MIN_HELD = 8;
     /** A pause in arrivals this long with acknowledgements held commits at once. */
     static final long STALL_NANOS = TimeUnit.MILLISECONDS.toNanos(50);
 
