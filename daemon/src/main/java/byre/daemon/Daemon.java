@@ -60,6 +60,17 @@ public final class Daemon implements AutoCloseable {
     }
 
     /** Builds a daemon; {@link #start(ZoneDeriver)} brings it up. */
+    /**
+     * The history writer's tuning from the configuration. The embedded broker sends at most 10 readings ahead of
+     * their acknowledgements, so with it a short pause in arrivals already means the broker is waiting on a commit;
+     * mosquitto's window is far larger (the package sets 1000), and the longer pause keeps commits rare there.
+     */
+    static byre.history.WriterSettings writerSettings(ByreConfig config) {
+        var b = byre.history.WriterSettings.builder().commitEvery(config.history().commitEvery());
+        if (config.mqtt().embedded()) b.stallPause(java.time.Duration.ofMillis(5));
+        return b.build();
+    }
+
     public static Daemon create(ByreConfig config, Clock clock, MeterRegistry registry) {
         return new Daemon(config, clock, byre.time.Ticker.SYSTEM, registry);
     }
@@ -94,7 +105,7 @@ public final class Daemon implements AutoCloseable {
             if (db.getParent() != null) Files.createDirectories(db.getParent());
             store = HistoryStore.open(db, clock);
             writer = HistoryWriter.start(store, new Retention(config.history().keepRaw(), config.history().keepMinute(),
-                    config.history().keepHour()), clock, byre.history.WriterSettings.builder().commitEvery(config.history().commitEvery()).build(), ticker);
+                    config.history().keepHour()), clock, writerSettings(config), ticker);
             registerHistoryMeters();
 
             byre.config.CentralSettings sites = config.central();

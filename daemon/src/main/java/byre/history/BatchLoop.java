@@ -21,7 +21,7 @@ import org.slf4j.LoggerFactory;
  * <p><b>When a batch is due:</b> {@code batchRows} rows wait; the oldest has waited {@code commitEvery}; a flush or
  * close waits for it; it is the very first batch; or the intake looks stalled with acknowledgements held. The
  * last one: the broker sends at most its in-flight window of unacknowledged messages and then waits, so when at
- * least {@link #STALL_MIN_HELD} acknowledgements are held and nothing arrived for {@link #STALL_NANOS}, the batch
+ * least {@link #STALL_MIN_HELD} acknowledgements are held and nothing arrived for {@link WriterSettings#stallPause()}, the batch
  * goes at once rather than leaving the broker waiting out the interval. Sensors that report in bursts trigger it
  * too, at the end of each burst, which costs nothing extra when bursts are further apart than the interval.
  *
@@ -41,8 +41,6 @@ final class BatchLoop implements Runnable {
      * commit interval (at 16, a QoS 1 stream through the embedded broker fell to 5 readings a second).
      */
     static final int STALL_MIN_HELD = 8;
-    /** A pause in arrivals this long with acknowledgements held commits at once. */
-    static final long STALL_NANOS = TimeUnit.MILLISECONDS.toNanos(50);
 
     private final HistoryStore store;
     private final Retention retention;
@@ -168,12 +166,12 @@ final class BatchLoop implements Runnable {
     /** When the backlog is due by age (or by a pause with acknowledgements held). */
     private long nextDue() {
         long due = firstPendingNanos + settings.commitEvery().toNanos();
-        if (pendingCallbacks >= STALL_MIN_HELD) due = Math.min(due, lastArrivalNanos + STALL_NANOS);
+        if (pendingCallbacks >= STALL_MIN_HELD) due = Math.min(due, lastArrivalNanos + settings.stallPause().toNanos());
         return due;
     }
 
     private boolean stalled(long now) {
-        return pendingCallbacks >= STALL_MIN_HELD && now - lastArrivalNanos >= STALL_NANOS;
+        return pendingCallbacks >= STALL_MIN_HELD && now - lastArrivalNanos >= settings.stallPause().toNanos();
     }
 
     /** The very first batch goes at once (when so configured): an installer watching the log sees the first stored reading. */

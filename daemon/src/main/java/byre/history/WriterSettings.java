@@ -18,10 +18,12 @@ import java.time.Duration;
  * @param maxRetryDelay     the longest pause between retries of a failed batch
  * @param firstBatchAtOnce  whether the very first batch after start is committed at once (the first stored reading
  *                          shows in the log within a second of start)
+ * @param stallPause        a pause in arrivals this long with acknowledgements held commits at once (the broker is
+ *                          waiting on byre); short for the embedded broker, whose in-flight window is only 10
  */
 public record WriterSettings(int batchRows, Duration commitEvery, int queueCapacity, Duration appendTimeout,
                              int backlogLimit, Duration retentionEvery, int retentionStepRows, Duration maxRetryDelay,
-                             boolean firstBatchAtOnce) {
+                             boolean firstBatchAtOnce, Duration stallPause) {
 
     /**
      * 10,000 rows or 2 s per batch (a burst is written in large transactions; at barn rates a commit every 2 s,
@@ -30,7 +32,7 @@ public record WriterSettings(int batchRows, Duration commitEvery, int queueCapac
      * a retention round every 10 minutes in steps of 5000 rows; retries up to every 30 s.
      */
     public static final WriterSettings DEFAULT = new WriterSettings(10_000, Duration.ofSeconds(2), 20_000, Duration.ofSeconds(1),
-        200_000, Duration.ofMinutes(10), 5000, Duration.ofSeconds(30), true);
+        200_000, Duration.ofMinutes(10), 5000, Duration.ofSeconds(30), true, Duration.ofMillis(50));
 
     public WriterSettings {
         if (batchRows < 1) throw new IllegalArgumentException("history batch rows must be at least 1, got " + batchRows);
@@ -42,6 +44,7 @@ public record WriterSettings(int batchRows, Duration commitEvery, int queueCapac
         if (commitEvery == null || commitEvery.isNegative()) throw new IllegalArgumentException("history commit interval must be zero or positive, got " + commitEvery);
         positive("retention interval", retentionEvery);
         positive("max retry delay", maxRetryDelay);
+        positive("stall pause", stallPause);
         if (appendTimeout == null || appendTimeout.isNegative()) throw new IllegalArgumentException("history append timeout must be zero or positive");
     }
 
@@ -65,6 +68,7 @@ public record WriterSettings(int batchRows, Duration commitEvery, int queueCapac
         private int retentionStepRows;
         private Duration maxRetryDelay;
         private boolean firstBatchAtOnce;
+        private Duration stallPause;
 
         private Builder(WriterSettings s) {
             batchRows = s.batchRows;
@@ -76,6 +80,7 @@ public record WriterSettings(int batchRows, Duration commitEvery, int queueCapac
             retentionStepRows = s.retentionStepRows;
             maxRetryDelay = s.maxRetryDelay;
             firstBatchAtOnce = s.firstBatchAtOnce;
+            stallPause = s.stallPause;
         }
 
         public Builder batchRows(int rows) { batchRows = rows; return this; }
@@ -94,9 +99,11 @@ public record WriterSettings(int batchRows, Duration commitEvery, int queueCapac
 
         public Builder firstBatchAtOnce(boolean atOnce) { firstBatchAtOnce = atOnce; return this; }
 
+        public Builder stallPause(Duration d) { stallPause = d; return this; }
+
         public WriterSettings build() {
             return new WriterSettings(batchRows, commitEvery, queueCapacity, appendTimeout, backlogLimit, retentionEvery,
-                retentionStepRows, maxRetryDelay, firstBatchAtOnce);
+                retentionStepRows, maxRetryDelay, firstBatchAtOnce, stallPause);
         }
     }
 }

@@ -109,12 +109,12 @@ class HistoryWriterTest {
         java.util.concurrent.atomic.AtomicInteger acks = new java.util.concurrent.atomic.AtomicInteger();
         for (int i = 0; i < BatchLoop.STALL_MIN_HELD - 1; i++) writer.append(PEN1_DRY, T0.plusSeconds(i).toEpochMilli(), i, acks::incrementAndGet);
         writerWentRound();
-        ticker.advance(Duration.ofNanos(BatchLoop.STALL_NANOS));
+        ticker.advance(WriterSettings.DEFAULT.stallPause());
         writerWentRound();
         assertEquals(0, acks.get(), "too few held to be a full window");
         writer.append(PEN1_DRY, T0.plusSeconds(100).toEpochMilli(), 1.0, acks::incrementAndGet);
         writerWentRound();
-        ticker.advance(Duration.ofNanos(BatchLoop.STALL_NANOS - 1));
+        ticker.advance(WriterSettings.DEFAULT.stallPause().minusNanos(1));
         writerWentRound();
         assertEquals(0, acks.get(), "still arriving");
         ticker.advance(Duration.ofNanos(1));
