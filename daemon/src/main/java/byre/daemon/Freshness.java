@@ -123,17 +123,6 @@ public final class Freshness {
 
     /** A duration as rule files and the log write it: 90s -> 1m30s, 300s -> 5m. */
     static String text(Duration d) {
-        long s = d.getSeconds();
-        if (s == 0) return d.toMillis() + "ms";
-        StringBuilder sb = new StringBuilder();
-        long[] units = {86_400, 3_600, 60, 1};
-        String[] names = {"d", "h", "m", "s"};
-        for (int i = 0; i < units.length; i++) {
-            if (s >= units[i]) {
-                sb.append(s / units[i]).append(names[i]);
-                s %= units[i];
-            }
-        }
-        return sb.toString();
+        return byre.rules.DurationText.of(d);
     }
 }

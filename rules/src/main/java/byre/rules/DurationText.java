@@ -3,10 +3,10 @@ package byre.rules;
 import java.time.Duration;
 
 /** Writes a duration the way rule files do: 90s -> 1m30s, 7200s -> 2h. */
-final class DurationText {
+public final class DurationText {
     private DurationText() {}
 
-    static String of(Duration d) {
+    public static String of(Duration d) {
         long s = d.getSeconds();
         if (s == 0) return d.toMillis() + "ms";
         StringBuilder sb = new StringBuilder();
