@@ -4,17 +4,13 @@ import byre.config.ByreConfig;
 import byre.config.SensorConfig;
 import byre.config.ZoneConfig;
 import byre.history.HistoryReader;
-import byre.history.HistoryRow;
 import byre.history.StreamKey;
 import byre.units.Quantity;
 import java.nio.file.Files;
 import java.time.Duration;
 import java.time.Instant;
-import java.util.ArrayList;
-import java.util.Collections;
 import java.util.EnumMap;
 import java.util.HashMap;
-import java.util.List;
 import java.util.Map;
 
 /**
@@ -27,6 +23,12 @@ import java.util.Map;
 public final class ReportingIntervals {
     static final Duration LOOK_BACK = Duration.ofDays(1);
     static final int MIN_GAPS = 5;
+    /**
+     * Readings per sensor the median is taken over: the newest of the last day. Enough to see through a few missed
+     * reports, and bounded, because this runs at every start and reload: a day of a sensor that reports every
+     * second is 86,400 rows, and 200 of them would take seconds and much of the heap on a Pi.
+     */
+    static final int SAMPLE = 241;
 
     private ReportingIntervals() {}
 
@@ -55,7 +57,8 @@ public final class ReportingIntervals {
         for (ZoneConfig z : config.zones().values()) {
             for (String sensor : z.sensors()) {
                 if (config.sensors().get(sensor) == null) continue;
-                Duration median = medianGap(r.raw(StreamKey.sensor(sensor), now.minus(LOOK_BACK), now));
+                long[] times = r.latestTimes(StreamKey.sensor(sensor), now.minus(LOOK_BACK), now, SAMPLE);
+                Duration median = medianGap(times, times.length);
                 if (median != null) out.put(sensor, median);
             }
         }
@@ -90,13 +93,5 @@ public final class ReportingIntervals {
         for (int i = 1; i < n; i++) gaps[i - 1] = timesMs[i] - timesMs[i - 1];
         java.util.Arrays.sort(gaps);
         return Duration.ofMillis(gaps[gaps.length / 2]);
-    }
-
-    static Duration medianGap(List<HistoryRow> rows) {
-        if (rows.size() <= MIN_GAPS) return null;
-        List<Long> gaps = new ArrayList<>();
-        for (int i = 1; i < rows.size(); i++) gaps.add(rows.get(i).at().toEpochMilli() - rows.get(i - 1).at().toEpochMilli());
-        Collections.sort(gaps);
-        return Duration.ofMillis(gaps.get(gaps.size() / 2));
     }
 }

@@ -120,6 +120,27 @@ public final class HistoryReader implements AutoCloseable {
         return out;
     }
 
+    /**
+     * The times (epoch ms, oldest first) of at most {@code limit} newest raw readings of one stream in [from, to):
+     * one walk back along the (stream, time) key, however long the history.
+     */
+    public long[] latestTimes(StreamKey key, Instant from, Instant to, int limit) {
+        long[] times = new long[limit];
+        int[] n = {0};
+        query("latest times of " + key, "SELECT r.ts FROM reading r JOIN stream s ON s.id = r.stream "
+                + "WHERE s.kind = ? AND s.key = ? AND r.ts >= ? AND r.ts < ? ORDER BY r.ts DESC LIMIT ?",
+            ps -> {
+                bindKey(ps, 1, key);
+                ps.setLong(3, lo(from));
+                ps.setLong(4, hi(to));
+                ps.setInt(5, limit);
+            },
+            rs -> times[n[0]++] = rs.getLong(1));
+        long[] out = new long[n[0]];
+        for (int i = 0; i < n[0]; i++) out[i] = times[n[0] - 1 - i];
+        return out;
+    }
+
     /** Streams the raw readings of one stream in [from, to), oldest first, to {@code sink}. */
     public void forEachRaw(StreamKey key, Instant from, Instant to, Consumer<HistoryRow> sink) {
         rawRange(key, lo(from), hi(to), sink);

@@ -101,6 +101,19 @@ class RollupAndQueryTest {
     }
 
     @Test
+    void latestTimesAreTheNewestRawTimesOldestFirst() {
+        try (HistoryReader r = store.openReader()) {
+            for (StreamKey k : KEYS) {
+                List<HistoryRow> rows = r.raw(k, null, null);
+                long[] all = rows.stream().mapToLong(row -> row.at().toEpochMilli()).toArray();
+                long[] newest = java.util.Arrays.copyOfRange(all, Math.max(0, all.length - 7), all.length);
+                org.junit.jupiter.api.Assertions.assertArrayEquals(newest, r.latestTimes(k, null, null, 7));
+                assertEquals(all.length, r.latestTimes(k, null, null, all.length + 10).length);
+            }
+        }
+    }
+
+    @Test
     void minuteAndHourRollupsMatchARecomputationFromTheRawReadings() {
         try (HistoryReader r = store.openReader()) {
             for (StreamKey k : KEYS) {
