@@ -19,7 +19,6 @@ import byre.testing.TestPublisher;
 import byre.units.Quantity;
 import byre.zones.ClimateDeriver;
 import io.micrometer.core.instrument.simple.SimpleMeterRegistry;
-import java.io.IOException;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
@@ -55,10 +54,10 @@ class ManySitesTest {
 
     @Test
     void theCentreSeesEveryEventAndValueOfABarnAcrossAnOutageAndAcknowledgesThroughTheBridge() throws Exception {
-        assumeTrue(Files.isExecutable(Path.of("/usr/bin/openssl")) && Files.isExecutable(Path.of("/usr/bin/mosquitto_passwd")),
+        assumeTrue(byre.testing.BrokerTls.toolsPresent(),
                 "needs openssl and mosquitto_passwd (Debian packages openssl, mosquitto)");
-        makeCertificates();
-        run("/usr/bin/mosquitto_passwd", "-b", "-c", dir.resolve("central.passwd").toString(), "byre-larkmoor", "bridge-pw");
+        byre.testing.BrokerTls.makeCertificates(dir);
+        byre.testing.BrokerTls.passwordFile(dir.resolve("central.passwd"), "byre-larkmoor", "bridge-pw");
         int centralTls = Mosquitto.freePort();
         int centralPlain = Mosquitto.freePort();
         int barnPort = Mosquitto.freePort();
@@ -227,25 +226,6 @@ class ManySitesTest {
             into.put(Instant.parse((String) j.get("at")).truncatedTo(java.time.temporal.ChronoUnit.MILLIS), (Double) j.get("value"));
         });
         return c;
-    }
-
-    /** A test CA and a server certificate for 127.0.0.1 signed by it. */
-    private void makeCertificates() throws IOException, InterruptedException {
-        String ca = dir.resolve("ca").toString();
-        String server = dir.resolve("server").toString();
-        run("/usr/bin/openssl", "req", "-x509", "-newkey", "rsa:2048", "-nodes", "-days", "2", "-subj", "/CN=byre test CA",
-                "-keyout", ca + ".key", "-out", ca + ".pem");
-        run("/usr/bin/openssl", "req", "-newkey", "rsa:2048", "-nodes", "-subj", "/CN=127.0.0.1",
-                "-keyout", server + ".key", "-out", server + ".csr");
-        Files.writeString(dir.resolve("san.ext"), "subjectAltName=IP:127.0.0.1\n");
-        run("/usr/bin/openssl", "x509", "-req", "-in", server + ".csr", "-CA", ca + ".pem", "-CAkey", ca + ".key",
-                "-CAcreateserial", "-days", "2", "-extfile", dir.resolve("san.ext").toString(), "-out", server + ".pem");
-    }
-
-    private void run(String... argv) throws IOException, InterruptedException {
-        Process p = new ProcessBuilder(argv).redirectErrorStream(true).redirectOutput(dir.resolve("tool.log").toFile()).start();
-        assertTrue(p.waitFor(30, TimeUnit.SECONDS), String.join(" ", argv) + " did not finish");
-        assertEquals(0, p.exitValue(), String.join(" ", argv) + ": " + Files.readString(dir.resolve("tool.log")));
     }
 
     private static Path root() {
