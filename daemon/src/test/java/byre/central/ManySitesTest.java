@@ -46,7 +46,6 @@ import org.junit.jupiter.api.io.TempDir;
  * acknowledgement made at the centre reaches the barn; the barn's byre going away raises "site offline" at the centre.
  */
 class ManySitesTest {
-    private static final String USER = System.getProperty("user.name");
     private static final String DRY = "byre/larkmoor/zones/cow-shed/dry-bulb";
 
     @TempDir
@@ -56,35 +55,12 @@ class ManySitesTest {
     void theCentreSeesEveryEventAndValueOfABarnAcrossAnOutageAndAcknowledgesThroughTheBridge() throws Exception {
         assumeTrue(byre.testing.BrokerTls.toolsPresent(),
                 "needs openssl and mosquitto_passwd (Debian packages openssl, mosquitto)");
-        byre.testing.BrokerTls.makeCertificates(dir);
-        byre.testing.BrokerTls.passwordFile(dir.resolve("central.passwd"), "byre-larkmoor", "bridge-pw");
-        int centralTls = Mosquitto.freePort();
-        int centralPlain = Mosquitto.freePort();
-        int barnPort = Mosquitto.freePort();
-        Files.createDirectories(dir.resolve("central-state"));
-        String centralConf = String.join("\n",
-                "per_listener_settings true",
-                "user " + USER,
-                // The central byre's session (its subscriptions and what is queued for it) survives a broker restart.
-                "persistence true",
-                "persistence_location " + dir.resolve("central-state") + "/",
-                "listener " + centralTls + " 127.0.0.1",
-                "cafile " + dir.resolve("ca.pem"),
-                "certfile " + dir.resolve("server.pem"),
-                "keyfile " + dir.resolve("server.key"),
-                "allow_anonymous false",
-                "password_file " + dir.resolve("central.passwd"),
-                "listener " + centralPlain + " 127.0.0.1",
-                "allow_anonymous true");
-        String dropIn = Files.readString(root().resolve("config/mosquitto-bridge.conf"))
-                .replace("@SITE@", "larkmoor")
-                .replace("@CENTRAL@", "127.0.0.1:" + centralTls)
-                .replace("/etc/byre/central-ca.pem", dir.resolve("ca.pem").toString())
-                .replace("remote_password CHANGE-ME", "remote_password bridge-pw")
-                .replace("restart_timeout 2 30", "restart_timeout 1 2");
-        assertTrue(dropIn.contains("remote_password bridge-pw") && dropIn.contains("restart_timeout 1 2"),
-                "the drop-in's lines the test substitutes have changed");
-        String barnConf = "user " + USER + "\nlistener " + barnPort + " 127.0.0.1\nallow_anonymous true\n" + dropIn;
+        byre.testing.BrokerTls.Bridged pair = byre.testing.BrokerTls.Bridged.prepare(dir, "larkmoor", root());
+        int centralTls = pair.centralTls();
+        int centralPlain = pair.centralPlain();
+        int barnPort = pair.barnPort();
+        String centralConf = pair.centralConf();
+        String barnConf = pair.barnConf();
 
         Path barnRules = Files.createDirectories(dir.resolve("barn-rules"));
         Files.writeString(barnRules.resolve("warm.rules"),

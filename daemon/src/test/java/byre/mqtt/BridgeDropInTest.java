@@ -26,7 +26,6 @@ import org.junit.jupiter.api.io.TempDir;
  */
 class BridgeDropInTest {
     private static final String SITE = "larkmoor";
-    private static final String USER = System.getProperty("user.name");
 
     @TempDir
     Path dir;
@@ -35,36 +34,12 @@ class BridgeDropInTest {
     void siteTopicsGoOutAcknowledgementsComeInAndNothingIsLostWhileTheCentreIsDown() throws Exception {
         assumeTrue(byre.testing.BrokerTls.toolsPresent(),
                 "needs openssl and mosquitto_passwd (Debian packages openssl, mosquitto)");
-        byre.testing.BrokerTls.makeCertificates(dir);
-        byre.testing.BrokerTls.passwordFile(dir.resolve("central.passwd"), "byre-" + SITE, "bridge-pw");
-
-        int centralTls = Mosquitto.freePort();
-        int centralPlain = Mosquitto.freePort();
-        int barnPort = Mosquitto.freePort();
-        Files.createDirectories(dir.resolve("central-state"));
-        String centralConf = String.join("\n",
-                "per_listener_settings true",
-                "user " + USER,
-                "persistence true",
-                "persistence_location " + dir.resolve("central-state") + "/",
-                "listener " + centralTls + " 127.0.0.1",
-                "cafile " + dir.resolve("ca.pem"),
-                "certfile " + dir.resolve("server.pem"),
-                "keyfile " + dir.resolve("server.key"),
-                "allow_anonymous false",
-                "password_file " + dir.resolve("central.passwd"),
-                // the test's own clients, plain and anonymous, on a second loopback listener
-                "listener " + centralPlain + " 127.0.0.1",
-                "allow_anonymous true");
-        String dropIn = Files.readString(root().resolve("config/mosquitto-bridge.conf"))
-                .replace("@SITE@", SITE)
-                .replace("@CENTRAL@", "127.0.0.1:" + centralTls)
-                .replace("/etc/byre/central-ca.pem", dir.resolve("ca.pem").toString())
-                .replace("remote_password CHANGE-ME", "remote_password bridge-pw")
-                .replace("restart_timeout 2 30", "restart_timeout 1 2");
-        assertTrue(dropIn.contains("remote_password bridge-pw") && dropIn.contains("restart_timeout 1 2"),
-                "the drop-in's lines the test substitutes have changed");
-        String barnConf = "user " + USER + "\nlistener " + barnPort + " 127.0.0.1\nallow_anonymous true\n" + dropIn;
+        byre.testing.BrokerTls.Bridged pair = byre.testing.BrokerTls.Bridged.prepare(dir, SITE, root());
+        int centralTls = pair.centralTls();
+        int centralPlain = pair.centralPlain();
+        int barnPort = pair.barnPort();
+        String centralConf = pair.centralConf();
+        String barnConf = pair.barnConf();
 
         List<String> atCentre = new CopyOnWriteArrayList<>();
         List<String> acksAtBarn = new CopyOnWriteArrayList<>();

@@ -33,6 +33,48 @@ public final class BrokerTls {
                 "-CAcreateserial", "-days", "2", "-extfile", dir.resolve("san.ext").toString(), "-out", server + ".pem");
     }
 
+    /**
+     * A barn broker bridged to a central one by the shipped drop-in ({@code config/mosquitto-bridge.conf}, only its
+     * placeholders, CA path, password and reconnect delay substituted): the centre has a TLS listener with a login
+     * for the bridge and a plain anonymous one for the test's clients, and keeps sessions across a restart.
+     * Start them with {@link Mosquitto#startConfigured}.
+     */
+    public record Bridged(int centralTls, int centralPlain, int barnPort, String centralConf, String barnConf) {
+        public static Bridged prepare(Path dir, String site, Path repositoryRoot) throws IOException, InterruptedException {
+            makeCertificates(dir);
+            passwordFile(dir.resolve("central.passwd"), "byre-" + site, "bridge-pw");
+            int centralTls = Mosquitto.freePort();
+            int centralPlain = Mosquitto.freePort();
+            int barnPort = Mosquitto.freePort();
+            String user = System.getProperty("user.name");
+            Files.createDirectories(dir.resolve("central-state"));
+            String centralConf = String.join("\n",
+                    "per_listener_settings true",
+                    "user " + user,
+                    "persistence true",
+                    "persistence_location " + dir.resolve("central-state") + "/",
+                    "listener " + centralTls + " 127.0.0.1",
+                    "cafile " + dir.resolve("ca.pem"),
+                    "certfile " + dir.resolve("server.pem"),
+                    "keyfile " + dir.resolve("server.key"),
+                    "allow_anonymous false",
+                    "password_file " + dir.resolve("central.passwd"),
+                    // the test's own clients, plain and anonymous, on a second loopback listener
+                    "listener " + centralPlain + " 127.0.0.1",
+                    "allow_anonymous true");
+            String dropIn = Files.readString(repositoryRoot.resolve("config/mosquitto-bridge.conf"))
+                    .replace("@SITE@", site)
+                    .replace("@CENTRAL@", "127.0.0.1:" + centralTls)
+                    .replace("/etc/byre/central-ca.pem", dir.resolve("ca.pem").toString())
+                    .replace("remote_password CHANGE-ME", "remote_password bridge-pw")
+                    .replace("restart_timeout 2 30", "restart_timeout 1 2");
+            assertTrue(dropIn.contains("remote_password bridge-pw") && dropIn.contains("restart_timeout 1 2"),
+                    "the drop-in's lines the test substitutes have changed");
+            String barnConf = "user " + user + "\nlistener " + barnPort + " 127.0.0.1\nallow_anonymous true\n" + dropIn;
+            return new Bridged(centralTls, centralPlain, barnPort, centralConf, barnConf);
+        }
+    }
+
     /** A mosquitto password file holding one login. */
     public static void passwordFile(Path file, String user, String password) throws IOException, InterruptedException {
         run(file.getParent(), "/usr/bin/mosquitto_passwd", "-b", "-c", file.toString(), user, password);
