@@ -16,13 +16,13 @@ import org.snakeyaml.engine.v2.nodes.SequenceNode;
  * {@code <channel>.<key>} in its messages and records a problem at the value's line instead of throwing.
  */
 public final class ChannelFields {
-    private final ConfigLoader loader;
+    private final NodeReader reader;
     private final String channel;
     private final Node node;
     private final Map<String, Node> raw;
 
-    ChannelFields(ConfigLoader loader, String channel, Node node, Map<String, Node> raw) {
-        this.loader = loader;
+    ChannelFields(NodeReader reader, String channel, Node node, Map<String, Node> raw) {
+        this.reader = reader;
         this.channel = channel;
         this.node = node;
         this.raw = raw;
@@ -38,25 +38,25 @@ public final class ChannelFields {
     }
 
     public String string(String key, String fallback) {
-        return loader.string(raw.get(key), what(key), fallback);
+        return reader.string(raw.get(key), what(key), fallback);
     }
 
     public int integer(String key, int fallback) {
-        return loader.integer(raw.get(key), what(key), fallback);
+        return reader.integer(raw.get(key), what(key), fallback);
     }
 
     public boolean bool(String key, boolean fallback) {
-        return loader.bool(raw.get(key), what(key), fallback);
+        return reader.bool(raw.get(key), what(key), fallback);
     }
 
     /** A duration such as 10s; a wrong one is a problem and gives {@code fallback}. */
     public Duration duration(String key, Duration fallback) {
-        return loader.duration(raw.get(key), what(key), fallback);
+        return reader.duration(raw.get(key), what(key), fallback);
     }
 
     /** A list of words, or one word as a list of one. */
     public List<String> list(String key) {
-        return loader.stringList(raw.get(key), what(key));
+        return reader.stringList(raw.get(key), what(key));
     }
 
     /** Whether the key holds a list (not a single value or a mapping). */
@@ -75,7 +75,7 @@ public final class ChannelFields {
         if (!(raw.get(key) instanceof MappingNode m)) return out;
         for (NodeTuple t : m.getValue()) {
             String k = t.getKeyNode() instanceof ScalarNode s ? s.getValue() : "?";
-            String v = loader.string(t.getValueNode(), what(key) + "." + k, null);
+            String v = reader.string(t.getValueNode(), what(key) + "." + k, null);
             if (v != null) out.put(k, v);
         }
         return out;
@@ -83,19 +83,19 @@ public final class ChannelFields {
 
     /** The secret in the file the key names (relative to the configuration's folder); null when absent or unreadable. */
     public Secret secretFile(String key) {
-        return loader.secretFile(raw.get(key), what(key));
+        return reader.secretFile(raw.get(key), what(key));
     }
 
     /** A path relative to the configuration's folder. */
     public Path path(String key) {
         String s = string(key, null);
-        return s == null ? null : loader.resolve(s);
+        return s == null ? null : reader.resolve(s);
     }
 
     /** Records a problem at the key's value (or at the channel when the key is absent). */
     public void problem(String key, String message) {
         Node at = raw.get(key);
-        loader.problem(at == null ? node : at, message);
+        reader.problem(at == null ? node : at, message);
     }
 
     private String what(String key) {

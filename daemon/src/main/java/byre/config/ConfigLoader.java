@@ -14,7 +14,6 @@ import java.time.ZoneId;
 import java.util.ArrayList;
 import java.util.HashMap;
 import java.util.LinkedHashMap;
-import java.util.LinkedHashSet;
 import java.util.List;
 import java.util.Map;
 import java.util.Optional;
@@ -26,8 +25,6 @@ import org.snakeyaml.engine.v2.exceptions.MarkedYamlEngineException;
 import org.snakeyaml.engine.v2.exceptions.YamlEngineException;
 import org.snakeyaml.engine.v2.nodes.MappingNode;
 import org.snakeyaml.engine.v2.nodes.Node;
-import org.snakeyaml.engine.v2.nodes.NodeTuple;
-import org.snakeyaml.engine.v2.nodes.ScalarNode;
 import org.snakeyaml.engine.v2.nodes.SequenceNode;
 
 /**
@@ -36,32 +33,31 @@ import org.snakeyaml.engine.v2.nodes.SequenceNode;
  * environment variables the configuration names; their values never enter a message.
  */
 public final class ConfigLoader {
-    static final Set<String> TOP_KEYS = ordered("site", "timezone", "units", "mqtt", "sensors", "zones", "notify",
+    static final Set<String> TOP_KEYS = NodeReader.ordered("site", "timezone", "units", "mqtt", "sensors", "zones", "notify",
             "rules", "history", "admin", "digest", "self-alerts", "page", "central");
-    static final Set<String> CENTRAL_KEYS = ordered("sites");
-    static final Set<String> SITE_KEYS = ordered("zones", "groups", "max-age");
-    static final Set<String> DIGEST_KEYS = ordered("at", "notify");
-    static final Set<String> SELF_ALERT_KEYS = ordered("notify", "channel-failing-after");
-    static final Set<String> MQTT_KEYS = ordered("broker", "listen", "client-id", "username", "password-file",
+    static final Set<String> CENTRAL_KEYS = NodeReader.ordered("sites");
+    static final Set<String> SITE_KEYS = NodeReader.ordered("zones", "groups", "max-age");
+    static final Set<String> DIGEST_KEYS = NodeReader.ordered("at", "notify");
+    static final Set<String> SELF_ALERT_KEYS = NodeReader.ordered("notify", "channel-failing-after");
+    static final Set<String> MQTT_KEYS = NodeReader.ordered("broker", "listen", "client-id", "username", "password-file",
             "password-env", "publish-prefix", "qos", "ca-file", "publish-events", "publish-every", "accept-acks");
-    static final Set<String> SENSOR_KEYS = ordered("topic", "quantity", "unit", "payload", "time", "id-level", "max-ids");
-    static final Set<String> ZONE_KEYS = ordered("groups", "sensors", "elevation", "psychrometer", "max-age", "thi");
-    static final Set<String> HISTORY_KEYS = ordered("path", "keep-raw", "keep-minute", "keep-hour", "commit-every");
-    static final Set<String> ADMIN_KEYS = ordered("listen", "token-file");
-    static final Set<String> PAGE_KEYS = ordered("listen", "base-url", "link-key-file", "link-valid", "reading");
+    static final Set<String> SENSOR_KEYS = NodeReader.ordered("topic", "quantity", "unit", "payload", "time", "id-level", "max-ids");
+    static final Set<String> ZONE_KEYS = NodeReader.ordered("groups", "sensors", "elevation", "psychrometer", "max-age", "thi");
+    static final Set<String> HISTORY_KEYS = NodeReader.ordered("path", "keep-raw", "keep-minute", "keep-hour", "commit-every");
+    static final Set<String> ADMIN_KEYS = NodeReader.ordered("listen", "token-file");
+    static final Set<String> PAGE_KEYS = NodeReader.ordered("listen", "base-url", "link-key-file", "link-valid", "reading");
     /** Keys every channel has, whatever its kind. */
-    static final Set<String> CHANNEL_COMMON_KEYS = ordered("type", "rate-limit", "give-up");
+    static final Set<String> CHANNEL_COMMON_KEYS = NodeReader.ordered("type", "rate-limit", "give-up");
     static final List<String> THI_VARIANTS = java.util.Arrays.stream(byre.climate.ThiVariant.values()).map(byre.climate.ThiVariant::id).toList();
 
     private final String fileName;
-    private final Path baseDir;
     private final Function<String, String> environment;
     private final List<ChannelType<?>> channelTypes;
-    private final List<ConfigProblem> problems = new ArrayList<>();
+    private final NodeReader r;
 
     private ConfigLoader(String fileName, Path baseDir, Function<String, String> environment, List<? extends ChannelType<?>> channelTypes) {
         this.fileName = fileName;
-        this.baseDir = baseDir;
+        this.r = new NodeReader(fileName, baseDir);
         this.environment = environment;
         this.channelTypes = List.copyOf(channelTypes);
     }
@@ -80,7 +76,7 @@ public final class ConfigLoader {
             throw new ConfigException(List.of(new ConfigProblem(file.toString(), 0, "cannot read the configuration: " + e.getMessage())));
         } catch (IOException e) {
             throw new ConfigException(List.of(new ConfigProblem(file.toString(), 0,
-                    "cannot read the configuration: " + describe(e))));
+                    "cannot read the configuration: " + SmallFile.describe(e))));
         }
         Path dir = file.toAbsolutePath().getParent();
         return parse(file.toString(), text, dir, System::getenv, channelTypes);
@@ -110,25 +106,25 @@ public final class ConfigLoader {
             throw new ConfigException(List.of(new ConfigProblem(fileName, 0, "not valid YAML: " + e.getMessage())));
         }
         if (!(root instanceof MappingNode top)) {
-            throw new ConfigException(List.of(new ConfigProblem(fileName, root == null ? 0 : line(root),
+            throw new ConfigException(List.of(new ConfigProblem(fileName, root == null ? 0 : NodeReader.line(root),
                     "the configuration must be a mapping of keys such as site:, mqtt:, sensors:, zones:")));
         }
-        Map<String, Node> keys = mapping(top, TOP_KEYS, "top level");
+        Map<String, Node> keys = r.mapping(top, TOP_KEYS, "top level");
 
-        String site = string(keys.get("site"), "site", null);
+        String site = r.string(keys.get("site"), "site", null);
         if (site == null) {
-            problem(top, "missing 'site:' (a short id used in topics and messages, e.g. site: larkmoor)");
+            r.problem(top, "missing 'site:' (a short id used in topics and messages, e.g. site: larkmoor)");
             site = "site";
         } else if (!site.matches("[A-Za-z0-9][A-Za-z0-9_.-]*")) {
-            problem(keys.get("site"), "site '" + site + "' must be letters, digits, '-', '_' or '.' (it becomes an MQTT topic level)");
+            r.problem(keys.get("site"), "site '" + site + "' must be letters, digits, '-', '_' or '.' (it becomes an MQTT topic level)");
         }
         ZoneId tz = timezone(keys.get("timezone"));
         ByreConfig.DisplayUnits units = ByreConfig.DisplayUnits.METRIC;
-        String u = string(keys.get("units"), "units", "metric");
+        String u = r.string(keys.get("units"), "units", "metric");
         if ("us".equals(u)) {
             units = ByreConfig.DisplayUnits.US;
         } else if (!"metric".equals(u)) {
-            problem(keys.get("units"), "units must be 'metric' or 'us', not '" + u + "'");
+            r.problem(keys.get("units"), "units must be 'metric' or 'us', not '" + u + "'");
         }
         MqttSettings mqtt = mqtt(keys.get("mqtt"), site);
         Map<String, SensorConfig> sensors = sensors(keys.get("sensors"));
@@ -141,7 +137,7 @@ public final class ConfigLoader {
         PageSettings page = page(keys.get("page"));
         CentralSettings central = central(keys.get("central"), site, mqtt, sensors, zones);
 
-        if (!problems.isEmpty()) throw new ConfigException(problems);
+        if (!r.problems().isEmpty()) throw new ConfigException(r.problems());
         return new ByreConfig(Path.of(fileName), site, tz, units, mqtt, sensors, zones, channels, rules, history, admin, alerts, page,
                 central);
     }
@@ -149,150 +145,150 @@ public final class ConfigLoader {
     // ---- sections ----
 
     private ZoneId timezone(Node node) {
-        String text = string(node, "timezone", null);
+        String text = r.string(node, "timezone", null);
         if (text == null) return ZoneId.systemDefault();
         try {
             return ZoneId.of(text);
         } catch (DateTimeException e) {
-            problem(node, "unknown time zone '" + text + "'" + Suggest.hint(text, ZoneId.getAvailableZoneIds())
+            r.problem(node, "unknown time zone '" + text + "'" + Suggest.hint(text, ZoneId.getAvailableZoneIds())
                     + "; use a region name such as Europe/London");
             return ZoneId.systemDefault();
         }
     }
 
     private MqttSettings mqtt(Node node, String site) {
-        Map<String, Node> m = node == null ? Map.of() : mapping(node, MQTT_KEYS, "mqtt");
-        String broker = string(m.get("broker"), "mqtt.broker", "embedded");
+        Map<String, Node> m = node == null ? Map.of() : r.mapping(node, MQTT_KEYS, "mqtt");
+        String broker = r.string(m.get("broker"), "mqtt.broker", "embedded");
         if (!broker.equals("embedded") && !broker.matches("(tcp|ssl)://[^\\s/:]+(:\\d+)?")) {
-            problem(m.get("broker"), "mqtt.broker must be 'embedded', tcp://host:port or ssl://host:port, not '" + broker + "'");
+            r.problem(m.get("broker"), "mqtt.broker must be 'embedded', tcp://host:port or ssl://host:port, not '" + broker + "'");
         }
-        String listen = string(m.get("listen"), "mqtt.listen", "127.0.0.1:1883");
-        String[] hp = hostPort(m.get("listen"), "mqtt.listen", listen);
-        if (broker.equals("embedded") && !byre.mqtt.EmbeddedBroker.isLoopback(hp[0])) {
-            problem(m.get("listen") != null ? m.get("listen") : m.get("broker"), "mqtt.listen '" + listen + "': the embedded broker "
+        String listen = r.string(m.get("listen"), "mqtt.listen", "127.0.0.1:1883");
+        NodeReader.HostPort hp = r.hostPort(m.get("listen"), "mqtt.listen", listen);
+        if (broker.equals("embedded") && !byre.mqtt.EmbeddedBroker.isLoopback(hp.host())) {
+            r.problem(m.get("listen") != null ? m.get("listen") : m.get("broker"), "mqtt.listen '" + listen + "': the embedded broker "
                     + "listens on loopback only (127.0.0.1 or ::1); it has no users and is for the demo, tests and one-machine "
                     + "trials. For sensors on the farm network use the barn's mosquitto (mqtt.broker: tcp://127.0.0.1:1883)");
         }
-        String clientId = string(m.get("client-id"), "mqtt.client-id", "byre-" + site);
-        String username = string(m.get("username"), "mqtt.username", null);
-        Secret password = secretFile(m.get("password-file"), "mqtt.password-file");
-        String passwordEnv = string(m.get("password-env"), "mqtt.password-env", null);
+        String clientId = r.string(m.get("client-id"), "mqtt.client-id", "byre-" + site);
+        String username = r.string(m.get("username"), "mqtt.username", null);
+        Secret password = r.secretFile(m.get("password-file"), "mqtt.password-file");
+        String passwordEnv = r.string(m.get("password-env"), "mqtt.password-env", null);
         if (password == null && passwordEnv != null) {
             String v = environment.apply(passwordEnv);
             if (v == null) {
-                problem(m.get("password-env"), "mqtt.password-env names $" + passwordEnv + ", which is not set");
+                r.problem(m.get("password-env"), "mqtt.password-env names $" + passwordEnv + ", which is not set");
             } else {
                 password = new Secret(v, "$" + passwordEnv);
             }
         }
-        String prefix = string(m.get("publish-prefix"), "mqtt.publish-prefix", "byre");
+        String prefix = r.string(m.get("publish-prefix"), "mqtt.publish-prefix", "byre");
         if (prefix.contains("+") || prefix.contains("#")) {
-            problem(m.get("publish-prefix"), "mqtt.publish-prefix may not contain MQTT wildcards");
+            r.problem(m.get("publish-prefix"), "mqtt.publish-prefix may not contain MQTT wildcards");
         }
-        int qos = integer(m.get("qos"), "mqtt.qos", 1);
-        if (qos != 0 && qos != 1) problem(m.get("qos"), "mqtt.qos must be 0 or 1 (1 keeps readings across restarts)");
-        String caFile = string(m.get("ca-file"), "mqtt.ca-file", null);
+        int qos = r.integer(m.get("qos"), "mqtt.qos", 1);
+        if (qos != 0 && qos != 1) r.problem(m.get("qos"), "mqtt.qos must be 0 or 1 (1 keeps readings across restarts)");
+        String caFile = r.string(m.get("ca-file"), "mqtt.ca-file", null);
         if (caFile != null) {
-            Path p = resolve(caFile);
+            Path p = r.resolve(caFile);
             try {
                 SmallFile.regular(p);
-                if (!Files.isReadable(p)) problem(m.get("ca-file"), "mqtt.ca-file " + p + " cannot be read");
+                if (!Files.isReadable(p)) r.problem(m.get("ca-file"), "mqtt.ca-file " + p + " cannot be read");
             } catch (SmallFile.Refused e) {
-                problem(m.get("ca-file"), "mqtt.ca-file: " + e.getMessage());
+                r.problem(m.get("ca-file"), "mqtt.ca-file: " + e.getMessage());
             } catch (IOException e) {
-                problem(m.get("ca-file"), "mqtt.ca-file " + p + " cannot be read (" + describe(e) + ")");
+                r.problem(m.get("ca-file"), "mqtt.ca-file " + p + " cannot be read (" + SmallFile.describe(e) + ")");
             }
             caFile = p.toString();
         }
-        boolean events = bool(m.get("publish-events"), "mqtt.publish-events", true);
-        Duration every = duration(m.get("publish-every"), "mqtt.publish-every", MqttSettings.DEFAULT_PUBLISH_EVERY);
-        boolean acceptAcks = bool(m.get("accept-acks"), "mqtt.accept-acks", false);
-        return new MqttSettings(broker, hp[0], Integer.parseInt(hp[1]), clientId, username, password, prefix, qos, caFile,
+        boolean events = r.bool(m.get("publish-events"), "mqtt.publish-events", true);
+        Duration every = r.duration(m.get("publish-every"), "mqtt.publish-every", MqttSettings.DEFAULT_PUBLISH_EVERY);
+        boolean acceptAcks = r.bool(m.get("accept-acks"), "mqtt.accept-acks", false);
+        return new MqttSettings(broker, hp.host(), hp.port(), clientId, username, password, prefix, qos, caFile,
                 events, every, acceptAcks);
     }
 
     private Map<String, SensorConfig> sensors(Node node) {
         Map<String, SensorConfig> out = new LinkedHashMap<>();
         if (node == null) return out;
-        Map<String, Node> entries = mapping(node, null, "sensors");
+        Map<String, Node> entries = r.mapping(node, null, "sensors");
         Map<String, String> topicOwner = new HashMap<>();
         for (Map.Entry<String, Node> e : entries.entrySet()) {
             String id = e.getKey();
             Node n = e.getValue();
             if (!id.matches("[A-Za-z0-9][A-Za-z0-9_.-]*")) {
-                problem(n, "sensor id '" + id + "' must be letters, digits, '-', '_' or '.'");
+                r.problem(n, "sensor id '" + id + "' must be letters, digits, '-', '_' or '.'");
             }
-            Map<String, Node> f = mapping(n, SENSOR_KEYS, "sensor " + id);
-            String topic = string(f.get("topic"), "topic", null);
+            Map<String, Node> f = r.mapping(n, SENSOR_KEYS, "sensor " + id);
+            String topic = r.string(f.get("topic"), "topic", null);
             if (topic == null) {
-                problem(n, "sensor " + id + " has no topic");
+                r.problem(n, "sensor " + id + " has no topic");
                 continue;
             }
             String clash = topicOwner.putIfAbsent(topic, id);
-            if (clash != null) problem(f.get("topic"), "duplicate topic '" + topic + "': already used by sensor " + clash);
-            String qText = string(f.get("quantity"), "quantity", null);
+            if (clash != null) r.problem(f.get("topic"), "duplicate topic '" + topic + "': already used by sensor " + clash);
+            String qText = r.string(f.get("quantity"), "quantity", null);
             Quantity q = null;
             if (qText == null) {
-                problem(n, "sensor " + id + " has no quantity (one of " + String.join(", ", measurableIds()) + ")");
+                r.problem(n, "sensor " + id + " has no quantity (one of " + String.join(", ", measurableIds()) + ")");
             } else {
                 q = Quantity.byId(qText).filter(Quantity::measurable).orElse(null);
                 if (q == null) {
-                    problem(f.get("quantity"), "unknown quantity '" + qText + "'" + Suggest.hint(qText, measurableIds())
+                    r.problem(f.get("quantity"), "unknown quantity '" + qText + "'" + Suggest.hint(qText, measurableIds())
                             + "; a sensor measures one of " + String.join(", ", measurableIds()));
                 }
             }
             Unit unit = q == null ? null : q.canonicalUnit();
-            String uText = string(f.get("unit"), "unit", null);
+            String uText = r.string(f.get("unit"), "unit", null);
             if (uText != null) {
                 Optional<Unit> parsed = Unit.bySymbol(uText);
                 if (parsed.isEmpty()) {
-                    problem(f.get("unit"), "unknown unit '" + uText + "'" + Suggest.hint(uText, Unit.symbols())
+                    r.problem(f.get("unit"), "unknown unit '" + uText + "'" + Suggest.hint(uText, Unit.symbols())
                             + "; known units: " + String.join(" ", Unit.symbols()));
                 } else if (q != null && parsed.get().dimension() != q.dimension()) {
-                    problem(f.get("unit"), "unit '" + uText + "' does not measure " + q.id() + " (use one of "
+                    r.problem(f.get("unit"), "unit '" + uText + "' does not measure " + q.id() + " (use one of "
                             + String.join(" ", unitsOf(q.dimension())) + ")");
                 } else {
                     unit = parsed.get();
                 }
             }
             PayloadFormat payload = payload(f.get("payload"));
-            String time = string(f.get("time"), "time", null);
+            String time = r.string(f.get("time"), "time", null);
             String timePath = null;
             if (time != null) {
                 if (time.startsWith("json:") && time.length() > 5 && payload.kind() == PayloadFormat.Kind.JSON) {
                     timePath = time.substring(5);
                 } else {
-                    problem(f.get("time"), "time must be json:<path> and needs a json: payload (SenML carries its own time)");
+                    r.problem(f.get("time"), "time must be json:<path> and needs a json: payload (SenML carries its own time)");
                 }
             }
-            int idLevel = integer(f.get("id-level"), "id-level", 0);
+            int idLevel = r.integer(f.get("id-level"), "id-level", 0);
             boolean family = topic.contains("+") || topic.contains("#");
             if (!validTopicFilter(topic)) {
-                problem(f.get("topic"), "topic '" + topic + "' is not a valid MQTT topic filter ('+' and '#' must fill a whole level, '#' only last)");
+                r.problem(f.get("topic"), "topic '" + topic + "' is not a valid MQTT topic filter ('+' and '#' must fill a whole level, '#' only last)");
             } else if (family && idLevel <= 0) {
-                problem(f.get("topic"), "topic '" + topic + "' has wildcards: add id-level: N (the topic level, from 1, that names each sensor)");
+                r.problem(f.get("topic"), "topic '" + topic + "' has wildcards: add id-level: N (the topic level, from 1, that names each sensor)");
             } else if (idLevel > 0 && idLevel > topic.split("/", -1).length && !topic.endsWith("#")) {
-                problem(f.get("id-level"), "id-level " + idLevel + " is beyond the " + topic.split("/", -1).length + " levels of '" + topic + "'");
+                r.problem(f.get("id-level"), "id-level " + idLevel + " is beyond the " + topic.split("/", -1).length + " levels of '" + topic + "'");
             }
-            int maxIds = integer(f.get("max-ids"), "max-ids", SensorConfig.DEFAULT_MAX_IDS);
+            int maxIds = r.integer(f.get("max-ids"), "max-ids", SensorConfig.DEFAULT_MAX_IDS);
             if (f.get("max-ids") != null && !family) {
-                problem(f.get("max-ids"), "max-ids applies only to a topic with wildcards (a family of sensors)");
+                r.problem(f.get("max-ids"), "max-ids applies only to a topic with wildcards (a family of sensors)");
             } else if (maxIds < 1 || maxIds > SensorConfig.MAX_IDS_LIMIT) {
-                problem(f.get("max-ids"), "max-ids must be 1.." + SensorConfig.MAX_IDS_LIMIT + ", not " + maxIds);
+                r.problem(f.get("max-ids"), "max-ids must be 1.." + SensorConfig.MAX_IDS_LIMIT + ", not " + maxIds);
             }
             if (q != null && unit != null) {
-                out.put(id, new SensorConfig(id, topic, q, unit, payload, timePath, idLevel, line(n), maxIds));
+                out.put(id, new SensorConfig(id, topic, q, unit, payload, timePath, idLevel, NodeReader.line(n), maxIds));
             }
         }
         return out;
     }
 
     private PayloadFormat payload(Node node) {
-        String text = string(node, "payload", "number");
+        String text = r.string(node, "payload", "number");
         if (text.equals("number")) return PayloadFormat.NUMBER;
         if (text.startsWith("json:") && text.length() > 5) return new PayloadFormat(PayloadFormat.Kind.JSON, text.substring(5));
         if (text.startsWith("senml:") && text.length() > 6) return new PayloadFormat(PayloadFormat.Kind.SENML, text.substring(6));
-        problem(node, "payload must be number, json:<dotted.path> or senml:<name>, not '" + text + "'");
+        r.problem(node, "payload must be number, json:<dotted.path> or senml:<name>, not '" + text + "'");
         return PayloadFormat.NUMBER;
     }
 
@@ -300,47 +296,47 @@ public final class ConfigLoader {
         Map<String, ZoneConfig> out = new LinkedHashMap<>();
         if (node == null) return out;
         Map<String, String> sensorOwner = new HashMap<>();
-        for (Map.Entry<String, Node> e : mapping(node, null, "zones").entrySet()) {
+        for (Map.Entry<String, Node> e : r.mapping(node, null, "zones").entrySet()) {
             String id = e.getKey();
             Node n = e.getValue();
-            if (!id.matches("[A-Za-z0-9][A-Za-z0-9_.-]*")) problem(n, "zone id '" + id + "' must be letters, digits, '-', '_' or '.'");
-            Map<String, Node> f = mapping(n, ZONE_KEYS, "zone " + id);
-            List<String> groups = stringList(f.get("groups"), "groups");
-            List<String> zs = stringList(f.get("sensors"), "sensors");
-            if (zs.isEmpty()) problem(n, "zone " + id + " lists no sensors");
+            if (!id.matches("[A-Za-z0-9][A-Za-z0-9_.-]*")) r.problem(n, "zone id '" + id + "' must be letters, digits, '-', '_' or '.'");
+            Map<String, Node> f = r.mapping(n, ZONE_KEYS, "zone " + id);
+            List<String> groups = r.stringList(f.get("groups"), "groups");
+            List<String> zs = r.stringList(f.get("sensors"), "sensors");
+            if (zs.isEmpty()) r.problem(n, "zone " + id + " lists no sensors");
             for (String s : zs) {
                 if (!sensors.containsKey(s) && !isFamilyMember(s, sensors)) {
-                    problem(f.get("sensors"), "zone " + id + " names unknown sensor '" + s + "'" + Suggest.hint(s, sensors.keySet()));
+                    r.problem(f.get("sensors"), "zone " + id + " names unknown sensor '" + s + "'" + Suggest.hint(s, sensors.keySet()));
                 }
                 String other = sensorOwner.putIfAbsent(s, id);
-                if (other != null) problem(f.get("sensors"), "sensor " + s + " is already in zone " + other + "; a sensor belongs to one zone");
+                if (other != null) r.problem(f.get("sensors"), "sensor " + s + " is already in zone " + other + "; a sensor belongs to one zone");
             }
             double elevationM = Double.NaN;
             Node el = f.get("elevation");
             if (el != null) {
-                String t = string(el, "elevation", "");
+                String t = r.string(el, "elevation", "");
                 java.util.regex.Matcher m = java.util.regex.Pattern.compile("\\s*(-?\\d+(?:\\.\\d+)?)\\s*(m|ft)?\\s*").matcher(t);
                 if (m.matches()) {
                     elevationM = Double.parseDouble(m.group(1)) * ("ft".equals(m.group(2)) ? 0.3048 : 1.0);
-                    if (elevationM < -500 || elevationM > 6000) problem(el, "elevation " + t + " is outside -500..6000 m");
+                    if (elevationM < -500 || elevationM > 6000) r.problem(el, "elevation " + t + " is outside -500..6000 m");
                 } else {
-                    problem(el, "elevation must be a height such as '240 m' or '790 ft', not '" + t + "'");
+                    r.problem(el, "elevation must be a height such as '240 m' or '790 ft', not '" + t + "'");
                 }
             }
-            String ps = string(f.get("psychrometer"), "psychrometer", "aspirated");
+            String ps = r.string(f.get("psychrometer"), "psychrometer", "aspirated");
             ZoneConfig.Psychrometer psychrometer = ZoneConfig.Psychrometer.ASPIRATED;
             if (ps.equals("screen")) {
                 psychrometer = ZoneConfig.Psychrometer.SCREEN;
             } else if (!ps.equals("aspirated")) {
-                problem(f.get("psychrometer"), "psychrometer must be 'aspirated' or 'screen', not '" + ps + "'" + Suggest.hint(ps, List.of("aspirated", "screen")));
+                r.problem(f.get("psychrometer"), "psychrometer must be 'aspirated' or 'screen', not '" + ps + "'" + Suggest.hint(ps, List.of("aspirated", "screen")));
             }
             // Without max-age the zone's max-age follows how often its sensors report (byre.daemon.Freshness).
-            Duration maxAge = duration(f.get("max-age"), "max-age", ZoneConfig.UNLEARNT_MAX_AGE);
-            String thi = string(f.get("thi"), "thi", "nrc-1971");
+            Duration maxAge = r.duration(f.get("max-age"), "max-age", ZoneConfig.UNLEARNT_MAX_AGE);
+            String thi = r.string(f.get("thi"), "thi", "nrc-1971");
             if (!THI_VARIANTS.contains(thi)) {
-                problem(f.get("thi"), "unknown THI variant '" + thi + "'" + Suggest.hint(thi, THI_VARIANTS) + "; one of " + String.join(", ", THI_VARIANTS));
+                r.problem(f.get("thi"), "unknown THI variant '" + thi + "'" + Suggest.hint(thi, THI_VARIANTS) + "; one of " + String.join(", ", THI_VARIANTS));
             }
-            out.put(id, new ZoneConfig(id, groups, zs, elevationM, psychrometer, maxAge, thi, line(n), f.get("max-age") == null));
+            out.put(id, new ZoneConfig(id, groups, zs, elevationM, psychrometer, maxAge, thi, NodeReader.line(n), f.get("max-age") == null));
         }
         return out;
     }
@@ -354,37 +350,37 @@ public final class ConfigLoader {
     private CentralSettings central(Node node, String ownSite, MqttSettings mqtt, Map<String, SensorConfig> sensors,
                                     Map<String, ZoneConfig> zones) {
         if (node == null) return CentralSettings.NONE;
-        Map<String, Node> c = mapping(node, CENTRAL_KEYS, "central");
+        Map<String, Node> c = r.mapping(node, CENTRAL_KEYS, "central");
         if (c.get("sites") == null) {
-            problem(node, "central: lists no sites (sites: { larkmoor: { zones: [cow-shed] } })");
+            r.problem(node, "central: lists no sites (sites: { larkmoor: { zones: [cow-shed] } })");
             return CentralSettings.NONE;
         }
         Map<String, CentralSettings.Site> sites = new LinkedHashMap<>();
-        for (Map.Entry<String, Node> e : mapping(c.get("sites"), null, "central.sites").entrySet()) {
+        for (Map.Entry<String, Node> e : r.mapping(c.get("sites"), null, "central.sites").entrySet()) {
             String id = e.getKey();
             Node n = e.getValue();
             if (!id.matches("[A-Za-z0-9][A-Za-z0-9_.-]*")) {
-                problem(n, "site id '" + id + "' must be letters, digits, '-', '_' or '.' (it is a topic level of that site)");
+                r.problem(n, "site id '" + id + "' must be letters, digits, '-', '_' or '.' (it is a topic level of that site)");
                 continue;
             }
-            if (id.equals(ownSite)) problem(n, "site '" + id + "' is this byre's own site: the centre needs a site id of its own");
-            if (zones.containsKey(id)) problem(n, "site '" + id + "' has the name of a zone of this configuration");
-            Map<String, Node> f = mapping(n, SITE_KEYS, "site " + id);
-            List<String> siteZones = stringList(f.get("zones"), "zones");
-            if (siteZones.isEmpty()) problem(n, "site " + id + " lists no zones (zones: [cow-shed, calf-pen-1])");
-            List<String> groups = stringList(f.get("groups"), "groups");
+            if (id.equals(ownSite)) r.problem(n, "site '" + id + "' is this byre's own site: the centre needs a site id of its own");
+            if (zones.containsKey(id)) r.problem(n, "site '" + id + "' has the name of a zone of this configuration");
+            Map<String, Node> f = r.mapping(n, SITE_KEYS, "site " + id);
+            List<String> siteZones = r.stringList(f.get("zones"), "zones");
+            if (siteZones.isEmpty()) r.problem(n, "site " + id + " lists no zones (zones: [cow-shed, calf-pen-1])");
+            List<String> groups = r.stringList(f.get("groups"), "groups");
             if (groups.contains(CentralSettings.SITES_GROUP)) {
-                problem(f.get("groups"), "group '" + CentralSettings.SITES_GROUP + "' is every site's own zone (its online stream); choose another name");
+                r.problem(f.get("groups"), "group '" + CentralSettings.SITES_GROUP + "' is every site's own zone (its online stream); choose another name");
             }
-            Duration maxAge = duration(f.get("max-age"), "max-age", Duration.ofMinutes(5));
+            Duration maxAge = r.duration(f.get("max-age"), "max-age", Duration.ofMinutes(5));
             for (String z : siteZones) {
                 if (!z.matches("[A-Za-z0-9][A-Za-z0-9_.-]*")) {
-                    problem(f.get("zones"), "zone id '" + z + "' must be letters, digits, '-', '_' or '.'");
+                    r.problem(f.get("zones"), "zone id '" + z + "' must be letters, digits, '-', '_' or '.'");
                     continue;
                 }
                 String zoneId = CentralSettings.zoneId(id, z);
                 if (zones.containsKey(zoneId)) {
-                    problem(f.get("zones"), "site " + id + " lists zone " + z + " twice");
+                    r.problem(f.get("zones"), "site " + id + " lists zone " + z + " twice");
                     continue;
                 }
                 List<String> zoneSensors = new ArrayList<>();
@@ -393,18 +389,18 @@ public final class ConfigLoader {
                     String sensorId = zoneId + "/" + q.id();
                     String topic = mqtt.publishPrefix() + "/" + id + "/zones/" + z + "/" + q.id();
                     sensors.put(sensorId, new SensorConfig(sensorId, topic, q, q.canonicalUnit(),
-                            new PayloadFormat(PayloadFormat.Kind.JSON, "value"), "at", 0, line(n)));
+                            new PayloadFormat(PayloadFormat.Kind.JSON, "value"), "at", 0, NodeReader.line(n)));
                     zoneSensors.add(sensorId);
                 }
                 zones.put(zoneId, new ZoneConfig(zoneId, groups, zoneSensors, Double.NaN, ZoneConfig.Psychrometer.ASPIRATED, maxAge,
-                        "nrc-1971", line(n)));
+                        "nrc-1971", NodeReader.line(n)));
             }
             String online = CentralSettings.onlineSensor(id);
             sensors.put(online, new SensorConfig(online, mqtt.publishPrefix() + "/" + id + "/status", Quantity.ONLINE,
-                    Quantity.ONLINE.canonicalUnit(), PayloadFormat.NUMBER, null, 0, line(n)));
+                    Quantity.ONLINE.canonicalUnit(), PayloadFormat.NUMBER, null, 0, NodeReader.line(n)));
             zones.put(id, new ZoneConfig(id, List.of(CentralSettings.SITES_GROUP), List.of(online), Double.NaN,
-                    ZoneConfig.Psychrometer.ASPIRATED, maxAge, "nrc-1971", line(n)));
-            sites.put(id, new CentralSettings.Site(id, siteZones, groups, maxAge, line(n)));
+                    ZoneConfig.Psychrometer.ASPIRATED, maxAge, "nrc-1971", NodeReader.line(n)));
+            sites.put(id, new CentralSettings.Site(id, siteZones, groups, maxAge, NodeReader.line(n)));
         }
         return new CentralSettings(sites);
     }
@@ -419,31 +415,31 @@ public final class ConfigLoader {
     private Map<String, ChannelConfig> channels(Node node) {
         Map<String, ChannelConfig> out = new LinkedHashMap<>();
         if (node == null) return out;
-        for (Map.Entry<String, Node> e : mapping(node, null, "notify").entrySet()) {
+        for (Map.Entry<String, Node> e : r.mapping(node, null, "notify").entrySet()) {
             String name = e.getKey();
             Node n = e.getValue();
             if (name.contains("/")) {
                 // names with '/' are the site's own event stream (<prefix>/<site>/events)
-                problem(n, "channel name '" + name + "' may not contain '/'");
+                r.problem(n, "channel name '" + name + "' may not contain '/'");
                 continue;
             }
             if (!(n instanceof MappingNode mn)) {
-                problem(n, "channel " + name + " must be a mapping such as { type: webhook, url: ... }");
+                r.problem(n, "channel " + name + " must be a mapping such as { type: webhook, url: ... }");
                 continue;
             }
-            Map<String, Node> raw = mapping(mn, null, "channel " + name);
-            String type = string(raw.get("type"), "type", null);
+            Map<String, Node> raw = r.mapping(mn, null, "channel " + name);
+            String type = r.string(raw.get("type"), "type", null);
             List<String> ids = channelTypes.stream().map(ChannelType::id).toList();
             if (type == null) {
-                problem(n, "channel " + name + " has no type (one of " + String.join(", ", ids.stream().sorted().toList()) + ")");
+                r.problem(n, "channel " + name + " has no type (one of " + String.join(", ", ids.stream().sorted().toList()) + ")");
                 continue;
             }
             ChannelType<?> kind = channelTypes.stream().filter(k -> k.id().equals(type)).findFirst().orElse(null);
             if (kind == null) {
-                problem(raw.get("type"), "unknown channel type '" + type + "'" + Suggest.hint(type, ids) + "; one of " + String.join(", ", ids));
+                r.problem(raw.get("type"), "unknown channel type '" + type + "'" + Suggest.hint(type, ids) + "; one of " + String.join(", ", ids));
                 continue;
             }
-            Set<String> allowed = ordered("type");
+            Set<String> allowed = NodeReader.ordered("type");
             allowed.addAll(kind.keys());
             allowed.addAll(CHANNEL_COMMON_KEYS);
             Map<String, Node> known = new LinkedHashMap<>();
@@ -451,18 +447,17 @@ public final class ConfigLoader {
                 if (allowed.contains(f.getKey())) {
                     known.put(f.getKey(), f.getValue());
                 } else {
-                    problem(keyNodes.getOrDefault(f.getValue(), f.getValue()), "unknown key '" + f.getKey() + "' in " + type + " channel " + name
-                            + Suggest.hint(f.getKey(), allowed));
+                    r.unknownKey(r.keyOf(f.getValue()), f.getKey(), type + " channel " + name, allowed);
                 }
             }
             for (String req : kind.required()) {
-                if (!raw.containsKey(req)) problem(n, type + " channel " + name + " is missing '" + req + "'");
+                if (!raw.containsKey(req)) r.problem(n, type + " channel " + name + " is missing '" + req + "'");
             }
-            int rate = integer(known.get("rate-limit"), name + ".rate-limit", ChannelConfig.DEFAULT_RATE_LIMIT);
-            if (rate < 1) problem(known.get("rate-limit"), name + ".rate-limit must be at least 1 (messages per 10 minutes)");
-            Duration giveUp = duration(known.get("give-up"), name + ".give-up", ChannelConfig.DEFAULT_GIVE_UP);
-            Object settings = kind.read(new ChannelFields(this, name, n, known));
-            out.put(name, new ChannelConfig(name, kind, settings, Math.max(1, rate), giveUp, line(n)));
+            int rate = r.integer(known.get("rate-limit"), name + ".rate-limit", ChannelConfig.DEFAULT_RATE_LIMIT);
+            if (rate < 1) r.problem(known.get("rate-limit"), name + ".rate-limit must be at least 1 (messages per 10 minutes)");
+            Duration giveUp = r.duration(known.get("give-up"), name + ".give-up", ChannelConfig.DEFAULT_GIVE_UP);
+            Object settings = kind.read(new ChannelFields(r, name, n, known));
+            out.put(name, new ChannelConfig(name, kind, settings, Math.max(1, rate), giveUp, NodeReader.line(n)));
         }
         return out;
     }
@@ -471,26 +466,26 @@ public final class ConfigLoader {
         java.time.LocalTime at = null;
         List<String> digestNotify = List.of();
         if (digest != null) {
-            Map<String, Node> d = mapping(digest, DIGEST_KEYS, "digest");
-            String t = string(d.get("at"), "digest.at", null);
+            Map<String, Node> d = r.mapping(digest, DIGEST_KEYS, "digest");
+            String t = r.string(d.get("at"), "digest.at", null);
             if (t == null) {
-                problem(digest, "digest needs 'at' (a time of day in the site time zone, e.g. at: \"07:00\")");
+                r.problem(digest, "digest needs 'at' (a time of day in the site time zone, e.g. at: \"07:00\")");
             } else {
                 try {
                     at = java.time.LocalTime.parse(t.strip().length() == 4 ? "0" + t.strip() : t.strip());
                 } catch (java.time.format.DateTimeParseException e) {
-                    problem(d.get("at"), "digest.at must be a time of day HH:MM such as 07:00, not '" + t + "'");
+                    r.problem(d.get("at"), "digest.at must be a time of day HH:MM such as 07:00, not '" + t + "'");
                 }
             }
             digestNotify = channelList(d.get("notify"), "digest.notify", channels);
-            if (digestNotify.isEmpty() && !d.containsKey("notify")) problem(digest, "digest needs 'notify' (the channels that get it)");
+            if (digestNotify.isEmpty() && !d.containsKey("notify")) r.problem(digest, "digest needs 'notify' (the channels that get it)");
         }
         List<String> selfNotify = List.of();
         Duration failingAfter = AlertSettings.DEFAULT_CHANNEL_FAILING_AFTER;
         if (self != null) {
-            Map<String, Node> m = mapping(self, SELF_ALERT_KEYS, "self-alerts");
+            Map<String, Node> m = r.mapping(self, SELF_ALERT_KEYS, "self-alerts");
             selfNotify = channelList(m.get("notify"), "self-alerts.notify", channels);
-            failingAfter = duration(m.get("channel-failing-after"), "self-alerts.channel-failing-after", failingAfter);
+            failingAfter = r.duration(m.get("channel-failing-after"), "self-alerts.channel-failing-after", failingAfter);
         } else {
             selfNotify = new ArrayList<>(channels.keySet()); // by default byre's own trouble goes everywhere
         }
@@ -498,9 +493,9 @@ public final class ConfigLoader {
     }
 
     private List<String> channelList(Node node, String what, Map<String, ChannelConfig> channels) {
-        List<String> out = stringList(node, what);
+        List<String> out = r.stringList(node, what);
         for (String c : out) {
-            if (!channels.containsKey(c)) problem(node, what + " names unknown channel '" + c + "'" + Suggest.hint(c, channels.keySet()));
+            if (!channels.containsKey(c)) r.problem(node, what + " names unknown channel '" + c + "'" + Suggest.hint(c, channels.keySet()));
         }
         return out;
     }
@@ -509,26 +504,26 @@ public final class ConfigLoader {
         List<Path> out = new ArrayList<>();
         if (node == null) return out;
         if (node instanceof SequenceNode) {
-            for (String s : stringList(node, "rules")) out.add(resolve(s));
+            for (String s : r.stringList(node, "rules")) out.add(r.resolve(s));
         } else {
-            String s = string(node, "rules", null);
-            if (s != null) out.add(resolve(s));
+            String s = r.string(node, "rules", null);
+            if (s != null) out.add(r.resolve(s));
         }
         return out;
     }
 
     private HistorySettings history(Node node) {
-        Map<String, Node> m = node == null ? Map.of() : mapping(node, HISTORY_KEYS, "history");
-        Path path = resolve(string(m.get("path"), "history.path", "/var/lib/byre/history.db"));
+        Map<String, Node> m = node == null ? Map.of() : r.mapping(node, HISTORY_KEYS, "history");
+        Path path = r.resolve(r.string(m.get("path"), "history.path", "/var/lib/byre/history.db"));
         historyPath(m.get("path"), path);
-        Duration raw = duration(m.get("keep-raw"), "history.keep-raw", Duration.ofDays(14));
-        Duration minute = duration(m.get("keep-minute"), "history.keep-minute", Duration.ofDays(90));
-        Duration hour = duration(m.get("keep-hour"), "history.keep-hour", Duration.ofDays(5 * 365 + 1));
-        if (raw.compareTo(minute) > 0) problem(m.get("keep-raw"), "history.keep-raw must not be longer than keep-minute");
-        if (minute.compareTo(hour) > 0) problem(m.get("keep-minute"), "history.keep-minute must not be longer than keep-hour");
-        Duration commitEvery = duration(m.get("commit-every"), "history.commit-every", HistorySettings.DEFAULT_COMMIT_EVERY);
+        Duration raw = r.duration(m.get("keep-raw"), "history.keep-raw", Duration.ofDays(14));
+        Duration minute = r.duration(m.get("keep-minute"), "history.keep-minute", Duration.ofDays(90));
+        Duration hour = r.duration(m.get("keep-hour"), "history.keep-hour", Duration.ofDays(5 * 365 + 1));
+        if (raw.compareTo(minute) > 0) r.problem(m.get("keep-raw"), "history.keep-raw must not be longer than keep-minute");
+        if (minute.compareTo(hour) > 0) r.problem(m.get("keep-minute"), "history.keep-minute must not be longer than keep-hour");
+        Duration commitEvery = r.duration(m.get("commit-every"), "history.commit-every", HistorySettings.DEFAULT_COMMIT_EVERY);
         if (commitEvery.compareTo(Duration.ofMinutes(1)) > 0) {
-            problem(m.get("commit-every"), "history.commit-every must be at most 1m: readings not yet committed are held only by the broker,"
+            r.problem(m.get("commit-every"), "history.commit-every must be at most 1m: readings not yet committed are held only by the broker,"
                 + " whose in-flight window and queue must hold that many");
         }
         return new HistorySettings(path, raw, minute, hour, commitEvery);
@@ -541,29 +536,29 @@ public final class ConfigLoader {
      */
     private void historyPath(Node node, Path path) {
         if (Files.isDirectory(path)) {
-            problem(node, "history.path " + path + " is a folder; give a file in it, such as " + path.resolve("history.db"));
+            r.problem(node, "history.path " + path + " is a folder; give a file in it, such as " + path.resolve("history.db"));
         } else if (Files.exists(path) && !Files.isRegularFile(path)) {
-            problem(node, "history.path " + path + " is not a regular file (a device, FIFO or socket); give a database file such as /var/lib/byre/history.db");
+            r.problem(node, "history.path " + path + " is not a regular file (a device, FIFO or socket); give a database file such as /var/lib/byre/history.db");
         } else {
             for (Path dir = path.toAbsolutePath().getParent(); dir != null; dir = dir.getParent()) {
                 if (!Files.exists(dir)) continue; // created at start
-                if (!Files.isDirectory(dir)) problem(node, "history.path " + path + ": " + dir + " is not a folder");
+                if (!Files.isDirectory(dir)) r.problem(node, "history.path " + path + ": " + dir + " is not a folder");
                 break;
             }
         }
     }
 
     private AdminSettings admin(Node node) {
-        Map<String, Node> m = node == null ? Map.of() : mapping(node, ADMIN_KEYS, "admin");
-        String listen = string(m.get("listen"), "admin.listen", "127.0.0.1:9466");
-        String[] hp = hostPort(m.get("listen"), "admin.listen", listen);
-        String tokenFile = string(m.get("token-file"), "admin.token-file", null);
+        Map<String, Node> m = node == null ? Map.of() : r.mapping(node, ADMIN_KEYS, "admin");
+        String listen = r.string(m.get("listen"), "admin.listen", "127.0.0.1:9466");
+        NodeReader.HostPort hp = r.hostPort(m.get("listen"), "admin.listen", listen);
+        String tokenFile = r.string(m.get("token-file"), "admin.token-file", null);
         Secret token = null;
         String tokenProblem = null;
         if (tokenFile != null) {
-            Path p = resolve(tokenFile);
+            Path p = r.resolve(tokenFile);
             try {
-                String v = readSecret(p);
+                String v = SmallFile.secret(p);
                 if (v.isEmpty()) {
                     tokenProblem = "admin.token-file " + p + " is empty";
                 } else {
@@ -572,191 +567,38 @@ public final class ConfigLoader {
             } catch (SmallFile.Refused e) {
                 tokenProblem = "admin.token-file: " + e.getMessage();
             } catch (IOException e) {
-                tokenProblem = "admin.token-file: cannot read " + p + " (" + describe(e) + ")";
+                tokenProblem = "admin.token-file: cannot read " + p + " (" + SmallFile.describe(e) + ")";
             }
         }
-        return new AdminSettings(hp[0], Integer.parseInt(hp[1]), token, tokenProblem);
+        return new AdminSettings(hp.host(), hp.port(), token, tokenProblem);
     }
 
     private PageSettings page(Node node) {
-        Map<String, Node> m = node == null ? Map.of() : mapping(node, PAGE_KEYS, "page");
-        String listen = string(m.get("listen"), "page.listen", "127.0.0.1:0");
-        String[] hp = hostPort(m.get("listen"), "page.listen", listen);
-        String baseUrl = string(m.get("base-url"), "page.base-url", null);
+        Map<String, Node> m = node == null ? Map.of() : r.mapping(node, PAGE_KEYS, "page");
+        String listen = r.string(m.get("listen"), "page.listen", "127.0.0.1:0");
+        NodeReader.HostPort hp = r.hostPort(m.get("listen"), "page.listen", listen);
+        String baseUrl = r.string(m.get("base-url"), "page.base-url", null);
         if (baseUrl != null) {
             baseUrl = baseUrl.strip();
             while (baseUrl.endsWith("/")) baseUrl = baseUrl.substring(0, baseUrl.length() - 1);
             if (!baseUrl.matches("https?://[^\\s/?#]+(/[^\\s?#]*)?")) {
-                problem(m.get("base-url"), "page.base-url must be the address a phone uses to reach the page, such as "
+                r.problem(m.get("base-url"), "page.base-url must be the address a phone uses to reach the page, such as "
                         + "http://192.168.1.20:9467, not '" + baseUrl + "'");
                 baseUrl = null;
             }
         }
-        String keyFile = string(m.get("link-key-file"), "page.link-key-file", null);
-        Duration valid = duration(m.get("link-valid"), "page.link-valid", PageSettings.DEFAULT_LINK_VALID);
-        String reading = string(m.get("reading"), "page.reading", "open");
+        String keyFile = r.string(m.get("link-key-file"), "page.link-key-file", null);
+        Duration valid = r.duration(m.get("link-valid"), "page.link-valid", PageSettings.DEFAULT_LINK_VALID);
+        String reading = r.string(m.get("reading"), "page.reading", "open");
         if (!reading.equals("open") && !reading.equals("token")) {
-            problem(m.get("reading"), "page.reading must be 'open' (no login on the listener's network) or 'token' "
+            r.problem(m.get("reading"), "page.reading must be 'open' (no login on the listener's network) or 'token' "
                     + "(the admin token as password), not '" + reading + "'");
         }
-        if (baseUrl != null && Integer.parseInt(hp[1]) == 0) {
-            problem(m.get("base-url"), "page.base-url is set but page.listen is not: links would lead nowhere");
+        if (baseUrl != null && hp.port() == 0) {
+            r.problem(m.get("base-url"), "page.base-url is set but page.listen is not: links would lead nowhere");
         }
-        return new PageSettings(hp[0], Integer.parseInt(hp[1]), baseUrl, keyFile == null ? null : resolve(keyFile), valid,
+        return new PageSettings(hp.host(), hp.port(), baseUrl, keyFile == null ? null : r.resolve(keyFile), valid,
                 reading.equals("token"));
-    }
-
-    // ---- typed accessors; each records a problem and returns a fallback on a wrong type ----
-
-    private final Map<Node, Node> keyNodes = new HashMap<>();
-
-    /** Reads a mapping; unknown keys (when {@code known} is given) and duplicate keys are problems. */
-    private Map<String, Node> mapping(Node node, Set<String> known, String where) {
-        Map<String, Node> out = new LinkedHashMap<>();
-        if (!(node instanceof MappingNode mn)) {
-            if (node != null && !(node instanceof ScalarNode s && s.getValue().isEmpty())) {
-                problem(node, where + " must be a mapping of keys, not " + kind(node));
-            }
-            return out;
-        }
-        for (NodeTuple t : mn.getValue()) {
-            if (!(t.getKeyNode() instanceof ScalarNode k)) {
-                problem(t.getKeyNode(), "keys in " + where + " must be plain words");
-                continue;
-            }
-            String key = k.getValue();
-            if (known != null && !known.contains(key)) {
-                problem(k, "unknown key '" + key + "' in " + where + Suggest.hint(key, known));
-                continue;
-            }
-            if (out.containsKey(key)) {
-                problem(k, "duplicate key '" + key + "' in " + where);
-                continue;
-            }
-            keyNodes.put(t.getValueNode(), k);
-            out.put(key, t.getValueNode());
-        }
-        return out;
-    }
-
-    String string(Node node, String what, String fallback) {
-        if (node == null) return fallback;
-        if (node instanceof ScalarNode s) {
-            return s.getValue().isEmpty() && fallback != null ? fallback : s.getValue();
-        }
-        problem(node, what + " must be a single value, not " + kind(node));
-        return fallback;
-    }
-
-    int integer(Node node, String what, int fallback) {
-        String s = string(node, what, null);
-        if (s == null) return fallback;
-        try {
-            return Integer.parseInt(s.trim());
-        } catch (NumberFormatException e) {
-            problem(node, what + " must be a whole number, not '" + s + "'");
-            return fallback;
-        }
-    }
-
-    boolean bool(Node node, String what, boolean fallback) {
-        String s = string(node, what, null);
-        if (s == null) return fallback;
-        return switch (s.strip().toLowerCase(java.util.Locale.ROOT)) {
-            case "true", "yes", "on" -> true;
-            case "false", "no", "off" -> false;
-            default -> {
-                problem(node, what + " must be true or false, not '" + s + "'");
-                yield fallback;
-            }
-        };
-    }
-
-    Duration duration(Node node, String what, Duration fallback) {
-        String s = string(node, what, null);
-        if (s == null) return fallback;
-        Optional<Duration> d = Durations.parse(s);
-        if (d.isEmpty() || d.get().isZero()) {
-            problem(node, what + " must be a duration such as 30s, 20m, 2h, 14d or 5y, not '" + s + "'");
-            return fallback;
-        }
-        return d.get();
-    }
-
-    List<String> stringList(Node node, String what) {
-        List<String> out = new ArrayList<>();
-        if (node == null) return out;
-        if (node instanceof ScalarNode s) {
-            if (!s.getValue().isEmpty()) out.add(s.getValue());
-            return out;
-        }
-        if (!(node instanceof SequenceNode seq)) {
-            problem(node, what + " must be a list such as [a, b]");
-            return out;
-        }
-        for (Node item : seq.getValue()) {
-            String v = string(item, what + " item", null);
-            if (v != null) out.add(v);
-        }
-        return out;
-    }
-
-    Secret secretFile(Node node, String what) {
-        String s = string(node, what, null);
-        if (s == null) return null;
-        Path p = resolve(s);
-        try {
-            String v = readSecret(p);
-            if (v.isEmpty()) {
-                problem(node, what + ": " + p + " is empty");
-                return null;
-            }
-            return new Secret(v, p.toString());
-        } catch (SmallFile.Refused e) {
-            problem(node, what + ": " + e.getMessage());
-            return null;
-        } catch (IOException e) {
-            problem(node, what + ": cannot read " + p + " (" + describe(e) + ")");
-            return null;
-        }
-    }
-
-    /** A secret file's text without surrounding white space: a regular file of at most 64 KiB. */
-    private static String readSecret(Path p) throws IOException {
-        return new String(SmallFile.read(p, SmallFile.SECRET_MAX_BYTES), StandardCharsets.UTF_8).strip();
-    }
-
-    private String[] hostPort(Node node, String what, String text) {
-        int colon = text.lastIndexOf(':');
-        if (colon > 0) {
-            try {
-                int port = Integer.parseInt(text.substring(colon + 1));
-                if (port >= 0 && port <= 65535) return new String[] {text.substring(0, colon), Integer.toString(port)};
-            } catch (NumberFormatException ignored) {
-                // reported below
-            }
-        }
-        problem(node, what + " must be host:port such as 127.0.0.1:1883, not '" + text + "'");
-        return new String[] {"127.0.0.1", "0"};
-    }
-
-    Path resolve(String s) {
-        Path p = Path.of(s);
-        return p.isAbsolute() || baseDir == null ? p : baseDir.resolve(p).normalize();
-    }
-
-    void problem(Node node, String message) {
-        problems.add(new ConfigProblem(fileName, node == null ? 0 : line(node), message));
-    }
-
-    private static int line(Node node) {
-        return node.getStartMark().map(m -> m.getLine() + 1).orElse(0);
-    }
-
-    private static String kind(Node node) {
-        if (node instanceof MappingNode) return "a mapping";
-        if (node instanceof SequenceNode) return "a list";
-        return "a single value";
     }
 
     private static boolean validTopicFilter(String topic) {
@@ -778,13 +620,5 @@ public final class ConfigLoader {
         return java.util.Arrays.stream(Unit.values()).filter(u -> u.dimension() == d).map(Unit::symbol).toList();
     }
 
-    private static Set<String> ordered(String... keys) {
-        return new LinkedHashSet<>(List.of(keys));
-    }
 
-    static String describe(IOException e) {
-        if (e instanceof java.nio.file.NoSuchFileException) return "no such file";
-        if (e instanceof java.nio.file.AccessDeniedException) return "permission denied";
-        return e.getClass().getSimpleName() + (e.getMessage() == null ? "" : ": " + e.getMessage());
-    }
 }

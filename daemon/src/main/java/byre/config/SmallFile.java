@@ -59,6 +59,18 @@ public final class SmallFile {
                 + "; byre reads only regular files here");
     }
 
+    /** A secret or token file's text without surrounding white space: a regular file of at most 64 KiB. */
+    static String secret(Path p) throws IOException {
+        return new String(read(p, SECRET_MAX_BYTES), java.nio.charset.StandardCharsets.UTF_8).strip();
+    }
+
+    /** Why a read failed, in words for a message. */
+    static String describe(IOException e) {
+        if (e instanceof NoSuchFileException) return "no such file";
+        if (e instanceof java.nio.file.AccessDeniedException) return "permission denied";
+        return e.getClass().getSimpleName() + (e.getMessage() == null ? "" : ": " + e.getMessage());
+    }
+
     /** A size in words: bytes, KiB or MiB. */
     public static String size(long bytes) {
         if (bytes < 1024) return bytes + " bytes";
