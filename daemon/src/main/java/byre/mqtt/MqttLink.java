@@ -40,9 +40,6 @@ import org.slf4j.LoggerFactory;
  */
 public final class MqttLink implements AutoCloseable {
     private static final Logger LOG = LoggerFactory.getLogger(MqttLink.class);
-    /** Number of the current connection (see {@link #ackFor}); guarded for writes by {@link #ackGate}. */
-    private volatile long connection;
-    private final java.util.concurrent.locks.ReentrantReadWriteLock ackGate = new java.util.concurrent.locks.ReentrantReadWriteLock();
 
     static {
         PahoLog.install(); // before the client's classes load (each takes its logger once)
@@ -69,6 +66,8 @@ public final class MqttLink implements AutoCloseable {
     private final List<Runnable> onConnect = new ArrayList<>();
     private final List<Runnable> onConnecting = new ArrayList<>();
     private final MqttAsyncClient client;
+    /** Acknowledgements go out only on the connection that delivered their message. */
+    private final AckGate acks;
     private final AtomicBoolean closing = new AtomicBoolean();
     private final Object reconnectLock = new Object();
     private volatile boolean connected;
@@ -94,6 +93,7 @@ public final class MqttLink implements AutoCloseable {
         this.client = new MqttAsyncClient(settings.connectUri(), settings.clientId(), new MemoryPersistence());
         client.setCallback(new Callback());
         client.setManualAcks(true);
+        this.acks = new AckGate(client::isConnected, client::messageArrivedComplete);
         Gauge.builder("byre.mqtt.connected", this, l -> l.connected ? 1 : 0)
                 .description("1 while connected to the broker").register(registry);
         publishDropped = Counter.builder("byre.mqtt.publish.dropped")
@@ -129,44 +129,9 @@ public final class MqttLink implements AutoCloseable {
         onConnect.add(r);
     }
 
-    /**
-     * The acknowledgement of one received message, null at QoS 0; safe to run on any thread, once. It is sent
-     * only on the connection that delivered the message: after a loss the broker delivers it again, and an
-     * acknowledgement handed to the client while it reconnects can leave its connect waiting for ever.
-     */
+    /** The acknowledgement of one received message, null at QoS 0 (see {@link AckGate}). */
     private Runnable ackFor(MqttMessage message) {
-        if (message.getQos() == 0) return null;
-        int id = message.getId();
-        int qos = message.getQos();
-        long deliveredOn = connection;
-        return () -> {
-            ackGate.readLock().lock();
-            try {
-                // The client turns "not connected" first thing when its socket fails, before it reports the loss
-                // (which moves the connection number): an acknowledgement handed to it then could go out later on
-                // the next connection, where the same packet id may name another message.
-                if (deliveredOn != connection || !client.isConnected()) {
-                    LOG.debug("acknowledgement of message {} not sent: its connection is gone", id);
-                    return;
-                }
-                client.messageArrivedComplete(id, qos);
-            } catch (MqttException | RuntimeException e) {
-                // The connection went away in between: the broker delivers the message again.
-                LOG.debug("acknowledgement of message {} not sent: {}", id, e.toString());
-            } finally {
-                ackGate.readLock().unlock();
-            }
-        };
-    }
-
-    /** A new connection number: acknowledgements of messages from earlier connections are not sent. */
-    private void nextConnection() {
-        ackGate.writeLock().lock(); // waits for an acknowledgement being sent right now
-        try {
-            connection++;
-        } finally {
-            ackGate.writeLock().unlock();
-        }
+        return acks.ackFor(message.getId(), message.getQos());
     }
 
     /**
@@ -262,7 +227,7 @@ public final class MqttLink implements AutoCloseable {
                 continue;
             }
             try {
-                nextConnection();
+                acks.nextConnection();
                 onConnecting.forEach(Runnable::run);
                 client.connect(options()).waitForCompletion(10_000);
                 if (!client.isConnected()) throw new MqttException(MqttException.REASON_CODE_CLIENT_TIMEOUT);
@@ -412,7 +377,7 @@ public final class MqttLink implements AutoCloseable {
         public void connectionLost(Throwable cause) {
             connected = false;
             quiet.lost(ticker.nanos());
-            nextConnection();
+            acks.nextConnection();
             connectionLosses.increment();
             lastError = "connection lost: " + (cause == null ? "unknown" : cause.getMessage());
             if (!closing.get()) LOG.warn("lost the MQTT broker connection ({}); reconnecting", cause == null ? "?" : cause.getMessage());
