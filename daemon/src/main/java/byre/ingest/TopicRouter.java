@@ -1,6 +1,7 @@
 package byre.ingest;
 
 import byre.config.SensorConfig;
+import byre.mqtt.TopicFilter;
 import java.util.ArrayList;
 import java.util.Collection;
 import java.util.HashMap;
@@ -33,7 +34,7 @@ public final class TopicRouter {
 
         Family(SensorConfig sensor) {
             this.sensor = sensor;
-            this.filter = sensor.topic().split("/", -1);
+            this.filter = TopicFilter.levels(sensor.topic());
         }
 
         /** True when the id is known or there is room for it. */
@@ -64,9 +65,9 @@ public final class TopicRouter {
         Route r = exact.get(topic);
         if (r != null) return r;
         if (families.isEmpty()) return null;
-        String[] levels = topic.split("/", -1);
+        String[] levels = TopicFilter.levels(topic);
         for (Family f : families) {
-            if (matches(f.filter, levels)) {
+            if (TopicFilter.matches(f.filter, levels)) {
                 int i = f.sensor.idLevel() - 1;
                 if (i >= 0 && i < levels.length && !levels[i].isEmpty()) {
                     String id = f.sensor.id() + "/" + levels[i];
@@ -81,15 +82,5 @@ public final class TopicRouter {
     public int familySize(String familyId) {
         for (Family f : families) if (f.sensor.id().equals(familyId)) return f.size();
         return 0;
-    }
-
-    /** MQTT 3.1.1 section 4.7 topic filter matching. */
-    public static boolean matches(String[] filter, String[] topic) {
-        for (int i = 0; i < filter.length; i++) {
-            if (filter[i].equals("#")) return true;
-            if (i >= topic.length) return false;
-            if (!filter[i].equals("+") && !filter[i].equals(topic[i])) return false;
-        }
-        return filter.length == topic.length;
     }
 }

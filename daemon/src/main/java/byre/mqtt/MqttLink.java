@@ -121,7 +121,7 @@ public final class MqttLink implements AutoCloseable {
      */
     public void subscribeAcked(String filter, Handler handler) {
         subscriptions.put(filter, handler);
-        if (filter.contains("+") || filter.contains("#")) wildcardFilters.add(Map.entry(filter.split("/", -1), handler));
+        if (filter.contains("+") || filter.contains("#")) wildcardFilters.add(Map.entry(TopicFilter.levels(filter), handler));
     }
 
     /** Runs after every (re)connection, e.g. to republish retained state. */
@@ -397,9 +397,9 @@ public final class MqttLink implements AutoCloseable {
             }
             Handler handler = subscriptions.get(topic);
             if (handler == null && !wildcardFilters.isEmpty()) {
-                String[] levels = topic.split("/", -1);
+                String[] levels = TopicFilter.levels(topic);
                 for (Map.Entry<String[], Handler> f : wildcardFilters) {
-                    if (byre.ingest.TopicRouter.matches(f.getKey(), levels)) {
+                    if (TopicFilter.matches(f.getKey(), levels)) {
                         handler = f.getValue();
                         break;
                     }
