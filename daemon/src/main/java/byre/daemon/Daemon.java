@@ -340,7 +340,7 @@ public final class Daemon implements AutoCloseable {
     /** Zone-stage observations as metrics. */
     private static final class ZoneMetrics implements ZoneStage.Observer {
         private final MeterRegistry registry;
-        private final byre.ingest.RateLimitedLog warnings = new byre.ingest.RateLimitedLog(LOG, java.time.Duration.ofMinutes(10), System::nanoTime);
+        private final byre.log.RateLimitedLog warnings = new byre.log.RateLimitedLog(LOG, java.time.Duration.ofMinutes(10), System::nanoTime);
 
         ZoneMetrics(MeterRegistry registry) {
             this.registry = registry;

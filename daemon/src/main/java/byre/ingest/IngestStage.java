@@ -1,6 +1,7 @@
 package byre.ingest;
 
 import byre.config.SensorConfig;
+import byre.log.RateLimitedLog;
 import byre.time.Ticker;
 import byre.units.Quantity;
 import io.micrometer.core.instrument.Counter;

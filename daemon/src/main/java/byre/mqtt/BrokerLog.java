@@ -1,6 +1,6 @@
 package byre.mqtt;
 
-import byre.ingest.RateLimitedLog;
+import byre.log.RateLimitedLog;
 import ch.qos.logback.classic.Level;
 import ch.qos.logback.classic.LoggerContext;
 import ch.qos.logback.classic.turbo.TurboFilter;

@@ -1,6 +1,6 @@
 package byre.mqtt;
 
-import byre.ingest.RateLimitedLog;
+import byre.log.RateLimitedLog;
 import io.micrometer.core.instrument.Counter;
 import io.micrometer.core.instrument.MeterRegistry;
 import io.moquette.broker.Server;

@@ -1,7 +1,7 @@
 package byre.mqtt;
 
 import byre.config.MqttSettings;
-import byre.ingest.RateLimitedLog;
+import byre.log.RateLimitedLog;
 import byre.time.Ticker;
 import io.micrometer.core.instrument.Counter;
 import io.micrometer.core.instrument.Gauge;

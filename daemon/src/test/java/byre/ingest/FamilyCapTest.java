@@ -15,12 +15,10 @@ import ch.qos.logback.core.read.ListAppender;
 import io.micrometer.core.instrument.simple.SimpleMeterRegistry;
 import java.nio.charset.StandardCharsets;
 import java.time.Clock;
-import java.time.Duration;
 import java.time.Instant;
 import java.time.ZoneOffset;
 import java.util.ArrayList;
 import java.util.List;
-import java.util.concurrent.atomic.AtomicLong;
 import org.junit.jupiter.api.AfterEach;
 import org.junit.jupiter.api.Test;
 import org.slf4j.LoggerFactory;
@@ -92,26 +90,5 @@ class FamilyCapTest {
         assertEquals(SensorConfig.DEFAULT_MAX_IDS, stage.router().familySize("hutch-dry"));
         assertEquals(metersBefore, registry.getMeters().size(), "no meter per refused id");
         assertEquals(60_000.0 - SensorConfig.DEFAULT_MAX_IDS, registry.counter("byre.readings.rejected", "reason", "id-limit").count());
-    }
-
-    @Test
-    void warningsAboutInventedTopicsKeepABoundedNumberOfKeys() {
-        AtomicLong nanos = new AtomicLong();
-        ListAppender<ILoggingEvent> own = new ListAppender<>();
-        own.start();
-        Logger logger = (Logger) LoggerFactory.getLogger("byre.test.RateLimitedLog");
-        logger.addAppender(own);
-        try {
-            RateLimitedLog warnings = new RateLimitedLog(logger, Duration.ofMinutes(1), nanos::get);
-            for (int i = 0; i < 50_000; i++) warnings.warn("topic:larkmoor/odd/" + i, "message on larkmoor/odd/" + i + " ignored");
-            assertEquals(RateLimitedLog.MAX_KEYS + 1, warnings.keys());
-            // the first MAX_KEYS keys are logged once each, the rest together once per interval
-            assertEquals(RateLimitedLog.MAX_KEYS + 1, own.list.size());
-            nanos.addAndGet(Duration.ofMinutes(2).toNanos());
-            warnings.warn("topic:larkmoor/odd/again", "message on larkmoor/odd/again ignored");
-            assertTrue(own.list.get(own.list.size() - 1).getFormattedMessage().contains("similar messages held back"));
-        } finally {
-            logger.detachAppender(own);
-        }
     }
 }

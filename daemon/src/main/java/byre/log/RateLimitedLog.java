@@ -1,4 +1,4 @@
-package byre.ingest;
+package byre.log;
 
 import java.time.Duration;
 import java.util.concurrent.ConcurrentHashMap;
