@@ -3,9 +3,12 @@
 
 Reads `mosquitto_sub -v` lines ("topic payload") from standard input, keeps the payload's "v" and "ts",
 and inserts them into one WITHOUT ROWID table keyed (stream, ts), in WAL mode with synchronous=NORMAL,
-committing every COMMIT_EVERY seconds. Usage: minimal_writer.py DB COMMIT_EVERY_S [SEED_ROWS STREAMS].
+committing every COMMIT_EVERY seconds. Usage: minimal_writer.py DB COMMIT_EVERY_S [SEED_ROWS TOPICS_FILE].
 With SEED_ROWS it first fills the table with that many rows spread over the past 14 days (one
-transaction), so that it does not start empty. Prints its counts as one line of JSON at the end of input
+transaction) under the topics listed in TOPICS_FILE, one a line: the topics the load will publish, so that
+each stream's rows already fill pages of their own, as after weeks of running (seeded under other names, the
+new rows of every stream would share a few fresh pages and each commit would write far fewer pages than in a
+barn). Prints its counts as one line of JSON at the end of input
 or on SIGTERM.
 """
 import json
@@ -21,12 +24,15 @@ conn.execute("PRAGMA synchronous=NORMAL")
 conn.execute("CREATE TABLE IF NOT EXISTS reading (stream TEXT NOT NULL, ts INTEGER NOT NULL, value REAL NOT NULL,"
              " PRIMARY KEY (stream, ts)) WITHOUT ROWID")
 if len(sys.argv) > 4:
-    rows, streams = int(sys.argv[3]), int(sys.argv[4])
+    rows = int(sys.argv[3])
+    with open(sys.argv[4]) as f:
+        topics = [t.strip() for t in f if t.strip()]
+    streams = len(topics)
     now = int(time.time() * 1000)
     step = 14 * 86_400_000 * streams // max(rows, 1)
     conn.execute("BEGIN")
     conn.executemany("INSERT OR IGNORE INTO reading VALUES (?, ?, ?)",
-                     (("load/seed/s%04d" % (i % streams), now - 14 * 86_400_000 + (i // streams) * step, 15.0 + (i % 97) / 10)
+                     ((topics[i % streams], now - 14 * 86_400_000 + (i // streams) * step, 15.0 + (i % 97) / 10)
                       for i in range(rows)))
     conn.execute("COMMIT")
     conn.execute("PRAGMA wal_checkpoint(TRUNCATE)")

@@ -189,8 +189,13 @@ public final class WearBench {
         }
     }
 
+    /** Seeds under the topics the load publishes, as {@link #seedByre} seeds under its sensor ids: both start in steady state. */
     static void seedMinimal(Path db, Load load, long rows) throws Exception {
-        Process p = new ProcessBuilder("python3", SCRIPT.toString(), db.toString(), "2", String.valueOf(rows), String.valueOf(load.sensors))
+        Path topics = db.resolveSibling("topics.txt");
+        StringBuilder sb = new StringBuilder();
+        for (int i = 0; i < load.sensors; i++) sb.append(LoadConfig.topic("load", i, load.sensors, load.zones)).append('\n');
+        Files.writeString(topics, sb);
+        Process p = new ProcessBuilder("python3", SCRIPT.toString(), db.toString(), "2", String.valueOf(rows), topics.toString())
                 .redirectErrorStream(true).start();
         String out = new String(p.getInputStream().readAllBytes(), StandardCharsets.UTF_8);
         if (p.waitFor() != 0) throw new IllegalStateException("seeding the minimal writer failed: " + out);
