@@ -4,9 +4,11 @@ import java.sql.Connection;
 import java.sql.PreparedStatement;
 import java.sql.ResultSet;
 import java.sql.SQLException;
+import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.HashMap;
 import java.util.Iterator;
+import java.util.List;
 import java.util.Map;
 
 /**
@@ -22,6 +24,12 @@ final class BatchInsert {
     private final Connection conn;
     private final OpenRollups rollups = new OpenRollups();
     private final Map<StreamKey, Integer> streamIds = new HashMap<>();
+    /**
+     * Zone rows (derived from sensor readings that are stored; no acknowledgement waits on them), held until the
+     * rollups are next written and inserted in that transaction: a zone stream's rows of ten minutes then share one
+     * page write instead of ten. A crash of byre loses at most these; the readings they came from are kept.
+     */
+    private final List<WriterItem.Row> heldZoneRows = new ArrayList<>();
 
     /** Reads the rollup marks and rebuilds the open rollup buckets (after a crash, from the raw rows). */
     BatchInsert(Connection conn) throws SQLException {
@@ -31,10 +39,13 @@ final class BatchInsert {
 
     int openRollupBuckets() { return rollups.openBuckets(); }
 
+    /** Zone rows held in memory until the rollups are next written. */
+    int heldZoneRows() { return heldZoneRows.size(); }
+
     /**
      * Writes the next {@code n} rows of {@code batch} and commits. Rows older than {@code cutoffMs} are skipped; a row whose (stream, time)
      * is stored already is ignored (the first value is kept, and the rollups count it once). With
-     * {@code allRollups} every open rollup bucket is written too.
+     * {@code allRollups} every open rollup bucket and every held zone row is written too.
      *
      * @throws SQLException after rolling back: nothing of the batch is stored or counted
      */
@@ -44,17 +55,35 @@ final class BatchInsert {
         int duplicate = 0;
         int tooOld = 0;
         boolean rollupsWritten;
+        boolean writeHeld = allRollups || rollups.writeDue(nowMs);
+        int heldBefore = heldZoneRows.size();
         try {
             WriterTx.begin(conn);
-            WriterItem.Row[] rows = new WriterItem.Row[n];
+            int capacity = n + (writeHeld ? heldBefore : 0);
+            WriterItem.Row[] rows = new WriterItem.Row[capacity];
             // (stream id << 32 | position): sorted, the batch visits each stream's place in the table once and in
             // time order, which keeps the B-tree work local; a stream's rows keep their arrival order.
-            long[] order = new long[n];
+            long[] order = new long[capacity];
             int queued = 0;
+            if (writeHeld) {
+                for (WriterItem.Row r : heldZoneRows) {
+                    if (r.tsMs < cutoffMs) {
+                        tooOld++;
+                        continue;
+                    }
+                    rows[queued] = r;
+                    order[queued] = ((long) streamId(r.key, newIds) << 32) | queued;
+                    queued++;
+                }
+            }
             for (int i = 0; i < n; i++) {
                 WriterItem.Row r = batch.next();
                 if (r.tsMs < cutoffMs) {
                     tooOld++;
+                    continue;
+                }
+                if (!writeHeld && r.onStored == null && r.key.kind() == StreamKey.Kind.ZONE) {
+                    heldZoneRows.add(r);
                     continue;
                 }
                 rows[queued] = r;
@@ -92,9 +121,11 @@ final class BatchInsert {
         } catch (SQLException | RuntimeException e) {
             WriterTx.rollbackQuietly(conn);
             rollups.rolledBack();
+            heldZoneRows.subList(heldBefore, heldZoneRows.size()).clear(); // the batch stays in the backlog and comes again
             throw e;
         }
         rollups.committed();
+        if (writeHeld) heldZoneRows.clear();
         streamIds.putAll(newIds);
         return new Result(inserted, duplicate, tooOld, rollupsWritten);
     }

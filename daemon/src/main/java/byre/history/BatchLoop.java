@@ -79,6 +79,8 @@ final class BatchLoop implements Runnable {
     volatile int backlogRows;
     volatile long rollupFlushes;
     volatile int openRollupBuckets;
+    /** Zone rows the batch insert holds until the rollups are next written. */
+    volatile int heldZoneRows;
     volatile long retentionSteps;
     volatile long retentionRounds;
     volatile long retentionRowsDeleted;
@@ -97,6 +99,7 @@ final class BatchLoop implements Runnable {
         this.pruner = new RetentionPruner(retention, clock, settings.retentionStepRows());
         this.nextRetentionNanos = ticker.nanos();
         this.openRollupBuckets = insert.openRollupBuckets();
+        this.heldZoneRows = insert.heldZoneRows();
     }
 
     @Override
@@ -182,7 +185,7 @@ final class BatchLoop implements Runnable {
     private boolean commitDue(long now) {
         if (now < nextRetryNanos) return false;
         // A flush with nothing left in the backlog still writes the open rollup buckets.
-        if (backlog.isEmpty()) return !markers.isEmpty() && openRollupBuckets > 0 && healthy;
+        if (backlog.isEmpty()) return !markers.isEmpty() && (openRollupBuckets > 0 || heldZoneRows > 0) && healthy;
         return commitNow(now) || now - firstPendingNanos >= settings.commitEvery().toNanos();
     }
 
@@ -230,7 +233,7 @@ final class BatchLoop implements Runnable {
     /** A marker is done when no row taken at or before it is still in the backlog, and no rollup bucket is open. */
     private void completeMarkers() {
         if (markers.isEmpty()) return;
-        if (backlog.isEmpty() && openRollupBuckets > 0 && healthy) return; // the next round writes them
+        if (backlog.isEmpty() && (openRollupBuckets > 0 || heldZoneRows > 0) && healthy) return; // the next round writes them
         long oldestPending = backlog.isEmpty() ? Long.MAX_VALUE : takenRows - backlog.size() + 1;
         Iterator<WriterItem.Marker> it = markers.iterator();
         while (it.hasNext()) {
@@ -264,6 +267,7 @@ final class BatchLoop implements Runnable {
         if (!backlog.isEmpty()) firstPendingNanos = Math.min(firstPendingNanos, end);
         backlogRows = backlog.size();
         openRollupBuckets = insert.openRollupBuckets();
+        heldZoneRows = insert.heldZoneRows();
         rowsWritten += result.inserted();
         rowsDuplicate += result.duplicate();
         rowsTooOld += result.tooOld();

@@ -26,6 +26,8 @@ import org.sqlite.SQLiteConfig;
 public final class HistoryStore implements AutoCloseable {
 
     static final int BUSY_TIMEOUT_MS = 5_000;
+    /** Write-ahead log pages (4 KiB) before a checkpoint: 16 MiB, against SQLite's default of 1000 pages. */
+    static final int WAL_CHECKPOINT_PAGES = 4000;
 
     private final Path file;
     private final Clock clock;
@@ -207,7 +209,16 @@ public final class HistoryStore implements AutoCloseable {
         // SQL of every update to find out whether it was an INSERT (a measurable share of the writer's time).
         cfg.setGetGeneratedKeys(false);
         if (readOnly) cfg.setReadOnly(true);
-        return cfg.createConnection("jdbc:sqlite:" + file);
+        Connection conn = cfg.createConnection("jdbc:sqlite:" + file);
+        if (!readOnly) {
+            // Every page a checkpoint copies is written twice (log, then file); copying less often writes each hot
+            // page (a stream's newest) once for more commits. Set on every writing connection: whichever commits
+            // past the limit runs the checkpoint.
+            try (Statement st = conn.createStatement()) {
+                st.execute("PRAGMA wal_autocheckpoint = " + WAL_CHECKPOINT_PAGES);
+            }
+        }
+        return conn;
     }
 
     private static int migrate(Connection conn, Path file, List<Migration> migrations) throws SQLException {

@@ -28,6 +28,12 @@ final class OpenRollups {
 
     /** A minute bucket is written this long after it ended: readings arrive a little late, or in bursts. */
     static final long GRACE_MS = 60_000;
+    /**
+     * Closed minute buckets are written together, ten minutes' worth at a time: the rows of a stream's ten buckets
+     * then share one page write instead of ten, which is most of what rollups cost an SD card. Readers sum the
+     * newer buckets from the raw rows, so nothing waits on this; after a crash they are rebuilt from the raw rows.
+     */
+    static final long WRITE_EVERY_MS = 10 * 60_000;
     static final String MINUTE_MARK = "minute";
     static final String HOUR_MARK = "hour";
 
@@ -148,7 +154,7 @@ final class OpenRollups {
     boolean write(Connection conn, long nowMs, boolean all) throws SQLException {
         upsert(conn, Resolution.MINUTE.table, lateMinutes);
         upsert(conn, Resolution.HOUR.table, lateHours);
-        long closeBefore = Math.floorDiv(nowMs - GRACE_MS, Resolution.MINUTE.widthMs) * Resolution.MINUTE.widthMs;
+        long closeBefore = closeBefore(nowMs);
         if (all) {
             for (Bucket b : open.keySet()) closeBefore = Math.max(closeBefore, b.start() + Resolution.MINUTE.widthMs);
             for (Bucket b : staged.keySet()) closeBefore = Math.max(closeBefore, b.start() + Resolution.MINUTE.widthMs);
@@ -176,6 +182,16 @@ final class OpenRollups {
         stagedMinuteMark = closeBefore;
         stagedFlush = true;
         return true;
+    }
+
+    /** Minute buckets before this time are due to be written at {@code nowMs} (a multiple of {@link #WRITE_EVERY_MS}). */
+    private static long closeBefore(long nowMs) {
+        return Math.floorDiv(nowMs - GRACE_MS, WRITE_EVERY_MS) * WRITE_EVERY_MS;
+    }
+
+    /** Whether a write at {@code nowMs} closes buckets: the moment to write whatever else waits for the rollups. */
+    boolean writeDue(long nowMs) {
+        return closeBefore(nowMs) > minuteMark;
     }
 
     /** The batch is committed: its rows join the open buckets and the written buckets leave them. */

@@ -2,6 +2,7 @@ package byre.history;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertFalse;
+import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import java.nio.file.Path;
@@ -104,12 +105,12 @@ class BatchInsertTest {
             int flushes = 0;
             // 75 minutes in 2 s batches (a commit every 2 s, as the writer does by default).
             for (long s = 0; s < 75 * 60; s += 2) if (batch(insert, s, s + 2, rnd).rollupsWritten()) flushes++;
-            // A minute is written once it has been over for a minute: minutes 0..73 by the end (clock 11:15), each
-            // minute of clock time one batch that writes rollups (the first only moves the mark of the new file).
-            assertEquals(76, flushes);
-            assertEquals(2 * 74, Sql.number(store.path(), "SELECT count(*) FROM rollup_minute"));
+            // Closed minutes are written ten at a time, a minute after the tenth is over: at 10:01 (the first only
+            // moves the mark of the new file), then 10:11, 10:21, ... 11:11, which writes minutes up to 11:10.
+            assertEquals(9, flushes);
+            assertEquals(2 * 70, Sql.number(store.path(), "SELECT count(*) FROM rollup_minute"));
             assertEquals(2, Sql.number(store.path(), "SELECT count(*) FROM rollup_hour"), "hour 10:00 is complete, 11:00 is not");
-            assertEquals(T0.plus(Duration.ofMinutes(74)).toEpochMilli(), Sql.number(store.path(), "SELECT upto FROM rollup_mark WHERE res = 'minute'"));
+            assertEquals(T0.plus(Duration.ofMinutes(70)).toEpochMilli(), Sql.number(store.path(), "SELECT upto FROM rollup_mark WHERE res = 'minute'"));
             assertEquals(T0.plus(Duration.ofMinutes(60)).toEpochMilli(), Sql.number(store.path(), "SELECT upto FROM rollup_mark WHERE res = 'hour'"));
             assertRollupsMatchTheRawReadings();
         }
@@ -125,7 +126,7 @@ class BatchInsertTest {
         } // a crash: the open buckets were only in memory
         try (Connection conn = store.openWriterConnection()) {
             BatchInsert insert = new BatchInsert(conn);
-            assertEquals(2 * 2, insert.openRollupBuckets(), "minutes 61 and 62 rebuilt from the raw rows");
+            assertEquals(2 * 3, insert.openRollupBuckets(), "minutes 60 to 62 (after the mark at 11:00) rebuilt from the raw rows");
             // A redelivery of old readings (kept values: the first wins) and late readings of a closed minute.
             List<WriterItem.Row> late = new ArrayList<>();
             late.add(new WriterItem.Row(DRY, T0.plusSeconds(10).toEpochMilli(), 99.0, null));
@@ -147,6 +148,48 @@ class BatchInsertTest {
             + T0.plus(Duration.ofHours(1)).toEpochMilli()) + Sql.number(store.path(), "SELECT sum(n) FROM rollup_minute WHERE ts >= "
             + T0.plus(Duration.ofHours(1)).toEpochMilli()));
         assertRollupsMatchTheRawReadings();
+    }
+
+    @Test
+    void zoneRowsWaitForTheRollupWriteAndAFailedBatchNeitherLosesNorDoublesThem() throws Exception {
+        StreamKey thi = StreamKey.zone("calf-barn", byre.units.Quantity.THI);
+        try (Connection conn = store.openWriterConnection()) {
+            BatchInsert insert = new BatchInsert(conn);
+            long t = T0.toEpochMilli() + 90_000; // the first write, at 10:01:30, only moves the new file's marks (to 10:00)
+            assertTrue(insert.write(List.<WriterItem.Row>of().iterator(), 0, t, 0, false).rollupsWritten());
+            List<WriterItem.Row> zone = new ArrayList<>();
+            // A zone row that an acknowledgement waits on (a central site's stream) goes in at once.
+            zone.add(new WriterItem.Row(StreamKey.zone("north/calf-barn", byre.units.Quantity.THI), T0.toEpochMilli() + 60_000, 71.0, () -> { }));
+            for (int m = 1; m <= 9; m++) zone.add(new WriterItem.Row(thi, T0.toEpochMilli() + m * 60_000L, 70.0 + m, null));
+            for (int i = 0; i < zone.size(); i++) {
+                long now = T0.toEpochMilli() + 120_000 + i * 30_000L; // 10:02 to 10:06:30: no rollup write due
+                assertFalse(insert.write(zone.subList(i, i + 1).iterator(), 1, now, 0, false).rollupsWritten());
+            }
+            assertEquals(9, insert.heldZoneRows());
+            assertEquals(1, Sql.number(store.path(), "SELECT count(*) FROM reading"), "only the row with an acknowledgement");
+            try (HistoryReader r = store.openReader()) {
+                assertEquals(0, r.raw(thi, null, null).size(), "held rows are not in the file yet");
+            }
+            // A batch that fails (a trigger stands in for a full disk) keeps them held, once.
+            conn.createStatement().execute("CREATE TEMP TRIGGER fail BEFORE INSERT ON reading BEGIN SELECT RAISE(ABORT, 'disk is full'); END");
+            long due = T0.toEpochMilli() + 11 * 60_000L; // 10:11: minutes up to 10:10 are due
+            List<WriterItem.Row> next = List.of(new WriterItem.Row(thi, T0.toEpochMilli() + 10 * 60_000L, 80.0, null));
+            assertThrows(java.sql.SQLException.class, () -> insert.write(next.iterator(), 1, due, 0, false));
+            assertEquals(9, insert.heldZoneRows(), "the failed batch's row stays in the writer's backlog, not held twice");
+            conn.createStatement().execute("DROP TRIGGER fail");
+            BatchInsert.Result r = insert.write(next.iterator(), 1, due, 0, false);
+            assertTrue(r.rollupsWritten());
+            assertEquals(10, r.inserted(), "the nine held rows and the batch's own");
+            assertEquals(0, insert.heldZoneRows());
+            assertEquals(9, Sql.number(store.path(), "SELECT count(*) FROM rollup_minute WHERE stream = (SELECT id FROM stream WHERE key = 'calf-barn.thi')"),
+                "minutes 10:01 to 10:09 written with their rows; 10:10 is still open");
+            // A flush writes whatever is held.
+            insert.write(List.of(new WriterItem.Row(thi, due + 60_000, 81.0, null)).iterator(), 1, due + 65_000, 0, false);
+            assertEquals(1, insert.heldZoneRows());
+            insert.write(List.<WriterItem.Row>of().iterator(), 0, due + 66_000, 0, true);
+            assertEquals(0, insert.heldZoneRows());
+            assertEquals(11, Sql.number(store.path(), "SELECT count(*) FROM reading WHERE stream = (SELECT id FROM stream WHERE key = 'calf-barn.thi')"));
+        }
     }
 
     @Test
