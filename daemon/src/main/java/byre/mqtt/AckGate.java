@@ -1,5 +1,6 @@
 package byre.mqtt;
 
+import java.util.concurrent.atomic.AtomicBoolean;
 import java.util.concurrent.locks.ReentrantReadWriteLock;
 import java.util.function.BooleanSupplier;
 import org.slf4j.Logger;
@@ -11,6 +12,11 @@ import org.slf4j.LoggerFactory;
  * id may name another message. An acknowledgement handed to the client while it reconnects can also leave its
  * connect waiting for ever. A dropped acknowledgement is only logged (debug): after a loss the broker delivers
  * every unacknowledged message again, and that delivery is acknowledged in its turn.
+ * <p>
+ * Each acknowledgement goes out at most once, however often it is run: once a PUBACK is sent, its packet id may name
+ * the next message on the same connection (MQTT 3.1.1 section 4.3.2), which a second PUBACK would acknowledge
+ * before it is stored. (A handler that fails after handing the acknowledgement on is acknowledged by the link, and
+ * the commit later runs the same acknowledgement again.)
  */
 final class AckGate {
     private static final Logger LOG = LoggerFactory.getLogger(AckGate.class);
@@ -35,12 +41,18 @@ final class AckGate {
 
     /**
      * The acknowledgement of a message that arrived on the current connection, null at QoS 0 (nothing to
-     * acknowledge). Safe to run on any thread, once; acknowledgements go out in the order they are run.
+     * acknowledge). Safe to run on any thread; only its first run does anything. Acknowledgements go out in the
+     * order they are run.
      */
     Runnable ackFor(int id, int qos) {
         if (qos == 0) return null;
         long deliveredOn = connection;
+        AtomicBoolean ran = new AtomicBoolean();
         return () -> {
+            if (!ran.compareAndSet(false, true)) {
+                LOG.debug("acknowledgement of message {} run again: not sent twice", id);
+                return;
+            }
             lock.readLock().lock();
             try {
                 // The client turns "not connected" first thing when its socket fails, before it reports the loss

@@ -414,6 +414,7 @@ public final class MqttLink implements AutoCloseable {
                 handler.accept(topic, message.getPayload(), message.isRetained(), ack);
             } catch (RuntimeException e) {
                 LOG.error("handler for {} failed on a message: {}", topic, e.toString(), e);
+                // If the handler already ran it, or a commit runs it later, AckGate still sends it once.
                 if (ack != null) ack.run();
             }
         }

@@ -13,8 +13,13 @@ public final class TopicFilter {
         return topicOrFilter.split("/", -1);
     }
 
-    /** True when the topic's levels match the filter's: {@code +} stands for one level, a last {@code #} for any rest. */
+    /**
+     * True when the topic's levels match the filter's: {@code +} stands for one level, a last {@code #} for any rest.
+     * A filter that starts with a wildcard does not match a topic starting with {@code $} (section 4.7.2): such
+     * topics, {@code $SYS/...} above all, are the broker's own, and only a filter that names them takes them.
+     */
     public static boolean matches(String[] filter, String[] topic) {
+        if ((filter[0].equals("#") || filter[0].equals("+")) && topic[0].startsWith("$")) return false;
         for (int i = 0; i < filter.length; i++) {
             if (filter[i].equals("#")) return true;
             if (i >= topic.length) return false;

@@ -71,6 +71,25 @@ class AckGateTest {
         assertEquals(List.of(), lines());
     }
 
+    /**
+     * Once a PUBACK is out, its packet id may name the next message on the same connection (MQTT 3.1.1 section
+     * 4.3.2): a second run of the acknowledgement, say by a commit after the link already acknowledged a handler's
+     * failure, would acknowledge that message before it is stored.
+     */
+    @Test
+    void anAcknowledgementRunTwiceGoesOutOnce() {
+        Runnable ack = gate.ackFor(7, 1);
+        ack.run();
+        Runnable reused = gate.ackFor(7, 1); // the broker's next message, reusing the freed id
+        ack.run();
+        assertEquals(List.of(new Sent(7, 1)), sent, "the second run does not acknowledge the newer message 7");
+        assertEquals(List.of("acknowledgement of message 7 run again: not sent twice"), lines());
+
+        reused.run(); // the newer message is committed
+        reused.run();
+        assertEquals(List.of(new Sent(7, 1), new Sent(7, 1)), sent, "one PUBACK for each message");
+    }
+
     @Test
     void qosZeroHasNothingToAcknowledge() {
         assertNull(gate.ackFor(0, 0));

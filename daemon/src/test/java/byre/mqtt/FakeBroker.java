@@ -7,21 +7,20 @@ import java.io.OutputStream;
 import java.net.ServerSocket;
 import java.net.Socket;
 import java.util.List;
-import java.util.Set;
-import java.util.concurrent.ConcurrentHashMap;
+import java.util.concurrent.CopyOnWriteArrayList;
 import java.util.concurrent.atomic.AtomicInteger;
 
 /**
  * A hand-written MQTT 3.1.1 broker for one client at a time, standing in for a broker that forwards what a good one
  * refuses: after each SUBSCRIBE of a connection it sends {@code deliveries} (every connection again, as a broker
  * redelivers what was not acknowledged). It answers CONNECT, SUBSCRIBE, PINGREQ and QoS 1 PUBLISH, and records the
- * packet ids the client acknowledged.
+ * packet id of every PUBACK the client sends, in order, repeats included.
  */
 final class FakeBroker implements AutoCloseable {
     private final ServerSocket server;
     private final List<byte[]> deliveries;
     private final Thread thread;
-    final Set<Integer> acknowledged = ConcurrentHashMap.newKeySet();
+    final List<Integer> acknowledged = new CopyOnWriteArrayList<>();
     final AtomicInteger connections = new AtomicInteger();
     private volatile Socket current;
 

@@ -33,6 +33,20 @@ class TopicFilterTest {
         "larkmoor/cow-shed/#         | larkmoor/calf-barn/pen1      | false",
         "larkmoor/+/pen1/#           | larkmoor/calf-barn/pen1/dry  | true",
         "#                           | larkmoor/calf-barn/pen1/dry  | true",
+        // section 4.7.2: a filter starting with a wildcard does not match a topic starting with '$'
+        "#                           | $SYS/broker/clients/total    | false",
+        "+/broker/clients/total      | $SYS/broker/clients/total    | false",
+        "+/+                         | $SYS/uptime                  | false",
+        "+                           | $SYS                         | false",
+        "#                           | $larkmoor                    | false",
+        "$SYS/#                      | $SYS/broker/clients/total    | true",
+        "$SYS/+/clients/total        | $SYS/broker/clients/total    | true",
+        "$SYS                        | $SYS                         | true",
+        // only a topic beginning with '$' is the broker's; a '$' further in is an ordinary character
+        "#                           | larkmoor/$SYS/uptime         | true",
+        "+/+/uptime                  | larkmoor/$SYS/uptime         | true",
+        "+/+                         | /$SYS                        | true",
+        "#                           | larkmoor$/dry                | true",
     })
     void matchesAsTheStandardSays(String filter, String topic, boolean expected) {
         assertEquals(expected, TopicFilter.matches(TopicFilter.levels(filter), TopicFilter.levels(topic)));
