@@ -103,7 +103,7 @@ class ManySitesTest {
 
         // What the barn publishes on its zone stream, seen on the barn's own broker: value by reading time.
         Map<Instant, Double> barnDry = new ConcurrentSkipListMap<>();
-        Mosquitto central = Mosquitto.startConfigured(centralTls, centralConf);
+        Mosquitto central = Mosquitto.startConfigured(centralTls, centralConf, centralPlain);
         Daemon barnByre = null;
         try (Mosquitto barn = Mosquitto.startConfigured(barnPort, barnConf);
              TestPublisher sensors = new TestPublisher(barn.uri());
@@ -133,7 +133,7 @@ class ManySitesTest {
                 sensors.publish("larkmoor/cow-shed/dry", Double.toString(v));
                 await().atMost(10, TimeUnit.SECONDS).until(() -> barnDry.containsValue(v));
             }
-            central = Mosquitto.startConfigured(centralTls, centralConf);
+            central = Mosquitto.startConfigured(centralTls, centralConf, centralPlain);
 
             // Every event once, in order; every value of the outage in the central history.
             await().atMost(40, TimeUnit.SECONDS).until(() -> kinds(hub).size() >= 4);

@@ -43,7 +43,7 @@ class BridgeDropInTest {
 
         List<String> atCentre = new CopyOnWriteArrayList<>();
         List<String> acksAtBarn = new CopyOnWriteArrayList<>();
-        Mosquitto central = Mosquitto.startConfigured(centralTls, centralConf);
+        Mosquitto central = Mosquitto.startConfigured(centralTls, centralConf, centralPlain);
         try (Mosquitto barn = Mosquitto.startConfigured(barnPort, barnConf);
              TestPublisher atBarn = new TestPublisher(barn.uri())) {
             MqttClient watcher = subscriber("tcp://127.0.0.1:" + centralPlain, atCentre);
@@ -62,7 +62,7 @@ class BridgeDropInTest {
             watcher.close();
             central.close();
             for (int i = 2; i <= 5; i++) atBarn.publish("byre/" + SITE + "/events", "e" + i);
-            central = Mosquitto.startConfigured(centralTls, centralConf);
+            central = Mosquitto.startConfigured(centralTls, centralConf, centralPlain);
             watcher = subscriber("tcp://127.0.0.1:" + centralPlain, atCentre);
             await().atMost(60, TimeUnit.SECONDS).until(() -> events(atCentre).size() >= 5);
             assertEquals(List.of("e1", "e2", "e3", "e4", "e5"), events(atCentre), "every event once, in order");

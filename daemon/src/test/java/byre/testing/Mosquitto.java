@@ -54,9 +54,10 @@ public final class Mosquitto implements AutoCloseable {
 
     /**
      * Starts with the given configuration text (listeners included) and waits until {@code port}, one of its
-     * listeners, accepts connections; errors go to the log in the broker's own folder.
+     * listeners, and every one of {@code alsoPorts} accept connections (mosquitto opens its listeners one after
+     * the other); errors go to the log in the broker's own folder.
      */
-    public static Mosquitto startConfigured(int port, String configuration) throws IOException, InterruptedException {
+    public static Mosquitto startConfigured(int port, String configuration, int... alsoPorts) throws IOException, InterruptedException {
         Path dir = Files.createTempDirectory("byre-mosquitto");
         Path conf = dir.resolve("mosquitto.conf");
         Files.writeString(conf, configuration + "\nlog_dest stderr\nlog_type error\n");
@@ -69,15 +70,20 @@ public final class Mosquitto implements AutoCloseable {
             if (!p.isAlive()) {
                 throw new IOException("mosquitto exited: " + Files.readString(dir.resolve("mosquitto.log")));
             }
-            try (Socket s = new Socket()) {
-                s.connect(new InetSocketAddress("127.0.0.1", port), 200);
-                return m;
-            } catch (IOException notYet) {
-                Thread.sleep(20);
-            }
+            if (listening(port) && java.util.Arrays.stream(alsoPorts).allMatch(Mosquitto::listening)) return m;
+            Thread.sleep(20);
         }
         m.close();
-        throw new IOException("mosquitto did not listen on " + port + " within 10 s");
+        throw new IOException("mosquitto did not listen on " + port + " " + java.util.Arrays.toString(alsoPorts) + " within 10 s");
+    }
+
+    private static boolean listening(int port) {
+        try (Socket s = new Socket()) {
+            s.connect(new InetSocketAddress("127.0.0.1", port), 200);
+            return true;
+        } catch (IOException notYet) {
+            return false;
+        }
     }
 
     public String uri() {
