@@ -58,6 +58,17 @@ public final class WearBench {
             }
         }
         if (!Files.isRegularFile(SCRIPT)) throw new IllegalStateException("run from the repository root: " + SCRIPT + " not found");
+        // This process seeds byre's history itself: SQLite's native library must load from a folder of its own, not
+        // from beside the first history on a loop file system, which could then not be unmounted.
+        Path lib = Files.createTempDirectory("byre-wear-lib");
+        byre.history.SqliteNative.prepare(lib);
+        Runtime.getRuntime().addShutdownHook(new Thread(() -> {
+            try (var walk = Files.walk(lib)) {
+                walk.sorted(Comparator.reverseOrder()).forEach(f -> f.toFile().delete());
+            } catch (IOException ignored) {
+                // a temporary folder
+            }
+        }));
         List<String[]> table = new ArrayList<>();
         for (Load load : List.of(new Load("40 sensors every 10 s, 20 watches", 40, 10, 20), new Load("200 sensors every 1 s, 50 watches", 200, 1, 50))) {
             run(load, seconds, seedRows, table);
