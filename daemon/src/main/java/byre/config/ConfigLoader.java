@@ -9,6 +9,7 @@ import java.time.ZoneId;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Map;
+import java.util.Optional;
 import java.util.Set;
 import java.util.function.Function;
 import org.snakeyaml.engine.v2.api.LoadSettings;
@@ -21,7 +22,7 @@ import org.snakeyaml.engine.v2.nodes.SequenceNode;
 
 /**
  * Reads the YAML configuration (README, Configuration) and checks all of it before anything starts,
- * collecting every problem as {@code file:line: message}. Each section has its own reader beside the settings
+ * collecting every problem as {@code file:line:col: message}. Each section has its own reader beside the settings
  * it makes ({@code MqttSection}, {@code SensorSection}, ...); this class parses the file, hands each section over
  * in turn and builds the {@link ByreConfig} when no problem was found. Secrets are read from the files or
  * environment variables the configuration names; their values never enter a message.
@@ -43,9 +44,9 @@ public final class ConfigLoader {
         try {
             text = new String(SmallFile.read(file, SmallFile.CONFIG_MAX_BYTES), StandardCharsets.UTF_8);
         } catch (SmallFile.Refused e) {
-            throw new ConfigException(List.of(new ConfigProblem(file.toString(), 0, "cannot read the configuration: " + e.getMessage())));
+            throw new ConfigException(List.of(ConfigProblem.ofFile(file.toString(), "cannot read the configuration: " + e.getMessage())));
         } catch (IOException e) {
-            throw new ConfigException(List.of(new ConfigProblem(file.toString(), 0,
+            throw new ConfigException(List.of(ConfigProblem.ofFile(file.toString(),
                     "cannot read the configuration: " + SmallFile.describe(e))));
         }
         Path dir = file.toAbsolutePath().getParent();
@@ -91,13 +92,12 @@ public final class ConfigLoader {
             LoadSettings settings = LoadSettings.builder().setLabel(fileName).setMaxAliasesForCollections(10).build();
             root = new Compose(settings).composeString(text).orElse(null);
         } catch (MarkedYamlEngineException e) {
-            int line = e.getProblemMark().map(m -> m.getLine() + 1).orElse(0);
-            throw new ConfigException(List.of(new ConfigProblem(fileName, line, "not valid YAML: " + e.getProblem())));
+            throw new ConfigException(List.of(ConfigProblem.at(fileName, e.getProblemMark(), "not valid YAML: " + e.getProblem())));
         } catch (YamlEngineException e) {
-            throw new ConfigException(List.of(new ConfigProblem(fileName, 0, "not valid YAML: " + e.getMessage())));
+            throw new ConfigException(List.of(ConfigProblem.ofFile(fileName, "not valid YAML: " + e.getMessage())));
         }
         if (!(root instanceof MappingNode top)) {
-            throw new ConfigException(List.of(new ConfigProblem(fileName, root == null ? 0 : NodeReader.line(root),
+            throw new ConfigException(List.of(ConfigProblem.at(fileName, root == null ? Optional.empty() : root.getStartMark(),
                     "the configuration must be a mapping of keys such as site:, mqtt:, sensors:, zones:")));
         }
         return top;

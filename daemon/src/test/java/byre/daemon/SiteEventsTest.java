@@ -86,9 +86,9 @@ class SiteEventsTest {
 
         ConfigException bad = assertThrows(ConfigException.class,
                 () -> ConfigLoader.parse("byre.yaml", yaml(1883, ", publish-events: sometimes"), dir, n -> null));
-        assertTrue(bad.getMessage().contains("byre.yaml:2: mqtt.publish-events must be true or false, not 'sometimes'"), bad.getMessage());
+        assertTrue(bad.getMessage().contains("byre.yaml:2:96: mqtt.publish-events must be true or false, not 'sometimes'"), bad.getMessage());
         ConfigException slash = assertThrows(ConfigException.class, () -> ConfigLoader.parse("byre.yaml",
                 yaml(1883, "").replace("office:", "byre/larkmoor/events:"), dir, n -> null));
-        assertTrue(slash.getMessage().contains("channel name 'byre/larkmoor/events' may not contain '/'"), slash.getMessage());
+        assertTrue(slash.getMessage().contains("byre.yaml:8:3: channel name 'byre/larkmoor/events' may not contain '/'"), slash.getMessage());
     }
 }

@@ -101,12 +101,12 @@ class FifthChannelTest {
 
     @Test
     void theFifthKindIsChecked() {
-        assertEquals(List.of("byre.yaml:4: file channel barn-log is missing 'path'"), problems("  barn-log: { type: file }\n"));
-        assertEquals(List.of("byre.yaml:4: unknown key 'pth' in file channel barn-log (did you mean 'path'?)",
-                "byre.yaml:4: file channel barn-log is missing 'path'"), problems("  barn-log: { type: file, pth: alerts.txt }\n"));
-        assertEquals(List.of("byre.yaml:4: barn-log.path: the folder " + dir.resolve("nowhere") + " does not exist"),
+        assertEquals(List.of("byre.yaml:4:13: file channel barn-log is missing 'path'"), problems("  barn-log: { type: file }\n"));
+        assertEquals(List.of("byre.yaml:4:27: unknown key 'pth' in file channel barn-log (did you mean 'path'?)",
+                "byre.yaml:4:13: file channel barn-log is missing 'path'"), problems("  barn-log: { type: file, pth: alerts.txt }\n"));
+        assertEquals(List.of("byre.yaml:4:33: barn-log.path: the folder " + dir.resolve("nowhere") + " does not exist"),
                 problems("  barn-log: { type: file, path: nowhere/alerts.txt }\n"));
-        assertEquals(List.of("byre.yaml:4: unknown channel type 'fil' (did you mean 'file'?); one of webhook, mqtt, email, command, file"),
+        assertEquals(List.of("byre.yaml:4:21: unknown channel type 'fil' (did you mean 'file'?); one of webhook, mqtt, email, command, file"),
                 problems("  barn-log: { type: fil, path: alerts.txt }\n"));
         // byre's own kinds do not know it
         ConfigException e = assertThrows(ConfigException.class, () -> ConfigLoader.parse("byre.yaml",

@@ -130,6 +130,6 @@ class MqttChannelTest {
     void retainMustBeTrueOrFalse() {
         ConfigException e = org.junit.jupiter.api.Assertions.assertThrows(ConfigException.class, () -> ConfigLoader.parse("byre.yaml",
                 "site: larkmoor\nnotify:\n  barn-siren: { type: mqtt, topic: larkmoor/siren/set, retain: sometimes }\n", dir, n -> null));
-        assertEquals("[byre.yaml:3: barn-siren.retain must be true or false, not 'sometimes']", e.problems().stream().map(Object::toString).toList().toString());
+        assertEquals("[byre.yaml:3:64: barn-siren.retain must be true or false, not 'sometimes']", e.problems().stream().map(Object::toString).toList().toString());
     }
 }
