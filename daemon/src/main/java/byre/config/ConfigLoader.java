@@ -33,11 +33,6 @@ public final class ConfigLoader {
 
     private ConfigLoader() {}
 
-    /** Loads and validates a configuration file, with byre's channel kinds. */
-    public static ByreConfig load(Path file) throws ConfigException {
-        return load(file, byre.notify.ChannelTypes.ALL);
-    }
-
     /** Loads and validates a configuration file; {@code channelTypes} are the kinds a channel's {@code type:} may name. */
     public static ByreConfig load(Path file, List<? extends ChannelType<?>> channelTypes) throws ConfigException {
         String text;
@@ -53,13 +48,10 @@ public final class ConfigLoader {
         return parse(file.toString(), text, dir, System::getenv, channelTypes);
     }
 
-    /** Validates configuration text, with byre's channel kinds; relative paths are resolved against {@code baseDir}. */
-    public static ByreConfig parse(String fileName, String text, Path baseDir, Function<String, String> environment)
-            throws ConfigException {
-        return parse(fileName, text, baseDir, environment, byre.notify.ChannelTypes.ALL);
-    }
-
-    /** The same with the given channel kinds. */
+    /**
+     * Validates configuration text; relative paths are resolved against {@code baseDir}, {@code environment} looks up
+     * the variables the configuration names, and {@code channelTypes} are the kinds a channel's {@code type:} may name.
+     */
     public static ByreConfig parse(String fileName, String text, Path baseDir, Function<String, String> environment,
                                    List<? extends ChannelType<?>> channelTypes) throws ConfigException {
         MappingNode top = compose(fileName, text);

@@ -7,11 +7,11 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import byre.config.ByreConfig;
 import byre.config.ConfigException;
-import byre.config.ConfigLoader;
 import byre.daemon.ConfigRuleContext;
 import byre.rules.CompileResult;
 import byre.rules.RuleCompiler;
 import byre.rules.RuleSource;
+import byre.testing.Configs;
 import byre.units.Quantity;
 import java.nio.file.Path;
 import java.util.List;
@@ -30,7 +30,7 @@ class CentralConfigTest {
             """;
 
     static ByreConfig load(String text) throws ConfigException {
-        return ConfigLoader.parse("central.yaml", text, Path.of("."), k -> null);
+        return Configs.parse("central.yaml", text, Path.of("."), k -> null);
     }
 
     static CompileResult compile(ByreConfig c, String rules) {

@@ -5,6 +5,7 @@ import static org.junit.jupiter.api.Assertions.assertNull;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import byre.notify.WebhookChannel;
+import byre.testing.Configs;
 import java.nio.file.Path;
 import java.time.Duration;
 import java.time.LocalTime;
@@ -27,7 +28,7 @@ class AlertConfigTest {
             """;
 
     ByreConfig parse(String text) throws ConfigException {
-        return ConfigLoader.parse("byre.yaml", text, dir, name -> null);
+        return Configs.parse("byre.yaml", text, dir, name -> null);
     }
 
     @Test

@@ -5,6 +5,7 @@ import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
+import byre.testing.Configs;
 import byre.units.Quantity;
 import byre.units.Unit;
 import java.nio.file.Files;
@@ -54,7 +55,7 @@ class ConfigLoaderTest {
             """;
 
     ByreConfig parse(String text) throws ConfigException {
-        return ConfigLoader.parse("byre.yaml", text, dir, name -> null);
+        return Configs.parse("byre.yaml", text, dir, name -> null);
     }
 
     List<String> problems(String text) {
@@ -136,7 +137,7 @@ class ConfigLoaderTest {
 
     @Test
     void secretsFromTheEnvironment() throws Exception {
-        ByreConfig c = ConfigLoader.parse("byre.yaml", "site: x\nmqtt:\n  password-env: BYRE_MQTT_PASSWORD\n", dir,
+        ByreConfig c = Configs.parse("byre.yaml", "site: x\nmqtt:\n  password-env: BYRE_MQTT_PASSWORD\n", dir,
                 Map.of("BYRE_MQTT_PASSWORD", "s3cret")::get);
         assertEquals("s3cret", c.mqtt().password().reveal());
         assertEquals(List.of("byre.yaml:3:17: mqtt.password-env names $NOPE, which is not set"),

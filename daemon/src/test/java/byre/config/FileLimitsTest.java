@@ -6,6 +6,7 @@ import static org.junit.jupiter.api.Assertions.assertNull;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
+import byre.testing.Configs;
 import java.io.RandomAccessFile;
 import java.nio.file.Files;
 import java.nio.file.Path;
@@ -31,7 +32,7 @@ class FileLimitsTest {
             """;
 
     ByreConfig parse(String text) throws ConfigException {
-        return ConfigLoader.parse("byre.yaml", text, dir, name -> null);
+        return Configs.parse("byre.yaml", text, dir, name -> null);
     }
 
     List<String> problems(String text) {
@@ -114,9 +115,9 @@ class FileLimitsTest {
     @Test
     @Timeout(value = 60, unit = TimeUnit.SECONDS)
     void theConfigurationItselfIsReadWithTheSameCare() throws Exception {
-        ConfigException e = assertThrows(ConfigException.class, () -> ConfigLoader.load(fifo(dir.resolve("byre.yaml"))));
+        ConfigException e = assertThrows(ConfigException.class, () -> Configs.load(fifo(dir.resolve("byre.yaml"))));
         assertTrue(e.problems().get(0).toString().contains("is not a regular file"), e.problems().toString());
-        e = assertThrows(ConfigException.class, () -> ConfigLoader.load(sparse(dir.resolve("big.yaml"), 200L * 1024 * 1024)));
+        e = assertThrows(ConfigException.class, () -> Configs.load(sparse(dir.resolve("big.yaml"), 200L * 1024 * 1024)));
         assertTrue(e.problems().get(0).toString().contains("has 200.0 MiB, more than the 1.0 MiB"), e.problems().toString());
     }
 

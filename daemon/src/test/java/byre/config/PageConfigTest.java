@@ -6,6 +6,7 @@ import static org.junit.jupiter.api.Assertions.assertNull;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
+import byre.testing.Configs;
 import java.nio.file.Path;
 import java.time.Duration;
 import java.util.List;
@@ -28,7 +29,7 @@ class PageConfigTest {
             """;
 
     ByreConfig parse(String page) throws ConfigException {
-        return ConfigLoader.parse("byre.yaml", BASE + page, dir, name -> null);
+        return Configs.parse("byre.yaml", BASE + page, dir, name -> null);
     }
 
     List<String> problems(String page) {

@@ -12,6 +12,7 @@ import byre.config.ChannelFields;
 import byre.config.ConfigException;
 import byre.config.ConfigLoader;
 import byre.history.HistoryStore;
+import byre.testing.Configs;
 import byre.testing.MutableClock;
 import io.micrometer.core.instrument.simple.SimpleMeterRegistry;
 import java.io.IOException;
@@ -109,7 +110,7 @@ class FifthChannelTest {
         assertEquals(List.of("byre.yaml:4:21: unknown channel type 'fil' (did you mean 'file'?); one of webhook, mqtt, email, command, file"),
                 problems("  barn-log: { type: fil, path: alerts.txt }\n"));
         // byre's own kinds do not know it
-        ConfigException e = assertThrows(ConfigException.class, () -> ConfigLoader.parse("byre.yaml",
+        ConfigException e = assertThrows(ConfigException.class, () -> Configs.parse("byre.yaml",
                 "site: larkmoor\nnotify:\n  barn-log: { type: file, path: alerts.txt }\n", dir, n -> null));
         assertTrue(e.problems().get(0).toString().endsWith("; one of webhook, mqtt, email, command"), e.problems().toString());
     }
