@@ -4,6 +4,7 @@ import byre.config.ByreConfig;
 import byre.config.ConfigException;
 import byre.config.ConfigLoader;
 import byre.config.ConfigProblem;
+import byre.notify.ChannelTypes;
 import java.io.PrintStream;
 import java.nio.file.Path;
 import picocli.CommandLine.Option;
@@ -34,7 +35,7 @@ final class ConfigOption {
     /** Loads the configuration, or prints every problem and returns null. */
     ByreConfig load(PrintStream err) {
         try {
-            return ConfigLoader.load(path());
+            return ConfigLoader.load(path(), ChannelTypes.ALL);
         } catch (ConfigException e) {
             for (ConfigProblem p : e.problems()) err.println(p);
             err.println("byre: the configuration has " + e.problems().size() + " problem" + (e.problems().size() == 1 ? "" : "s") + "; nothing was started.");

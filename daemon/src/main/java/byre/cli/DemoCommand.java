@@ -10,6 +10,7 @@ import byre.demo.FeedPublisher;
 import byre.demo.LarkmoorFarm;
 import byre.demo.SimClock;
 import byre.mqtt.EmbeddedBroker;
+import byre.notify.ChannelTypes;
 import byre.zones.ClimateDeriver;
 import io.micrometer.core.instrument.simple.SimpleMeterRegistry;
 import java.io.IOException;
@@ -73,7 +74,7 @@ final class DemoCommand implements Callable<Integer> {
             String yaml = DemoConfig.yaml(mqttPort, 0, rules, scratch.resolve("history.db"));
             ByreConfig cfg;
             try {
-                cfg = ConfigLoader.parse("demo:larkmoor.yaml", yaml, scratch, System::getenv);
+                cfg = ConfigLoader.parse("demo:larkmoor.yaml", yaml, scratch, System::getenv, ChannelTypes.ALL);
             } catch (ConfigException e) {
                 System.err.println("byre demo: the built-in configuration is broken:\n" + e.getMessage());
                 return Main.FAILURE;

@@ -15,6 +15,7 @@ import byre.history.HistoryReader;
 import byre.history.HistoryStore;
 import byre.history.StreamKey;
 import byre.ingest.Reading;
+import byre.notify.ChannelTypes;
 import byre.rules.CompileResult;
 import byre.rules.RuleCompiler;
 import byre.rules.RuleContext;
@@ -84,7 +85,7 @@ final class ReplayCommand implements Callable<Integer> {
         Path cfgPath = configFile != null ? configFile : ConfigOption.fromEnvironment();
         if (cfgPath != null) {
             try {
-                config = ConfigLoader.load(cfgPath);
+                config = ConfigLoader.load(cfgPath, ChannelTypes.ALL);
             } catch (ConfigException e) {
                 for (ConfigProblem p : e.problems()) System.err.println(p);
                 return Main.USAGE;

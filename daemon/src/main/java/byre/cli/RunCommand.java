@@ -125,7 +125,7 @@ final class RunCommand implements Callable<Integer> {
             java.nio.file.Path file = daemon.config().file();
             LOG.info("reload requested (SIGHUP): rules from {}", daemon.config().rulePaths());
             try {
-                byre.config.ByreConfig fresh = byre.config.ConfigLoader.load(file);
+                byre.config.ByreConfig fresh = byre.config.ConfigLoader.load(file, byre.notify.ChannelTypes.ALL);
                 if (!fresh.equals(daemon.config().withRulePaths(fresh.rulePaths()))) {
                     LOG.warn("{} has changed beyond the rule files: restart byre (systemctl restart byre) to apply it", file);
                 }

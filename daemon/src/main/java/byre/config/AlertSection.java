@@ -48,9 +48,12 @@ final class AlertSection {
     }
 
     private static List<String> channelList(NodeReader r, Node node, String what, Map<String, ChannelConfig> channels) {
-        List<String> out = r.stringList(node, what);
-        for (String c : out) {
-            if (!channels.containsKey(c)) r.problem(node, what + " names unknown channel '" + c + "'" + Suggest.hint(c, channels.keySet()));
+        List<String> out = new ArrayList<>();
+        for (NodeReader.Item c : r.items(node, what)) {
+            if (!channels.containsKey(c.value())) {
+                r.problem(c.node(), what + " names unknown channel '" + c.value() + "'" + Suggest.hint(c.value(), channels.keySet()));
+            }
+            out.add(c.value());
         }
         return out;
     }

@@ -35,28 +35,33 @@ final class CentralSection {
             String id = e.getKey();
             Node n = e.getValue();
             if (!id.matches("[A-Za-z0-9][A-Za-z0-9_.-]*")) {
-                r.problem(n, "site id '" + id + "' must be letters, digits, '-', '_' or '.' (it is a topic level of that site)");
+                r.problem(r.keyOf(n), "site id '" + id + "' must be letters, digits, '-', '_' or '.' (it is a topic level of that site)");
                 continue;
             }
-            if (id.equals(ownSite)) r.problem(n, "site '" + id + "' is this byre's own site: the centre needs a site id of its own");
-            if (zones.containsKey(id)) r.problem(n, "site '" + id + "' has the name of a zone of this configuration");
+            if (id.equals(ownSite)) r.problem(r.keyOf(n), "site '" + id + "' is this byre's own site: the centre needs a site id of its own");
+            if (zones.containsKey(id)) r.problem(r.keyOf(n), "site '" + id + "' has the name of a zone of this configuration");
             Map<String, Node> f = r.mapping(n, SITE_KEYS, "site " + id);
-            List<String> siteZones = r.stringList(f.get("zones"), "zones");
+            List<NodeReader.Item> zoneItems = r.items(f.get("zones"), "zones");
+            List<String> siteZones = zoneItems.stream().map(NodeReader.Item::value).toList();
             if (siteZones.isEmpty()) r.problem(n, "site " + id + " lists no zones (zones: [cow-shed, calf-pen-1])");
-            List<String> groups = r.stringList(f.get("groups"), "groups");
-            if (groups.contains(CentralSettings.SITES_GROUP)) {
-                r.problem(f.get("groups"), "group '" + CentralSettings.SITES_GROUP + "' is every site's own zone (its online stream); choose another name");
+            List<String> groups = new ArrayList<>();
+            for (NodeReader.Item g : r.items(f.get("groups"), "groups")) {
+                groups.add(g.value());
+                if (g.value().equals(CentralSettings.SITES_GROUP)) {
+                    r.problem(g.node(), "group '" + CentralSettings.SITES_GROUP + "' is every site's own zone (its online stream); choose another name");
+                }
             }
             Duration maxAge = r.duration(f.get("max-age"), "max-age", Duration.ofMinutes(5));
             int line = NodeReader.line(n);
-            for (String z : siteZones) {
+            for (NodeReader.Item item : zoneItems) {
+                String z = item.value();
                 if (!z.matches("[A-Za-z0-9][A-Za-z0-9_.-]*")) {
-                    r.problem(f.get("zones"), "zone id '" + z + "' must be letters, digits, '-', '_' or '.'");
+                    r.problem(item.node(), "zone id '" + z + "' must be letters, digits, '-', '_' or '.'");
                     continue;
                 }
                 String zoneId = CentralSettings.zoneId(id, z);
                 if (zones.containsKey(zoneId)) {
-                    r.problem(f.get("zones"), "site " + id + " lists zone " + z + " twice");
+                    r.problem(item.node(), "site " + id + " lists zone " + z + " twice");
                     continue;
                 }
                 List<String> zoneSensors = new ArrayList<>();

@@ -13,7 +13,7 @@ import org.snakeyaml.engine.v2.nodes.SequenceNode;
 
 /**
  * The keys of one channel as written, for its {@link ChannelType} to read. Every reader names the value
- * {@code <channel>.<key>} in its messages and records a problem at the value's line instead of throwing.
+ * {@code <channel>.<key>} in its messages and records a problem at the value's line and column instead of throwing.
  */
 public final class ChannelFields {
     private final NodeReader reader;

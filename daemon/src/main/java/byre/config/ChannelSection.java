@@ -28,7 +28,7 @@ final class ChannelSection {
             Node n = e.getValue();
             if (name.contains("/")) {
                 // names with '/' are the site's own event stream (<prefix>/<site>/events)
-                r.problem(n, "channel name '" + name + "' may not contain '/'");
+                r.problem(r.keyOf(n), "channel name '" + name + "' may not contain '/'");
                 continue;
             }
             if (!(n instanceof MappingNode mn)) {

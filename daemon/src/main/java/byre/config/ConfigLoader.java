@@ -9,6 +9,7 @@ import java.time.ZoneId;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Map;
+import java.util.Optional;
 import java.util.Set;
 import java.util.function.Function;
 import org.snakeyaml.engine.v2.api.LoadSettings;
@@ -21,7 +22,7 @@ import org.snakeyaml.engine.v2.nodes.SequenceNode;
 
 /**
  * Reads the YAML configuration (README, Configuration) and checks all of it before anything starts,
- * collecting every problem as {@code file:line: message}. Each section has its own reader beside the settings
+ * collecting every problem as {@code file:line:col: message}. Each section has its own reader beside the settings
  * it makes ({@code MqttSection}, {@code SensorSection}, ...); this class parses the file, hands each section over
  * in turn and builds the {@link ByreConfig} when no problem was found. Secrets are read from the files or
  * environment variables the configuration names; their values never enter a message.
@@ -32,33 +33,25 @@ public final class ConfigLoader {
 
     private ConfigLoader() {}
 
-    /** Loads and validates a configuration file, with byre's channel kinds. */
-    public static ByreConfig load(Path file) throws ConfigException {
-        return load(file, byre.notify.ChannelTypes.ALL);
-    }
-
     /** Loads and validates a configuration file; {@code channelTypes} are the kinds a channel's {@code type:} may name. */
     public static ByreConfig load(Path file, List<? extends ChannelType<?>> channelTypes) throws ConfigException {
         String text;
         try {
             text = new String(SmallFile.read(file, SmallFile.CONFIG_MAX_BYTES), StandardCharsets.UTF_8);
         } catch (SmallFile.Refused e) {
-            throw new ConfigException(List.of(new ConfigProblem(file.toString(), 0, "cannot read the configuration: " + e.getMessage())));
+            throw new ConfigException(List.of(ConfigProblem.ofFile(file.toString(), "cannot read the configuration: " + e.getMessage())));
         } catch (IOException e) {
-            throw new ConfigException(List.of(new ConfigProblem(file.toString(), 0,
+            throw new ConfigException(List.of(ConfigProblem.ofFile(file.toString(),
                     "cannot read the configuration: " + SmallFile.describe(e))));
         }
         Path dir = file.toAbsolutePath().getParent();
         return parse(file.toString(), text, dir, System::getenv, channelTypes);
     }
 
-    /** Validates configuration text, with byre's channel kinds; relative paths are resolved against {@code baseDir}. */
-    public static ByreConfig parse(String fileName, String text, Path baseDir, Function<String, String> environment)
-            throws ConfigException {
-        return parse(fileName, text, baseDir, environment, byre.notify.ChannelTypes.ALL);
-    }
-
-    /** The same with the given channel kinds. */
+    /**
+     * Validates configuration text; relative paths are resolved against {@code baseDir}, {@code environment} looks up
+     * the variables the configuration names, and {@code channelTypes} are the kinds a channel's {@code type:} may name.
+     */
     public static ByreConfig parse(String fileName, String text, Path baseDir, Function<String, String> environment,
                                    List<? extends ChannelType<?>> channelTypes) throws ConfigException {
         MappingNode top = compose(fileName, text);
@@ -91,13 +84,12 @@ public final class ConfigLoader {
             LoadSettings settings = LoadSettings.builder().setLabel(fileName).setMaxAliasesForCollections(10).build();
             root = new Compose(settings).composeString(text).orElse(null);
         } catch (MarkedYamlEngineException e) {
-            int line = e.getProblemMark().map(m -> m.getLine() + 1).orElse(0);
-            throw new ConfigException(List.of(new ConfigProblem(fileName, line, "not valid YAML: " + e.getProblem())));
+            throw new ConfigException(List.of(ConfigProblem.at(fileName, e.getProblemMark(), "not valid YAML: " + e.getProblem())));
         } catch (YamlEngineException e) {
-            throw new ConfigException(List.of(new ConfigProblem(fileName, 0, "not valid YAML: " + e.getMessage())));
+            throw new ConfigException(List.of(ConfigProblem.ofFile(fileName, "not valid YAML: " + e.getMessage())));
         }
         if (!(root instanceof MappingNode top)) {
-            throw new ConfigException(List.of(new ConfigProblem(fileName, root == null ? 0 : NodeReader.line(root),
+            throw new ConfigException(List.of(ConfigProblem.at(fileName, root == null ? Optional.empty() : root.getStartMark(),
                     "the configuration must be a mapping of keys such as site:, mqtt:, sensors:, zones:")));
         }
         return top;

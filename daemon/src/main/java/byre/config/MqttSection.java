@@ -25,7 +25,7 @@ final class MqttSection {
         }
         String listen = r.string(m.get("listen"), "mqtt.listen", "127.0.0.1:1883");
         NodeReader.HostPort hp = r.hostPort(m.get("listen"), "mqtt.listen", listen);
-        if (broker.equals("embedded") && !byre.mqtt.EmbeddedBroker.isLoopback(hp.host())) {
+        if (broker.equals("embedded") && !Addresses.isLoopback(hp.host())) {
             r.problem(m.get("listen") != null ? m.get("listen") : m.get("broker"), "mqtt.listen '" + listen + "': the embedded broker "
                     + "listens on loopback only (127.0.0.1 or ::1); it has no users and is for the demo, tests and one-machine "
                     + "trials. For sensors on the farm network use the barn's mosquitto (mqtt.broker: tcp://127.0.0.1:1883)");

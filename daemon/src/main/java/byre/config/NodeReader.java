@@ -21,7 +21,7 @@ import org.snakeyaml.engine.v2.nodes.SequenceNode;
 
 /**
  * Typed values from the nodes of one configuration file. A value of the wrong type or form becomes a
- * {@link ConfigProblem} at its line, and the reader goes on with a fallback, so one run finds every problem.
+ * {@link ConfigProblem} at its line and column, and the reader goes on with a fallback, so one run finds every problem.
  */
 final class NodeReader {
     private final String fileName;
@@ -127,9 +127,16 @@ final class NodeReader {
     /** A list of single values, or one value as a list of one. */
     List<String> stringList(Node node, String what) {
         List<String> out = new ArrayList<>();
+        for (Item item : items(node, what)) out.add(item.value());
+        return out;
+    }
+
+    /** The same with each value's node, for a message about one value of the list. */
+    List<Item> items(Node node, String what) {
+        List<Item> out = new ArrayList<>();
         if (node == null) return out;
         if (node instanceof ScalarNode s) {
-            if (!s.getValue().isEmpty()) out.add(s.getValue());
+            if (!s.getValue().isEmpty()) out.add(new Item(s.getValue(), s));
             return out;
         }
         if (!(node instanceof SequenceNode seq)) {
@@ -138,10 +145,13 @@ final class NodeReader {
         }
         for (Node item : seq.getValue()) {
             String v = string(item, what + " item", null);
-            if (v != null) out.add(v);
+            if (v != null) out.add(new Item(v, item));
         }
         return out;
     }
+
+    /** One value of a list and where it is written. */
+    record Item(String value, Node node) {}
 
     /** The secret in the file the node names; null (with a problem) when it is empty or cannot be read. */
     Secret secretFile(Node node, String what) {
@@ -187,9 +197,9 @@ final class NodeReader {
         return p.isAbsolute() || baseDir == null ? p : baseDir.resolve(p).normalize();
     }
 
-    /** Records a problem at the node's line (at the file when there is no node). */
+    /** Records a problem where the node starts (at the file when there is no node). */
     void problem(Node node, String message) {
-        problems.add(new ConfigProblem(fileName, node == null ? 0 : line(node), message));
+        problems.add(ConfigProblem.at(fileName, node == null ? Optional.empty() : node.getStartMark(), message));
     }
 
     /** The node's line, from 1. */

@@ -28,7 +28,7 @@ final class SensorSection {
             String id = e.getKey();
             Node n = e.getValue();
             if (!id.matches("[A-Za-z0-9][A-Za-z0-9_.-]*")) {
-                r.problem(n, "sensor id '" + id + "' must be letters, digits, '-', '_' or '.'");
+                r.problem(r.keyOf(n), "sensor id '" + id + "' must be letters, digits, '-', '_' or '.'");
             }
             Map<String, Node> f = r.mapping(n, KEYS, "sensor " + id);
             String topic = r.string(f.get("topic"), "topic", null);

@@ -2,6 +2,7 @@ package byre.config;
 
 import byre.units.Suggest;
 import java.time.Duration;
+import java.util.ArrayList;
 import java.util.HashMap;
 import java.util.LinkedHashMap;
 import java.util.List;
@@ -24,18 +25,20 @@ final class ZoneSection {
         for (Map.Entry<String, Node> e : r.mapping(node, null, "zones").entrySet()) {
             String id = e.getKey();
             Node n = e.getValue();
-            if (!id.matches("[A-Za-z0-9][A-Za-z0-9_.-]*")) r.problem(n, "zone id '" + id + "' must be letters, digits, '-', '_' or '.'");
+            if (!id.matches("[A-Za-z0-9][A-Za-z0-9_.-]*")) r.problem(r.keyOf(n), "zone id '" + id + "' must be letters, digits, '-', '_' or '.'");
             Map<String, Node> f = r.mapping(n, KEYS, "zone " + id);
             List<String> groups = r.stringList(f.get("groups"), "groups");
-            List<String> zs = r.stringList(f.get("sensors"), "sensors");
-            if (zs.isEmpty()) r.problem(n, "zone " + id + " lists no sensors");
-            for (String s : zs) {
+            List<String> zs = new ArrayList<>();
+            for (NodeReader.Item item : r.items(f.get("sensors"), "sensors")) {
+                String s = item.value();
+                zs.add(s);
                 if (!sensors.containsKey(s) && !isFamilyMember(s, sensors)) {
-                    r.problem(f.get("sensors"), "zone " + id + " names unknown sensor '" + s + "'" + Suggest.hint(s, sensors.keySet()));
+                    r.problem(item.node(), "zone " + id + " names unknown sensor '" + s + "'" + Suggest.hint(s, sensors.keySet()));
                 }
                 String other = sensorOwner.putIfAbsent(s, id);
-                if (other != null) r.problem(f.get("sensors"), "sensor " + s + " is already in zone " + other + "; a sensor belongs to one zone");
+                if (other != null) r.problem(item.node(), "sensor " + s + " is already in zone " + other + "; a sensor belongs to one zone");
             }
+            if (zs.isEmpty()) r.problem(n, "zone " + id + " lists no sensors");
             double elevationM = Double.NaN;
             Node el = f.get("elevation");
             if (el != null) {

@@ -1,5 +1,6 @@
 package byre.mqtt;
 
+import byre.config.Addresses;
 import byre.log.RateLimitedLog;
 import io.micrometer.core.instrument.Counter;
 import io.micrometer.core.instrument.MeterRegistry;
@@ -10,11 +11,9 @@ import io.moquette.broker.subscriptions.Topic;
 import java.io.IOException;
 import java.io.InputStream;
 import java.io.OutputStream;
-import java.net.InetAddress;
 import java.net.InetSocketAddress;
 import java.net.ServerSocket;
 import java.net.Socket;
-import java.net.UnknownHostException;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.time.Duration;
@@ -85,7 +84,7 @@ public final class EmbeddedBroker implements AutoCloseable {
     }
 
     private static EmbeddedBroker start(String host, int port, boolean gated, MeterRegistry registry) throws IOException {
-        if (!isLoopback(host)) {
+        if (!Addresses.isLoopback(host)) {
             throw new IllegalArgumentException("the embedded broker listens on loopback addresses only (127.0.0.1, ::1), not " + host);
         }
         BrokerLog.install();
@@ -161,20 +160,6 @@ public final class EmbeddedBroker implements AutoCloseable {
             s.setReuseAddress(true);
             s.bind(new InetSocketAddress(host, 0));
             return s.getLocalPort();
-        }
-    }
-
-    /** Whether {@code host} is {@code localhost} or a loopback address literal; names are not looked up. */
-    public static boolean isLoopback(String host) {
-        if (host == null) return false;
-        String h = host.strip();
-        if (h.startsWith("[") && h.endsWith("]")) h = h.substring(1, h.length() - 1);
-        if (h.equalsIgnoreCase("localhost")) return true;
-        if (!h.matches("\\d{1,3}(\\.\\d{1,3}){3}") && !(h.contains(":") && h.matches("[0-9A-Fa-f:.]+"))) return false;
-        try {
-            return InetAddress.getByName(h).isLoopbackAddress(); // a literal: no name service is asked
-        } catch (UnknownHostException e) {
-            return false;
         }
     }
 

@@ -1,10 +1,10 @@
 package byre.bench;
 
 import byre.config.ByreConfig;
-import byre.config.ConfigLoader;
 import byre.daemon.Daemon;
 import byre.daemon.Pipeline;
 import byre.rules.ZoneReading;
+import byre.testing.Configs;
 import byre.testing.Mosquitto;
 import byre.zones.ClimateDeriver;
 import io.micrometer.core.instrument.simple.SimpleMeterRegistry;
@@ -117,7 +117,7 @@ public final class CentralBench {
             Files.writeString(dir.resolve("rules.d/sites.rules"), "watch site-down\n  raise when @sites.online == 0 for 10m\n"
                     + "  clear when @sites.online == 1 for 2m\n  notify office\nwatch dairy-heat\n  raise when @dairy.thi >= 99\n"
                     + "  clear when @dairy.thi <= 98\n  notify office\n");
-            ByreConfig cfg = ConfigLoader.parse("central.yaml", y.toString(), dir, k -> null);
+            ByreConfig cfg = Configs.parse("central.yaml", y.toString(), dir, k -> null);
             Lags lags = new Lags();
             Pipeline.ZoneListener onRules = r -> lags.add(System.currentTimeMillis() - r.at().toEpochMilli());
             try (Daemon d = Daemon.create(cfg, Clock.systemUTC(), new SimpleMeterRegistry()).listen(onRules).start(new ClimateDeriver())) {

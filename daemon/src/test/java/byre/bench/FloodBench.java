@@ -1,10 +1,10 @@
 package byre.bench;
 
 import byre.config.ByreConfig;
-import byre.config.ConfigLoader;
 import byre.daemon.Daemon;
 import byre.daemon.Pipeline;
 import byre.rules.ZoneReading;
+import byre.testing.Configs;
 import byre.testing.Mosquitto;
 import byre.testing.TestPublisher;
 import byre.units.Quantity;
@@ -56,7 +56,7 @@ public final class FloodBench {
                       cow-shed:   { groups: [cows], sensors: [shed-dry] }
                     history: { path: %s }
                     """.formatted(m.uri(), UUID.randomUUID().toString().substring(0, 8), work.resolve("history.db"));
-            ByreConfig cfg = ConfigLoader.parse("flood.yaml", yaml, work, n -> null);
+            ByreConfig cfg = Configs.parse("flood.yaml", yaml, work, n -> null);
             try (Daemon d = Daemon.create(cfg, Clock.systemUTC(), () -> System.nanoTime() + shift.get(), new SimpleMeterRegistry())
                     .listen(new Pipeline.ZoneListener() {
                         @Override

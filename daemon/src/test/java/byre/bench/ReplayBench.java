@@ -2,7 +2,6 @@ package byre.bench;
 
 import byre.cli.Main;
 import byre.config.ByreConfig;
-import byre.config.ConfigLoader;
 import byre.daemon.ConfigRuleContext;
 import byre.daemon.Replay;
 import byre.daemon.RuleFiles;
@@ -13,6 +12,7 @@ import byre.rules.RuleCompiler;
 import byre.rules.RuleSet;
 import byre.rules.ZoneReading;
 import byre.rules.eval.WatchEngine;
+import byre.testing.Configs;
 import byre.units.Quantity;
 import byre.zones.ClimateDeriver;
 import java.io.BufferedReader;
@@ -57,7 +57,7 @@ public final class ReplayBench {
             Path cfgFile = work.resolve("byre.yaml");
             Files.writeString(cfgFile, LoadConfig.yaml(SENSORS, ZONES, "tcp://127.0.0.1:1883", null, "load", rules, work.resolve("h.db"))
                     .replace("bench-sink", "hook"));
-            ByreConfig config = ConfigLoader.load(cfgFile);
+            ByreConfig config = Configs.load(cfgFile);
             CompileResult compiled = RuleCompiler.compile(RuleFiles.read(List.of(rules)), new ConfigRuleContext(config));
             if (compiled.hasErrors() || !compiled.warnings().isEmpty()) throw new IllegalStateException(compiled.render());
             RuleSet ruleSet = compiled.ruleSet().orElseThrow();

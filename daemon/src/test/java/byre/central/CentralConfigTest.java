@@ -7,11 +7,11 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import byre.config.ByreConfig;
 import byre.config.ConfigException;
-import byre.config.ConfigLoader;
 import byre.daemon.ConfigRuleContext;
 import byre.rules.CompileResult;
 import byre.rules.RuleCompiler;
 import byre.rules.RuleSource;
+import byre.testing.Configs;
 import byre.units.Quantity;
 import java.nio.file.Path;
 import java.util.List;
@@ -30,7 +30,7 @@ class CentralConfigTest {
             """;
 
     static ByreConfig load(String text) throws ConfigException {
-        return ConfigLoader.parse("central.yaml", text, Path.of("."), k -> null);
+        return Configs.parse("central.yaml", text, Path.of("."), k -> null);
     }
 
     static CompileResult compile(ByreConfig c, String rules) {
@@ -130,7 +130,7 @@ class CentralConfigTest {
     }
 
     @Test
-    void mistakesInTheSectionAreListedWithTheirLine() {
+    void mistakesInTheSectionAreListedWithTheirLineAndColumn() {
         ConfigException e = assertThrows(ConfigException.class, () -> load("""
                 site: hub
                 central:
@@ -140,10 +140,10 @@ class CentralConfigTest {
                     brackenhill: { zones: [cow-shed], groups: [sites] }
                 """));
         String m = e.getMessage();
-        assertTrue(m.contains("central.yaml:4: unknown key 'zone' in site larkmoor (did you mean 'zones'?)"), m);
-        assertTrue(m.contains("central.yaml:4: site larkmoor lists no zones"), m);
-        assertTrue(m.contains("central.yaml:5: site 'hub' is this byre's own site"), m);
-        assertTrue(m.contains("central.yaml:6: group 'sites' is every site's own zone"), m);
+        assertTrue(m.contains("central.yaml:4:17: unknown key 'zone' in site larkmoor (did you mean 'zones'?)"), m);
+        assertTrue(m.contains("central.yaml:4:15: site larkmoor lists no zones"), m);
+        assertTrue(m.contains("central.yaml:5:5: site 'hub' is this byre's own site"), m);
+        assertTrue(m.contains("central.yaml:6:48: group 'sites' is every site's own zone"), m);
         ConfigException none = assertThrows(ConfigException.class, () -> load("site: hub\ncentral:\n  site: {}\n"));
         assertTrue(none.getMessage().contains("unknown key 'site' in central (did you mean 'sites'?)"), none.getMessage());
     }

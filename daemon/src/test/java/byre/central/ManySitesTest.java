@@ -8,12 +8,12 @@ import static org.junit.jupiter.api.Assumptions.assumeTrue;
 
 import byre.alerts.AckResult;
 import byre.config.ByreConfig;
-import byre.config.ConfigLoader;
 import byre.daemon.Daemon;
 import byre.history.HistoryReader;
 import byre.history.HistoryRow;
 import byre.history.StreamKey;
 import byre.json.Json;
+import byre.testing.Configs;
 import byre.testing.Mosquitto;
 import byre.testing.TestPublisher;
 import byre.units.Quantity;
@@ -65,7 +65,7 @@ class ManySitesTest {
         Path barnRules = Files.createDirectories(dir.resolve("barn-rules"));
         Files.writeString(barnRules.resolve("warm.rules"),
                 "watch shed-warm\n  raise when cow-shed.dry-bulb > 30\n  clear when cow-shed.dry-bulb < 28\n  notify office\n");
-        ByreConfig barnCfg = ConfigLoader.parse("barn.yaml", """
+        ByreConfig barnCfg = Configs.parse("barn.yaml", """
                 site: larkmoor
                 mqtt: { broker: tcp://127.0.0.1:%d, client-id: byre-larkmoor, accept-acks: true }
                 sensors:
@@ -89,7 +89,7 @@ class ManySitesTest {
                   raise when @dairy.thi > 90
                   notify office
                 """);
-        ByreConfig centralCfg = ConfigLoader.parse("central.yaml", """
+        ByreConfig centralCfg = Configs.parse("central.yaml", """
                 site: hub
                 mqtt: { broker: tcp://127.0.0.1:%d, client-id: byre-hub }
                 central:

@@ -4,9 +4,9 @@ import static org.awaitility.Awaitility.await;
 import static org.junit.jupiter.api.Assertions.assertFalse;
 
 import byre.config.ByreConfig;
-import byre.config.ConfigLoader;
 import byre.daemon.Daemon;
 import byre.mqtt.EmbeddedBroker;
+import byre.testing.Configs;
 import byre.testing.MutableClock;
 import byre.testing.TestPublisher;
 import byre.units.Quantity;
@@ -36,7 +36,7 @@ class SiteDownWatchTest {
                   notify office
                 """);
         int port = EmbeddedBroker.freePort("127.0.0.1");
-        ByreConfig cfg = ConfigLoader.parse("central.yaml", """
+        ByreConfig cfg = Configs.parse("central.yaml", """
                 site: hub
                 mqtt: { broker: embedded, listen: 127.0.0.1:%d, client-id: byre-hub }
                 central:

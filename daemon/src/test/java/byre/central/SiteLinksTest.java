@@ -3,8 +3,8 @@ package byre.central;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertNull;
 
-import byre.config.ConfigLoader;
 import byre.ingest.Reading;
+import byre.testing.Configs;
 import byre.testing.MutableClock;
 import byre.units.Quantity;
 import java.nio.charset.StandardCharsets;
@@ -21,7 +21,7 @@ class SiteLinksTest {
     final List<Reading> out = new ArrayList<>();
 
     SiteLinks links() throws Exception {
-        var c = ConfigLoader.parse("central.yaml", CentralConfigTest.CENTRAL, Path.of("."), k -> null).central();
+        var c = Configs.parse("central.yaml", CentralConfigTest.CENTRAL, Path.of("."), k -> null).central();
         return new SiteLinks(c, "byre", clock, out::add);
     }
 

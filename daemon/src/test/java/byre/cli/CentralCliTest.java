@@ -4,8 +4,8 @@ import static org.junit.jupiter.api.Assertions.assertEquals;
 
 import byre.admin.OpenAlert;
 import byre.config.ByreConfig;
-import byre.config.ConfigLoader;
 import byre.history.StreamKey;
+import byre.testing.Configs;
 import java.nio.file.Path;
 import java.time.Duration;
 import java.time.Instant;
@@ -18,7 +18,7 @@ class CentralCliTest {
     static final Instant NOW = Instant.parse("2026-07-14T13:35:00Z");
 
     static ByreConfig central() throws Exception {
-        return ConfigLoader.parse("central.yaml", """
+        return Configs.parse("central.yaml", """
                 site: hub
                 central:
                   sites:

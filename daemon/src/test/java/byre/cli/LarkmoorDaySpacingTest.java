@@ -4,13 +4,13 @@ import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import byre.config.ByreConfig;
-import byre.config.ConfigLoader;
 import byre.config.SensorConfig;
 import byre.demo.DemoConfig;
 import byre.demo.FeedMessage;
 import byre.demo.LarkmoorFarm;
 import byre.ingest.Decoded;
 import byre.ingest.PayloadDecoder;
+import byre.testing.Configs;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.time.Duration;
@@ -78,7 +78,7 @@ class LarkmoorDaySpacingTest {
     @Test
     void everyMinuteAndEveryFiveMinutesRaiseTheSameWatches() throws Exception {
         Path cfgFile = config();
-        ByreConfig cfg = ConfigLoader.load(cfgFile);
+        ByreConfig cfg = Configs.load(cfgFile);
         java.util.Map<String, Instant> everyMinute = raised(cfgFile, day(cfg, Duration.ofMinutes(1), 3, false));
         // What the day is built to show (LarkmoorScenario): heat in the cow shed, a dry wick in pen 1, pen 2's silent
         // anemometer, and a cold windy night in both pens.

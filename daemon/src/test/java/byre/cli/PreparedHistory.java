@@ -1,11 +1,11 @@
 package byre.cli;
 
 import byre.config.ByreConfig;
-import byre.config.ConfigLoader;
 import byre.history.HistoryStore;
 import byre.history.HistoryWriter;
 import byre.history.Retention;
 import byre.history.StreamKey;
+import byre.testing.Configs;
 import byre.units.Quantity;
 import java.nio.file.Files;
 import java.nio.file.Path;
@@ -50,7 +50,7 @@ final class PreparedHistory {
         Path db = dir.resolve("history.db");
         Path file = dir.resolve("byre.yaml");
         Files.writeString(file, yaml(db, units));
-        return ConfigLoader.load(file);
+        return Configs.load(file);
     }
 
     /**

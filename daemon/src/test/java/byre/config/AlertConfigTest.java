@@ -5,6 +5,7 @@ import static org.junit.jupiter.api.Assertions.assertNull;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import byre.notify.WebhookChannel;
+import byre.testing.Configs;
 import java.nio.file.Path;
 import java.time.Duration;
 import java.time.LocalTime;
@@ -27,7 +28,7 @@ class AlertConfigTest {
             """;
 
     ByreConfig parse(String text) throws ConfigException {
-        return ConfigLoader.parse("byre.yaml", text, dir, name -> null);
+        return Configs.parse("byre.yaml", text, dir, name -> null);
     }
 
     @Test
@@ -54,18 +55,18 @@ class AlertConfigTest {
 
     @ParameterizedTest(name = "{0}")
     @CsvSource(delimiter = '|', textBlock = """
-            digest time       | digest: { at: "7 o'clock", notify: [office] }        | byre.yaml:5: digest.at must be a time of day HH:MM such as 07:00, not '7 o'clock'
-            digest channel    | digest: { at: "07:00", notify: [ofice] }             | byre.yaml:5: digest.notify names unknown channel 'ofice' (did you mean 'office'?)
-            digest key        | digest: { at: "07:00", notfy: [office] }             | byre.yaml:5: unknown key 'notfy' in digest (did you mean 'notify'?)
-            self channel      | self-alerts: { notify: [night-phon] }                | byre.yaml:5: self-alerts.notify names unknown channel 'night-phon' (did you mean 'night-phone'?)
-            self duration     | self-alerts: { channel-failing-after: soon }         | byre.yaml:5: self-alerts.channel-failing-after must be a duration such as 30s, 20m, 2h, 14d or 5y, not 'soon'
-            rate limit        | notify:\\n  x: { type: mqtt, topic: a/b, rate-limit: lots } | byre.yaml:5: x.rate-limit must be a whole number, not 'lots'
-            tls word          | notify:\\n  x: { type: email, smtp: "h:25", from: a@b, to: c@d, tls: startls } | byre.yaml:5: x.tls must be starttls, implicit or none, not 'startls' (did you mean 'starttls'?)
-            argv not a list   | notify:\\n  x: { type: command, argv: "/bin/send sms" } | byre.yaml:5: x.argv must be a list such as [/usr/local/bin/send-sms, "+440000000000"] (no shell is used)
-            webhook url       | notify:\\n  x: { type: webhook, url: "push.larkmoor.test" } | byre.yaml:5: x.url must start with https:// or http://, not 'push.larkmoor.test'
-            template typo     | notify:\\n  x: { type: webhook, url: "https://h.test/", template: "{message} {incdent}" } | byre.yaml:5: x.template: unknown placeholder '{incdent}' (did you mean '{incident}'?); placeholders are {id} {incident} {event} {site} {watch} {zone} {level} {quantity} {value} {unit} {since} {at} {message} {by}
+            digest time       | digest: { at: "7 o'clock", notify: [office] }        | byre.yaml:5:15: digest.at must be a time of day HH:MM such as 07:00, not '7 o'clock'
+            digest channel    | digest: { at: "07:00", notify: [ofice] }             | byre.yaml:5:33: digest.notify names unknown channel 'ofice' (did you mean 'office'?)
+            digest key        | digest: { at: "07:00", notfy: [office] }             | byre.yaml:5:24: unknown key 'notfy' in digest (did you mean 'notify'?)
+            self channel      | self-alerts: { notify: [night-phon] }                | byre.yaml:5:25: self-alerts.notify names unknown channel 'night-phon' (did you mean 'night-phone'?)
+            self duration     | self-alerts: { channel-failing-after: soon }         | byre.yaml:5:39: self-alerts.channel-failing-after must be a duration such as 30s, 20m, 2h, 14d or 5y, not 'soon'
+            rate limit        | notify:\\n  x: { type: mqtt, topic: a/b, rate-limit: lots } | byre.yaml:5:44: x.rate-limit must be a whole number, not 'lots'
+            tls word          | notify:\\n  x: { type: email, smtp: "h:25", from: a@b, to: c@d, tls: startls } | byre.yaml:5:60: x.tls must be starttls, implicit or none, not 'startls' (did you mean 'starttls'?)
+            argv not a list   | notify:\\n  x: { type: command, argv: "/bin/send sms" } | byre.yaml:5:29: x.argv must be a list such as [/usr/local/bin/send-sms, "+440000000000"] (no shell is used)
+            webhook url       | notify:\\n  x: { type: webhook, url: "push.larkmoor.test" } | byre.yaml:5:28: x.url must start with https:// or http://, not 'push.larkmoor.test'
+            template typo     | notify:\\n  x: { type: webhook, url: "https://h.test/", template: "{message} {incdent}" } | byre.yaml:5:57: x.template: unknown placeholder '{incdent}' (did you mean '{incident}'?); placeholders are {id} {incident} {event} {site} {watch} {zone} {level} {quantity} {value} {unit} {since} {at} {message} {by}
             """)
-    void problemsNameFileAndLine(String name, String yaml, String expected) {
+    void problemsNameFileLineAndColumn(String name, String yaml, String expected) {
         // a second notify: would be a duplicate key, so channel snippets join the first section (line 5 either way)
         String text = yaml.startsWith("notify:") ? CHANNELS + "  " + yaml.substring(yaml.indexOf("\\n") + 2).strip() + "\n"
                 : CHANNELS + yaml + "\n";

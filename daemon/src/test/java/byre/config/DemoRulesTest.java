@@ -7,6 +7,7 @@ import byre.daemon.RuleFiles;
 import byre.demo.DemoConfig;
 import byre.rules.CompileResult;
 import byre.rules.RuleCompiler;
+import byre.testing.Configs;
 import java.nio.file.Path;
 import java.util.List;
 import org.junit.jupiter.api.Test;
@@ -16,7 +17,7 @@ class DemoRulesTest {
     @Test
     void theDemoRulesCompileWithoutErrorsAgainstTheDemoConfiguration() throws Exception {
         Path rules = Path.of("..", "rules", "examples");
-        ByreConfig c = ConfigLoader.parse("larkmoor.yaml", DemoConfig.yaml(1883, 9466, rules, Path.of("history.db")), Path.of("."), k -> null);
+        ByreConfig c = Configs.parse("larkmoor.yaml", DemoConfig.yaml(1883, 9466, rules, Path.of("history.db")), Path.of("."), k -> null);
         CompileResult r = RuleCompiler.compile(RuleFiles.read(List.of(rules)), new ConfigRuleContext(c));
         assertEquals(List.of(), r.errors(), r.render());
     }

@@ -8,6 +8,7 @@ import byre.daemon.ConfigRuleContext;
 import byre.daemon.RuleFiles;
 import byre.rules.CompileResult;
 import byre.rules.RuleCompiler;
+import byre.testing.Configs;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import org.junit.jupiter.api.Test;
@@ -27,7 +28,7 @@ class ExampleConfigTest {
         Path copy = Files.copy(Path.of("..", "config", "byre.example.yaml"), dir.resolve("byre.yaml"));
         Files.writeString(dir.resolve("mqtt.secret"), "made-by-the-package\n");
         Files.createSymbolicLink(dir.resolve("rules.d"), Path.of("..", "config", "rules.d").toAbsolutePath());
-        ByreConfig c = ConfigLoader.load(copy);
+        ByreConfig c = Configs.load(copy);
         assertEquals("larkmoor", c.site());
         assertFalse(c.mqtt().embedded(), "the barn's mosquitto, not byre's own broker");
         assertEquals("tcp://127.0.0.1:1883", c.mqtt().connectUri());

@@ -6,6 +6,7 @@ import static org.junit.jupiter.api.Assertions.assertNull;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
+import byre.testing.Configs;
 import java.io.RandomAccessFile;
 import java.nio.file.Files;
 import java.nio.file.Path;
@@ -31,7 +32,7 @@ class FileLimitsTest {
             """;
 
     ByreConfig parse(String text) throws ConfigException {
-        return ConfigLoader.parse("byre.yaml", text, dir, name -> null);
+        return Configs.parse("byre.yaml", text, dir, name -> null);
     }
 
     List<String> problems(String text) {
@@ -56,7 +57,7 @@ class FileLimitsTest {
     @Timeout(value = 60, unit = TimeUnit.SECONDS)
     void aFifoAsPasswordFileIsRefusedNotWaitedOn() throws Exception {
         fifo(dir.resolve("mqtt.secret"));
-        assertEquals(List.of("byre.yaml:3: mqtt.password-file: " + dir.resolve("mqtt.secret")
+        assertEquals(List.of("byre.yaml:3:18: mqtt.password-file: " + dir.resolve("mqtt.secret")
                         + " is not a regular file (a FIFO, socket or device); byre reads only regular files here"),
                 problems("site: larkmoor\nmqtt:\n  password-file: mqtt.secret\n"));
     }
@@ -74,7 +75,7 @@ class FileLimitsTest {
     void aHugeSecretFileIsRefusedBeforeItIsRead() throws Exception {
         sparse(dir.resolve("hook.secret"), 50L * 1024 * 1024);
         List<String> p = problems(BASE + "notify:\n  night-phone: { type: webhook, url: \"https://push.example/hook\", secret-file: hook.secret }\n");
-        assertEquals(List.of("byre.yaml:5: night-phone.secret-file: " + dir.resolve("hook.secret")
+        assertEquals(List.of("byre.yaml:5:80: night-phone.secret-file: " + dir.resolve("hook.secret")
                 + " has 50.0 MiB, more than the 64 KiB byre reads from such a file"), p);
     }
 
@@ -85,7 +86,7 @@ class FileLimitsTest {
         ByreConfig c = parse(BASE + "mqtt:\n  password-file: mqtt.secret\n");
         assertEquals("larkmoor-pass", c.mqtt().password().reveal());
         Files.createSymbolicLink(dir.resolve("gone.secret"), dir.resolve("nowhere.secret"));
-        assertEquals(List.of("byre.yaml:5: mqtt.password-file: " + dir.resolve("gone.secret") + " is a broken link (its target "
+        assertEquals(List.of("byre.yaml:5:18: mqtt.password-file: " + dir.resolve("gone.secret") + " is a broken link (its target "
                 + dir.resolve("nowhere.secret") + " does not exist)"), problems(BASE + "mqtt:\n  password-file: gone.secret\n"));
     }
 
@@ -97,16 +98,16 @@ class FileLimitsTest {
 
     @Test
     void historyPathMustBeAFileNotADeviceOrFolder() {
-        assertEquals(List.of("byre.yaml:5: history.path /dev/null is not a regular file (a device, FIFO or socket); give a database file such as /var/lib/byre/history.db"),
+        assertEquals(List.of("byre.yaml:5:9: history.path /dev/null is not a regular file (a device, FIFO or socket); give a database file such as /var/lib/byre/history.db"),
                 problems(BASE + "history:\n  path: /dev/null\n"));
-        assertEquals(List.of("byre.yaml:5: history.path " + dir + " is a folder; give a file in it, such as " + dir.resolve("history.db")),
+        assertEquals(List.of("byre.yaml:5:9: history.path " + dir + " is a folder; give a file in it, such as " + dir.resolve("history.db")),
                 problems(BASE + "history:\n  path: " + dir + "\n"));
     }
 
     @Test
     void historyPathUnderAFileIsRefusedAndANewFolderIsFine() throws Exception {
         Files.writeString(dir.resolve("notes.txt"), "x");
-        assertEquals(List.of("byre.yaml:5: history.path " + dir.resolve("notes.txt/history.db") + ": " + dir.resolve("notes.txt") + " is not a folder"),
+        assertEquals(List.of("byre.yaml:5:9: history.path " + dir.resolve("notes.txt/history.db") + ": " + dir.resolve("notes.txt") + " is not a folder"),
                 problems(BASE + "history:\n  path: notes.txt/history.db\n"));
         assertEquals(dir.resolve("new/sub/history.db"), parse(BASE + "history:\n  path: new/sub/history.db\n").history().path());
     }
@@ -114,9 +115,9 @@ class FileLimitsTest {
     @Test
     @Timeout(value = 60, unit = TimeUnit.SECONDS)
     void theConfigurationItselfIsReadWithTheSameCare() throws Exception {
-        ConfigException e = assertThrows(ConfigException.class, () -> ConfigLoader.load(fifo(dir.resolve("byre.yaml"))));
+        ConfigException e = assertThrows(ConfigException.class, () -> Configs.load(fifo(dir.resolve("byre.yaml"))));
         assertTrue(e.problems().get(0).toString().contains("is not a regular file"), e.problems().toString());
-        e = assertThrows(ConfigException.class, () -> ConfigLoader.load(sparse(dir.resolve("big.yaml"), 200L * 1024 * 1024)));
+        e = assertThrows(ConfigException.class, () -> Configs.load(sparse(dir.resolve("big.yaml"), 200L * 1024 * 1024)));
         assertTrue(e.problems().get(0).toString().contains("has 200.0 MiB, more than the 1.0 MiB"), e.problems().toString());
     }
 
@@ -126,9 +127,9 @@ class FileLimitsTest {
                 + "  shed-dry: { topic: larkmoor/shed/dry, quantity: dry-bulb }\n");
         assertEquals(40, c.sensors().get("hutch-dry").maxIds());
         assertEquals(SensorConfig.DEFAULT_MAX_IDS, c.sensors().get("shed-dry").maxIds());
-        assertEquals(List.of("byre.yaml:4: max-ids applies only to a topic with wildcards (a family of sensors)"),
+        assertEquals(List.of("byre.yaml:4:14: max-ids applies only to a topic with wildcards (a family of sensors)"),
                 problems(BASE.replace("dry-bulb }", "dry-bulb,\n    max-ids: 5 }")));
-        assertEquals(List.of("byre.yaml:3: max-ids must be 1..10000, not 0"),
+        assertEquals(List.of("byre.yaml:3:89: max-ids must be 1..10000, not 0"),
                 problems("site: larkmoor\nsensors:\n  hutch-dry: { topic: larkmoor/hutches/+/dry, quantity: dry-bulb, id-level: 3, max-ids: 0 }\n"));
     }
 

@@ -6,6 +6,7 @@ import static org.junit.jupiter.api.Assertions.assertNull;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
+import byre.testing.Configs;
 import java.nio.file.Path;
 import java.time.Duration;
 import java.util.List;
@@ -28,7 +29,7 @@ class PageConfigTest {
             """;
 
     ByreConfig parse(String page) throws ConfigException {
-        return ConfigLoader.parse("byre.yaml", BASE + page, dir, name -> null);
+        return Configs.parse("byre.yaml", BASE + page, dir, name -> null);
     }
 
     List<String> problems(String page) {
@@ -67,7 +68,7 @@ class PageConfigTest {
     }
 
     @Test
-    void mistakesAreNamedWithTheirLine() {
+    void mistakesAreNamedWithTheirLineAndColumn() {
         List<String> p = problems("""
                 page:
                   listen: 9467
@@ -76,11 +77,11 @@ class PageConfigTest {
                   reading: nobody
                   refresh: 30s
                 """);
-        assertTrue(p.contains("byre.yaml:9: page.listen must be host:port such as 127.0.0.1:1883, not '9467'"), p.toString());
-        assertTrue(p.stream().anyMatch(s -> s.startsWith("byre.yaml:10: page.base-url must be the address a phone uses")), p.toString());
-        assertTrue(p.stream().anyMatch(s -> s.startsWith("byre.yaml:11: page.link-valid must be a duration")), p.toString());
-        assertTrue(p.stream().anyMatch(s -> s.startsWith("byre.yaml:12: page.reading must be 'open'")), p.toString());
-        assertTrue(p.stream().anyMatch(s -> s.startsWith("byre.yaml:13: unknown key 'refresh' in page")), p.toString());
+        assertTrue(p.contains("byre.yaml:9:11: page.listen must be host:port such as 127.0.0.1:1883, not '9467'"), p.toString());
+        assertTrue(p.stream().anyMatch(s -> s.startsWith("byre.yaml:10:13: page.base-url must be the address a phone uses")), p.toString());
+        assertTrue(p.stream().anyMatch(s -> s.startsWith("byre.yaml:11:15: page.link-valid must be a duration")), p.toString());
+        assertTrue(p.stream().anyMatch(s -> s.startsWith("byre.yaml:12:12: page.reading must be 'open'")), p.toString());
+        assertTrue(p.stream().anyMatch(s -> s.startsWith("byre.yaml:13:3: unknown key 'refresh' in page")), p.toString());
     }
 
     @Test
@@ -89,7 +90,7 @@ class PageConfigTest {
                 page:
                   base-url: http://192.168.1.20:9467
                 """);
-        assertEquals(List.of("byre.yaml:9: page.base-url is set but page.listen is not: links would lead nowhere"), p);
+        assertEquals(List.of("byre.yaml:9:13: page.base-url is set but page.listen is not: links would lead nowhere"), p);
     }
 
     @Test

@@ -6,10 +6,10 @@ import static org.junit.jupiter.api.Assertions.assertNull;
 
 import byre.alerts.OpenIncident;
 import byre.config.ByreConfig;
-import byre.config.ConfigLoader;
 import byre.history.HistoryReader;
 import byre.history.StreamKey;
 import byre.mqtt.EmbeddedBroker;
+import byre.testing.Configs;
 import byre.testing.TestPublisher;
 import byre.zones.ClimateDeriver;
 import io.micrometer.core.instrument.simple.SimpleMeterRegistry;
@@ -40,7 +40,7 @@ class AckOverMqttTest {
                 history:
                   path: %s
                 """.formatted(port, acceptAcks == null ? "" : "  accept-acks: " + acceptAcks, dir.resolve("history.db"));
-        ByreConfig cfg = ConfigLoader.parse("test.yaml", yaml, dir, n -> null);
+        ByreConfig cfg = Configs.parse("test.yaml", yaml, dir, n -> null);
         return Daemon.create(cfg, Clock.systemUTC(), new SimpleMeterRegistry()).start(new ClimateDeriver());
     }
 

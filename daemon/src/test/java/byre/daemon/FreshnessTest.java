@@ -4,13 +4,13 @@ import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import byre.config.ByreConfig;
-import byre.config.ConfigLoader;
 import byre.config.ZoneConfig;
 import byre.history.HistoryStore;
 import byre.history.HistoryWriter;
 import byre.history.Retention;
 import byre.history.StreamKey;
 import byre.rules.RuleSet;
+import byre.testing.Configs;
 import ch.qos.logback.classic.Logger;
 import ch.qos.logback.classic.spi.ILoggingEvent;
 import ch.qos.logback.core.read.ListAppender;
@@ -52,7 +52,7 @@ class FreshnessTest {
                 rules: rules.d
                 history: { path: history.db }
                 """);
-        return ConfigLoader.load(file);
+        return Configs.load(file);
     }
 
     /** A day of readings: shed-dry every 5 minutes (a battery sensor), shed-rh and pen1-dry every 5 minutes, pen2 none. */

@@ -5,10 +5,10 @@ import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import byre.config.ByreConfig;
-import byre.config.ConfigLoader;
 import byre.history.HistoryReader;
 import byre.history.StreamKey;
 import byre.mqtt.EmbeddedBroker;
+import byre.testing.Configs;
 import byre.testing.Mosquitto;
 import byre.testing.TestPublisher;
 import byre.units.Quantity;
@@ -56,7 +56,7 @@ class IngestIntegrationTest {
     }
 
     Daemon start(String broker, int listenPort, SimpleMeterRegistry registry) throws Exception {
-        ByreConfig cfg = ConfigLoader.parse("test.yaml", config(broker, listenPort, dir.resolve("history.db")), dir, n -> null);
+        ByreConfig cfg = Configs.parse("test.yaml", config(broker, listenPort, dir.resolve("history.db")), dir, n -> null);
         return Daemon.create(cfg, Clock.systemUTC(), registry).start(new ClimateDeriver());
     }
 

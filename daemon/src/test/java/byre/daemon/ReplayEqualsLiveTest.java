@@ -6,11 +6,11 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import byre.alerts.AlertEvent;
 import byre.config.ByreConfig;
-import byre.config.ConfigLoader;
 import byre.ingest.Reading;
 import byre.mqtt.EmbeddedBroker;
 import byre.rules.RuleCompiler;
 import byre.rules.RuleSet;
+import byre.testing.Configs;
 import byre.testing.MutableClock;
 import byre.testing.TestPublisher;
 import byre.testing.WebhookReceiver;
@@ -81,7 +81,7 @@ class ReplayEqualsLiveTest {
                     history: { path: history.db }
                     admin: { listen: 127.0.0.1:0 }
                     """.formatted(port, hook.url());
-            ByreConfig cfg = ConfigLoader.parse("live.yaml", yaml, dir, n -> null);
+            ByreConfig cfg = Configs.parse("live.yaml", yaml, dir, n -> null);
 
             // Replay first: the reference.
             RuleSet rules = RuleCompiler.compile(RuleFiles.read(cfg.rulePaths()), new ConfigRuleContext(cfg)).ruleSet().orElseThrow();

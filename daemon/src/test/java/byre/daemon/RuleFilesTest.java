@@ -6,10 +6,10 @@ import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import byre.config.ByreConfig;
-import byre.config.ConfigLoader;
 import byre.config.SmallFile;
 import byre.mqtt.EmbeddedBroker;
 import byre.rules.Watch;
+import byre.testing.Configs;
 import byre.zones.ClimateDeriver;
 import io.micrometer.core.instrument.simple.SimpleMeterRegistry;
 import java.io.IOException;
@@ -125,7 +125,7 @@ class RuleFilesTest {
                 rules: rules.d
                 history: { path: history.db }
                 """.formatted(EmbeddedBroker.freePort("127.0.0.1"));
-        ByreConfig cfg = ConfigLoader.parse("byre.yaml", yaml, dir, n -> null);
+        ByreConfig cfg = Configs.parse("byre.yaml", yaml, dir, n -> null);
         ch.qos.logback.classic.Logger logger = (ch.qos.logback.classic.Logger) org.slf4j.LoggerFactory.getLogger(RuleLoader.class);
         ch.qos.logback.core.read.ListAppender<ch.qos.logback.classic.spi.ILoggingEvent> log = new ch.qos.logback.core.read.ListAppender<>();
         log.start();

@@ -3,7 +3,7 @@ package byre.daemon;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import byre.config.ByreConfig;
-import byre.config.ConfigLoader;
+import byre.testing.Configs;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.time.Clock;
@@ -22,7 +22,7 @@ class RuleLoaderStreamsTest {
         Files.createDirectories(dir.resolve("rules.d"));
         Path rules = Files.writeString(dir.resolve("rules.d/shed.rules"),
                 "watch hot\n  raise when cow-shed.heat-index > 30 C\n  clear when cow-shed.heat-index < 28 C\n  notify office\n");
-        ByreConfig config = ConfigLoader.parse("byre.yaml", """
+        ByreConfig config = Configs.parse("byre.yaml", """
                 site: larkmoor
                 sensors:
                   shed-dry: { topic: t/dry, quantity: dry-bulb }

@@ -4,9 +4,9 @@ import static org.awaitility.Awaitility.await;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 
 import byre.config.ByreConfig;
-import byre.config.ConfigLoader;
 import byre.mqtt.EmbeddedBroker;
 import byre.rules.Watch;
+import byre.testing.Configs;
 import byre.zones.ClimateDeriver;
 import io.micrometer.core.instrument.simple.SimpleMeterRegistry;
 import java.nio.file.Files;
@@ -56,7 +56,7 @@ class RuleReloadTest {
                 rules: rules.d
                 history: { path: history.db }
                 """.formatted(EmbeddedBroker.freePort("127.0.0.1"));
-        ByreConfig cfg = ConfigLoader.parse("byre.yaml", yaml, dir, n -> null);
+        ByreConfig cfg = Configs.parse("byre.yaml", yaml, dir, n -> null);
         try (Daemon d = Daemon.create(cfg, Clock.systemUTC(), new SimpleMeterRegistry()).start(new ClimateDeriver())) {
             assertEquals(List.of("heat-stress"), names(d));
             assertEquals(0, d.ruleReloads(true));

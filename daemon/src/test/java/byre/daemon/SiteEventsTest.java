@@ -8,9 +8,9 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import byre.config.ByreConfig;
 import byre.config.ConfigException;
-import byre.config.ConfigLoader;
 import byre.json.Json;
 import byre.mqtt.EmbeddedBroker;
+import byre.testing.Configs;
 import byre.testing.TestPublisher;
 import byre.zones.ClimateDeriver;
 import io.micrometer.core.instrument.simple.SimpleMeterRegistry;
@@ -54,7 +54,7 @@ class SiteEventsTest {
         Files.writeString(rules.resolve("warm.rules"),
                 "watch shed-warm\n  raise when cow-shed.dry-bulb > 30\n  clear when cow-shed.dry-bulb < 28\n  notify office\n");
         int port = EmbeddedBroker.freePort("127.0.0.1");
-        ByreConfig cfg = ConfigLoader.parse("byre.yaml", yaml(port, ""), dir, n -> null);
+        ByreConfig cfg = Configs.parse("byre.yaml", yaml(port, ""), dir, n -> null);
         assertTrue(cfg.mqtt().publishEvents(), "on unless turned off");
         List<Map<?, ?>> events = new CopyOnWriteArrayList<>();
         List<Boolean> retainedFlags = new CopyOnWriteArrayList<>();
@@ -79,16 +79,16 @@ class SiteEventsTest {
 
     @Test
     void publishingIsConfigured() throws Exception {
-        ByreConfig cfg = ConfigLoader.parse("byre.yaml", yaml(1883, ", publish-events: false, publish-every: 1m"), dir, n -> null);
+        ByreConfig cfg = Configs.parse("byre.yaml", yaml(1883, ", publish-events: false, publish-every: 1m"), dir, n -> null);
         assertFalse(cfg.mqtt().publishEvents());
         assertEquals(Duration.ofMinutes(1), cfg.mqtt().publishEvery());
-        assertEquals(Duration.ofSeconds(1), ConfigLoader.parse("byre.yaml", yaml(1883, ""), dir, n -> null).mqtt().publishEvery());
+        assertEquals(Duration.ofSeconds(1), Configs.parse("byre.yaml", yaml(1883, ""), dir, n -> null).mqtt().publishEvery());
 
         ConfigException bad = assertThrows(ConfigException.class,
-                () -> ConfigLoader.parse("byre.yaml", yaml(1883, ", publish-events: sometimes"), dir, n -> null));
-        assertTrue(bad.getMessage().contains("byre.yaml:2: mqtt.publish-events must be true or false, not 'sometimes'"), bad.getMessage());
-        ConfigException slash = assertThrows(ConfigException.class, () -> ConfigLoader.parse("byre.yaml",
+                () -> Configs.parse("byre.yaml", yaml(1883, ", publish-events: sometimes"), dir, n -> null));
+        assertTrue(bad.getMessage().contains("byre.yaml:2:96: mqtt.publish-events must be true or false, not 'sometimes'"), bad.getMessage());
+        ConfigException slash = assertThrows(ConfigException.class, () -> Configs.parse("byre.yaml",
                 yaml(1883, "").replace("office:", "byre/larkmoor/events:"), dir, n -> null));
-        assertTrue(slash.getMessage().contains("channel name 'byre/larkmoor/events' may not contain '/'"), slash.getMessage());
+        assertTrue(slash.getMessage().contains("byre.yaml:8:3: channel name 'byre/larkmoor/events' may not contain '/'"), slash.getMessage());
     }
 }

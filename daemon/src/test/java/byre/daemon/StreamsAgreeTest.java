@@ -10,13 +10,13 @@ import byre.climate.DerivedClimate;
 import byre.climate.ThiVariant;
 import byre.climate.ZoneClimate;
 import byre.config.ByreConfig;
-import byre.config.ConfigLoader;
 import byre.config.ZoneConfig;
 import byre.ingest.Reading;
 import byre.rules.CompileResult;
 import byre.rules.Diagnostic;
 import byre.rules.RuleCompiler;
 import byre.rules.RuleSource;
+import byre.testing.Configs;
 import byre.units.Quantity;
 import byre.zones.ClimateDeriver;
 import byre.zones.ZoneStage;
@@ -120,7 +120,7 @@ class StreamsAgreeTest {
             zones.append("  z").append(mask).append(": { sensors: [").append(String.join(", ", ids)).append("] }\n");
         }
         String text = "site: larkmoor\n" + sensors + zones + "notify:\n  office: { type: command, argv: [/bin/true] }\n";
-        return ConfigLoader.parse("byre.yaml", text, Path.of("."), k -> null);
+        return Configs.parse("byre.yaml", text, Path.of("."), k -> null);
     }
 
     /** The same site with every zone computing THI by {@code variant} (as {@code thi:} in each zone would). */

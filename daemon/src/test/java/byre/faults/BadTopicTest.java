@@ -8,9 +8,9 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 import byre.admin.Health;
 import byre.admin.HealthMonitor;
 import byre.config.ByreConfig;
-import byre.config.ConfigLoader;
 import byre.daemon.Daemon;
 import byre.mqtt.EmbeddedBroker;
+import byre.testing.Configs;
 import byre.testing.ManualTicker;
 import byre.testing.Mosquitto;
 import byre.testing.RawMqtt;
@@ -72,7 +72,7 @@ class BadTopicTest {
 
     private void check(String broker, int listenPort, String uri) throws Exception {
         SimpleMeterRegistry registry = new SimpleMeterRegistry();
-        ByreConfig cfg = ConfigLoader.parse("bad-topic.yaml", yaml(broker, listenPort, dir.resolve("history.db")), dir, n -> null);
+        ByreConfig cfg = Configs.parse("bad-topic.yaml", yaml(broker, listenPort, dir.resolve("history.db")), dir, n -> null);
         try (Daemon d = Daemon.create(cfg, Clock.systemUTC(), registry).start(new ClimateDeriver());
              TestPublisher sensor = new TestPublisher(uri)) {
             await().atMost(Duration.ofSeconds(15)).until(() -> d.link().isConnected());
@@ -105,7 +105,7 @@ class BadTopicTest {
     @Timeout(60)
     void connectedButHearingNothingIsUnhealthy() throws Exception {
         int port = EmbeddedBroker.freePort("127.0.0.1");
-        ByreConfig cfg = ConfigLoader.parse("bad-topic.yaml", yaml("embedded", port, dir.resolve("history.db")), dir, n -> null);
+        ByreConfig cfg = Configs.parse("bad-topic.yaml", yaml("embedded", port, dir.resolve("history.db")), dir, n -> null);
         ManualTicker ticker = new ManualTicker();
         try (Daemon d = Daemon.create(cfg, Clock.systemUTC(), ticker, new SimpleMeterRegistry()).start(new ClimateDeriver());
              TestPublisher sensor = new TestPublisher("tcp://127.0.0.1:" + port)) {

@@ -5,8 +5,8 @@ import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import byre.config.ByreConfig;
-import byre.config.ConfigLoader;
 import byre.daemon.Daemon;
+import byre.testing.Configs;
 import byre.testing.Mosquitto;
 import byre.zones.ClimateDeriver;
 import io.micrometer.core.instrument.simple.SimpleMeterRegistry;
@@ -49,7 +49,7 @@ class BrokerRestartTest {
     Path dir;
 
     Daemon start(Mosquitto m, String clientId) throws Exception {
-        ByreConfig cfg = ConfigLoader.parse("faults.yaml", FaultRig.config(m.uri(), clientId, dir.resolve("history.db")), dir, n -> null);
+        ByreConfig cfg = Configs.parse("faults.yaml", FaultRig.config(m.uri(), clientId, dir.resolve("history.db")), dir, n -> null);
         Daemon d = Daemon.create(cfg, Clock.systemUTC(), new SimpleMeterRegistry()).start(new ClimateDeriver());
         await().atMost(Duration.ofSeconds(15)).until(() -> d.link().isConnected());
         return d;

@@ -6,12 +6,12 @@ import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import byre.config.ByreConfig;
-import byre.config.ConfigLoader;
 import byre.daemon.Daemon;
 import byre.daemon.Pipeline;
 import byre.history.HistoryWriter;
 import byre.history.WriterHooks;
 import byre.rules.ZoneReading;
+import byre.testing.Configs;
 import byre.testing.Mosquitto;
 import byre.zones.ClimateDeriver;
 import io.micrometer.core.instrument.simple.SimpleMeterRegistry;
@@ -44,7 +44,7 @@ class DiskFullTest {
         SimpleMeterRegistry registry = new SimpleMeterRegistry();
         AtomicLong zoneReadings = new AtomicLong();
         try (Mosquitto m = Mosquitto.start()) {
-            ByreConfig cfg = ConfigLoader.parse("faults.yaml", FaultRig.config(m.uri(), "byre-disk-" + UUID.randomUUID().toString().substring(0, 8), db),
+            ByreConfig cfg = Configs.parse("faults.yaml", FaultRig.config(m.uri(), "byre-disk-" + UUID.randomUUID().toString().substring(0, 8), db),
                     dir, n -> null);
             try (Daemon d = Daemon.create(cfg, Clock.systemUTC(), registry).listen(new Pipeline.ZoneListener() {
                 @Override

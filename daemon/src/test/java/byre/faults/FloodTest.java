@@ -4,8 +4,8 @@ import static org.awaitility.Awaitility.await;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 
 import byre.config.ByreConfig;
-import byre.config.ConfigLoader;
 import byre.daemon.Daemon;
+import byre.testing.Configs;
 import byre.testing.ManualTicker;
 import byre.testing.Mosquitto;
 import byre.testing.TestPublisher;
@@ -41,7 +41,7 @@ class FloodTest {
         SimpleMeterRegistry registry = new SimpleMeterRegistry();
         ManualTicker ticker = new ManualTicker();
         try (Mosquitto m = Mosquitto.start()) {
-            ByreConfig cfg = ConfigLoader.parse("faults.yaml", FaultRig.config(m.uri(), "byre-flood-" + UUID.randomUUID().toString().substring(0, 8), db),
+            ByreConfig cfg = Configs.parse("faults.yaml", FaultRig.config(m.uri(), "byre-flood-" + UUID.randomUUID().toString().substring(0, 8), db),
                     dir, n -> null);
             try (Daemon d = Daemon.create(cfg, Clock.systemUTC(), ticker, registry).start(new ClimateDeriver());
                  TestPublisher shed = new TestPublisher(m.uri()); TestPublisher mad = new TestPublisher(m.uri())) {

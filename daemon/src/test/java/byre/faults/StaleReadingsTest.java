@@ -4,9 +4,9 @@ import static org.awaitility.Awaitility.await;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 
 import byre.config.ByreConfig;
-import byre.config.ConfigLoader;
 import byre.daemon.Daemon;
 import byre.rules.eval.AlertState;
+import byre.testing.Configs;
 import byre.testing.Mosquitto;
 import byre.testing.TestPublisher;
 import byre.zones.ClimateDeriver;
@@ -39,7 +39,7 @@ class StaleReadingsTest {
 
     ByreConfig config(String uri, String clientId) throws Exception {
         Files.writeString(dir.resolve("shed.rules"), RULES);
-        return ConfigLoader.parse("stale.yaml", """
+        return Configs.parse("stale.yaml", """
                 site: larkmoor
                 timezone: Europe/London
                 mqtt: { broker: %s, client-id: %s }

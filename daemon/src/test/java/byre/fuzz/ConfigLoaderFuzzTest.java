@@ -8,6 +8,7 @@ import static org.junit.jupiter.api.Assertions.fail;
 import byre.config.ConfigException;
 import byre.config.ConfigLoader;
 import byre.config.ConfigProblem;
+import byre.testing.Configs;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
@@ -103,7 +104,7 @@ class ConfigLoaderFuzzTest {
     /** Parses; returns a failure description, or null when the contract held. */
     String check(String text) {
         try {
-            assertNotNull(ConfigLoader.parse("byre.yaml", text, dir, Map.of("BYRE_MQTT_PASSWORD", "x")::get));
+            assertNotNull(Configs.parse("byre.yaml", text, dir, Map.of("BYRE_MQTT_PASSWORD", "x")::get));
             return null;
         } catch (ConfigException e) {
             if (e.problems().isEmpty()) return "ConfigException without problems";
@@ -135,7 +136,7 @@ class ConfigLoaderFuzzTest {
 
     private boolean validates(String text) {
         try {
-            ConfigLoader.parse("byre.yaml", text, dir, n -> null);
+            Configs.parse("byre.yaml", text, dir, n -> null);
             return true;
         } catch (ConfigException e) {
             return false;

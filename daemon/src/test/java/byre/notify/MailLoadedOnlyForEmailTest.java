@@ -5,7 +5,7 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import byre.config.ByreConfig;
 import byre.config.ChannelConfig;
-import byre.config.ConfigLoader;
+import byre.testing.Configs;
 import java.io.File;
 import java.net.URL;
 import java.net.URLClassLoader;
@@ -41,7 +41,7 @@ class MailLoadedOnlyForEmailTest {
     /** What start-up does with channels: read the configuration, build every channel. Run inside {@link Fresh}. */
     public static final class StartUp {
         public static void run(String yaml, String dir) throws Exception {
-            ByreConfig c = ConfigLoader.parse("byre.yaml", yaml, Path.of(dir), n -> null);
+            ByreConfig c = Configs.parse("byre.yaml", yaml, Path.of(dir), n -> null);
             ChannelFactory f = new ChannelFactory(null, ZoneOffset.UTC);
             for (ChannelConfig cc : c.channels().values()) f.build(cc);
         }

@@ -1,5 +1,6 @@
 package byre.notify;
 
+import byre.testing.Configs;
 import byre.testing.Mosquitto;
 import byre.testing.MutableClock;
 import static org.awaitility.Awaitility.await;
@@ -12,7 +13,6 @@ import byre.alerts.OpenIncident;
 import byre.alerts.WatchOutcome;
 import byre.config.ByreConfig;
 import byre.config.ConfigException;
-import byre.config.ConfigLoader;
 import byre.config.MqttSettings;
 import byre.history.HistoryStore;
 import byre.json.Json;
@@ -91,7 +91,7 @@ class MqttChannelTest {
 
     @Test
     void retainTrueLeavesTheEventWithTheBrokerForWhoeverSubscribesLater() throws Exception {
-        ByreConfig cfg = ConfigLoader.parse("byre.yaml", """
+        ByreConfig cfg = Configs.parse("byre.yaml", """
                 site: larkmoor
                 notify:
                   barn-siren: { type: mqtt, topic: larkmoor/siren/set, retain: true }
@@ -128,8 +128,8 @@ class MqttChannelTest {
 
     @Test
     void retainMustBeTrueOrFalse() {
-        ConfigException e = org.junit.jupiter.api.Assertions.assertThrows(ConfigException.class, () -> ConfigLoader.parse("byre.yaml",
+        ConfigException e = org.junit.jupiter.api.Assertions.assertThrows(ConfigException.class, () -> Configs.parse("byre.yaml",
                 "site: larkmoor\nnotify:\n  barn-siren: { type: mqtt, topic: larkmoor/siren/set, retain: sometimes }\n", dir, n -> null));
-        assertEquals("[byre.yaml:3: barn-siren.retain must be true or false, not 'sometimes']", e.problems().stream().map(Object::toString).toList().toString());
+        assertEquals("[byre.yaml:3:64: barn-siren.retain must be true or false, not 'sometimes']", e.problems().stream().map(Object::toString).toList().toString());
     }
 }

@@ -8,7 +8,7 @@ import static org.junit.jupiter.api.Assumptions.assumeTrue;
 
 import byre.config.BrokerAcl;
 import byre.config.ByreConfig;
-import byre.config.ConfigLoader;
+import byre.testing.Configs;
 import byre.testing.Mosquitto;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
@@ -57,7 +57,7 @@ class BrokerDropInTest {
     void theDropInRefusesStrangersAndGivesEachLoginItsJob() throws Exception {
         assumeTrue(Files.isExecutable(Path.of("/usr/bin/mosquitto_passwd")), "mosquitto is not installed (CI installs it)");
         Files.writeString(dir.resolve("mqtt.secret"), "byre-pw\n");
-        ByreConfig cfg = ConfigLoader.parse("byre.yaml", """
+        ByreConfig cfg = Configs.parse("byre.yaml", """
                 site: larkmoor
                 mqtt: { broker: "tcp://127.0.0.1:1883", username: byre, password-file: mqtt.secret }
                 sensors:
@@ -128,7 +128,7 @@ class BrokerDropInTest {
     @Test
     void theAccessListNamesEachLoginsTopics() throws Exception {
         Files.writeString(dir.resolve("mqtt.secret"), "pw\n");
-        ByreConfig cfg = ConfigLoader.parse("byre.yaml", """
+        ByreConfig cfg = Configs.parse("byre.yaml", """
                 site: larkmoor
                 mqtt: { broker: "tcp://127.0.0.1:1883", username: byre, password-file: mqtt.secret, publish-prefix: farm }
                 sensors:

@@ -13,10 +13,10 @@ import byre.alerts.IncidentBook;
 import byre.alerts.OpenIncident;
 import byre.alerts.WatchOutcome;
 import byre.config.ByreConfig;
-import byre.config.ConfigLoader;
 import byre.config.Secret;
 import byre.history.HistoryStore;
 import byre.rules.ZoneReading;
+import byre.testing.Configs;
 import byre.testing.MutableClock;
 import byre.units.Quantity;
 import io.micrometer.core.instrument.simple.SimpleMeterRegistry;
@@ -59,7 +59,7 @@ class PageServerTest {
     String incident;
 
     void start(boolean readingNeedsToken) throws Exception {
-        ByreConfig cfg = ConfigLoader.parse("byre.yaml", """
+        ByreConfig cfg = Configs.parse("byre.yaml", """
                 site: larkmoor
                 timezone: Europe/London
                 sensors:
