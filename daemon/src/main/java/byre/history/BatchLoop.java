@@ -102,6 +102,9 @@ final class BatchLoop implements Runnable {
         this.heldZoneRows = insert.heldZoneRows();
     }
 
+    /** Time between the last two wake-ups that found rows: shorter than a nap means rows come faster than naps. */
+    private long arrivalGapNanos = Long.MAX_VALUE;
+
     @Override
     public void run() {
         List<WriterItem> drained = new ArrayList<>();
@@ -109,11 +112,12 @@ final class BatchLoop implements Runnable {
             while (!(stop && queue.isEmpty())) {
                 long wait = waitNanos();
                 WriterItem first;
-                if (backlog.isEmpty() || wait == 0) {
+                if (backlog.isEmpty() || wait == 0 || arrivalGapNanos >= GATHER_NANOS) {
                     first = queue.poll(wait, TimeUnit.NANOSECONDS);
                 } else {
-                    // A batch is filling: nap instead of waiting on the queue, which would wake this thread for
-                    // every appended row (a context switch each, at thousands of rows a second).
+                    // A batch is filling fast: nap instead of waiting on the queue, which would wake this thread for
+                    // every appended row (a context switch each, at thousands of rows a second). At barn rates rows
+                    // come one at a time, and waiting on the queue wakes the thread less often than napping would.
                     LockSupport.parkNanos(Math.min(wait, GATHER_NANOS));
                     first = queue.poll();
                 }
@@ -193,6 +197,7 @@ final class BatchLoop implements Runnable {
         if (it instanceof WriterItem.Row r) {
             long now = ticker.nanos();
             if (backlog.isEmpty()) firstPendingNanos = now;
+            arrivalGapNanos = now - lastArrivalNanos;
             lastArrivalNanos = now;
             if (backlog.size() >= settings.backlogLimit()) {
                 WriterItem.Row dropped = backlog.pollFirst();
