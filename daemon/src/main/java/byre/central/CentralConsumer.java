@@ -37,6 +37,7 @@ public final class CentralConsumer implements AutoCloseable {
     static final Duration REFRESH_EVERY = Duration.ofSeconds(30);
 
     private final CentralSettings central;
+    private final java.util.Map<String, byre.config.ZoneConfig> zones;
     private final String prefix;
     private final MqttLink link;
     private final Clock clock;
@@ -52,6 +53,7 @@ public final class CentralConsumer implements AutoCloseable {
     public CentralConsumer(ByreConfig config, MqttLink link, Connection eventsConn, Clock clock, MeterRegistry registry,
                            Consumer<Reading> sink) throws SQLException {
         this.central = config.central();
+        this.zones = config.zones();
         this.prefix = config.mqtt().publishPrefix();
         this.link = link;
         this.clock = clock;
@@ -66,10 +68,16 @@ public final class CentralConsumer implements AutoCloseable {
     /** Subscribes every listed site's topics (before the link starts); zone streams go to {@code ingest}. */
     public void subscribe(IngestStage ingest) {
         for (String site : central.siteIds()) {
-            link.subscribeAcked(prefix + "/" + site + "/zones/#", ingest::accept);
+            link.subscribeAcked(prefix + "/" + site + "/zones/#", (topic, payload, retained, ack) -> {
+                links.heard(site, retained);
+                ingest.accept(topic, payload, retained, ack);
+            });
             link.subscribe(links.statusTopic(site), links::accept);
             link.subscribe(links.uplinkTopic(site), links::accept);
-            link.subscribeAcked(prefix + "/" + site + "/events", this::onEvent);
+            link.subscribeAcked(prefix + "/" + site + "/events", (topic, payload, retained, ack) -> {
+                links.heard(site, retained);
+                onEvent(topic, payload, retained, ack);
+            });
         }
     }
 
@@ -143,6 +151,18 @@ public final class CentralConsumer implements AutoCloseable {
     /** Every site's open incidents. */
     public List<OpenAlert> openAlerts() {
         return events.openAlerts();
+    }
+
+    /** The sites' ids, in the file's order. */
+    public List<String> siteIds() {
+        return List.copyOf(central.siteIds());
+    }
+
+    /** A site's central zones ({@code <site>/<zone>}), in the file's order; none for an unknown site. */
+    public List<byre.config.ZoneConfig> zones(String site) {
+        CentralSettings.Site s = central.sites().get(site);
+        if (s == null) return List.of();
+        return s.zones().stream().map(z -> zones.get(CentralSettings.zoneId(site, z))).filter(java.util.Objects::nonNull).toList();
     }
 
     public SiteEventLog events() {

@@ -67,7 +67,7 @@ final class CentralSection {
                 List<String> zoneSensors = new ArrayList<>();
                 for (Quantity q : Quantity.values()) {
                     if (q == Quantity.ONLINE) continue;
-                    String sensorId = zoneId + "/" + q.id();
+                    String sensorId = CentralSettings.mirrorSensor(zoneId, q);
                     String topic = mqtt.publishPrefix() + "/" + id + "/zones/" + z + "/" + q.id();
                     sensors.put(sensorId, new SensorConfig(sensorId, topic, q, q.canonicalUnit(),
                             new PayloadFormat(PayloadFormat.Kind.JSON, "value"), "at", 0, line));

@@ -29,6 +29,11 @@ public record CentralSettings(Map<String, Site> sites) {
         return site + "/" + zone;
     }
 
+    /** The id of the sensor that carries a site's stream of {@code q} in the central zone {@code zoneId}: every value as the site sent it. */
+    public static String mirrorSensor(String zoneId, byre.units.Quantity q) {
+        return zoneId + "/" + q.id();
+    }
+
     /** The id of the sensor that carries a site's {@code online} stream. */
     public static String onlineSensor(String site) {
         return site + "/online";
