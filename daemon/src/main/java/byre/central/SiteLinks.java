@@ -48,6 +48,11 @@ public final class SiteLinks {
         for (String site : central.siteIds()) links.put(site, new Link());
     }
 
+    /** Starts following a site found after the start (its status and bridge topics then count). */
+    public void add(String site) {
+        links.putIfAbsent(site, new Link());
+    }
+
     /** The topic of a site's status (its byre's last will). */
     public String statusTopic(String site) {
         return prefix + "/" + site + "/status";

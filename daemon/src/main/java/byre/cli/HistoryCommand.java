@@ -58,7 +58,7 @@ final class HistoryCommand implements Callable<Integer> {
         if (cfg == null) return Main.USAGE;
         Query q;
         try {
-            q = resolve(cfg, zone, quantity, sensor, from, to, every, Clock.systemUTC().instant());
+            q = resolve(byre.central.FoundSites.readStored(cfg), zone, quantity, sensor, from, to, every, Clock.systemUTC().instant());
         } catch (BadQuery e) {
             System.err.println("byre: " + e.getMessage());
             return Main.USAGE;

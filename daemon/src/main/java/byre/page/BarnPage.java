@@ -57,9 +57,10 @@ public final class BarnPage implements byre.alerts.AckLinks, AutoCloseable {
         }
         Supplier<List<OpenIncident>> open = () -> daemon.alerts().book().openIncidents();
         Supplier<HistoryReader> readers = () -> daemon.store().openReader();
-        BarnPageSource source = new BarnPageSource(cfg, live, readers, open);
-        BarnPageHtml.Site site = new BarnPageHtml.Site(cfg.site(), cfg.timezone(), cfg.units() == ByreConfig.DisplayUnits.US);
         CentralConsumer central = daemon.central();
+        BarnPageSource source = central == null ? new BarnPageSource(cfg, live, readers, open)
+                : new BarnPageSource(cfg, live, readers, open, central::settings);
+        BarnPageHtml.Site site = new BarnPageHtml.Site(cfg.site(), cfg.timezone(), cfg.units() == ByreConfig.DisplayUnits.US);
         // A central byre lists its sites; acknowledging one of a site's incidents sends it to that site (Daemon.acknowledge).
         PageContent content = central == null ? PageContent.barn(site, source, open)
                 : PageContent.central(site, CentralPageSource.of(cfg, central, source, readers, open));

@@ -49,6 +49,7 @@ final class BarnPageSource {
     private final LiveValues live;
     private final Supplier<HistoryReader> readers;
     private final Supplier<List<OpenIncident>> open;
+    private final Supplier<CentralSettings> central;
     private final Map<String, Trends> trends = new HashMap<>();
 
     /**
@@ -56,10 +57,17 @@ final class BarnPageSource {
      * @param open    the alert stage's open incidents, oldest first
      */
     BarnPageSource(ByreConfig config, LiveValues live, Supplier<HistoryReader> readers, Supplier<List<OpenIncident>> open) {
+        this(config, live, readers, open, config::central);
+    }
+
+    /** @param central a central byre's sites as now known (it finds more while it runs) */
+    BarnPageSource(ByreConfig config, LiveValues live, Supplier<HistoryReader> readers, Supplier<List<OpenIncident>> open,
+                   Supplier<CentralSettings> central) {
         this.config = config;
         this.live = live;
         this.readers = readers;
         this.open = open;
+        this.central = central;
     }
 
     /** The page's content at {@code now}; a history that cannot be read leaves trends out and says so. */
@@ -162,7 +170,7 @@ final class BarnPageSource {
      * that went quiet before the centre started).
      */
     private StreamKey key(String zone, Quantity q) {
-        return config.central().isMirroredZone(zone) ? StreamKey.sensor(CentralSettings.mirrorSensor(zone, q)) : StreamKey.zone(zone, q);
+        return central.get().isMirroredZone(zone) ? StreamKey.sensor(CentralSettings.mirrorSensor(zone, q)) : StreamKey.zone(zone, q);
     }
 
     /** Sensors with no stored reading within their zone's max-age (the same test as {@code byre status}). */
