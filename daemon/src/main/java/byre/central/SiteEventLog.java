@@ -3,6 +3,7 @@ package byre.central;
 import byre.admin.OpenAlert;
 import byre.alerts.AlertEvent;
 import byre.alerts.EventKind;
+import byre.alerts.OpenIncident;
 import byre.config.CentralSettings;
 import java.sql.Connection;
 import java.sql.PreparedStatement;
@@ -26,7 +27,7 @@ public final class SiteEventLog implements AutoCloseable {
     public record Stored(long seq, String site, AlertEvent event) {}
 
     /** An open incident of a site and what the centre shows of it. */
-    private record Open(String site, OpenAlert alert) {}
+    private record Open(String site, OpenIncident incident) {}
 
     private final Connection conn;
     private final Map<String, Open> open = new LinkedHashMap<>();
@@ -78,33 +79,39 @@ public final class SiteEventLog implements AutoCloseable {
     private void fold(String site, AlertEvent e) {
         if (e.incident() == null) return;
         Open o = open.get(e.incident());
+        OpenIncident a = o == null ? null : o.incident();
         switch (e.kind()) {
-            case RAISED -> open.put(e.incident(), new Open(site, new OpenAlert(e.incident(), e.watch(),
-                    CentralSettings.zoneId(site, e.zone()), e.level(), e.quantity(), e.value(), e.since() != null ? e.since() : e.at(),
-                    null, null)));
+            case RAISED -> open.put(e.incident(), new Open(site, new OpenIncident(e.incident(), e.watch(), zoneOf(site, e.zone()), e.level(),
+                    e.quantity(), e.value(), e.unit(), e.since() != null ? e.since() : e.at(), e.at(), e.message(), List.of(), false, null, null)));
             case ACKNOWLEDGED -> {
-                if (o != null) {
-                    OpenAlert a = o.alert();
-                    open.put(e.incident(), new Open(site, new OpenAlert(a.incident(), a.watch(), a.zone(), a.level(), a.quantity(),
-                            a.value(), a.since(), e.by(), e.at())));
-                }
+                if (a != null) open.put(e.incident(), new Open(site, new OpenIncident(a.id(), a.watch(), a.zone(), a.level(), a.quantity(),
+                        a.value(), a.unit(), a.since(), a.raisedAt(), a.message(), a.told(), a.escalated(), e.by(), e.at())));
             }
             case REMINDER, ESCALATED -> {
-                if (o != null) {
-                    OpenAlert a = o.alert();
-                    open.put(e.incident(), new Open(site, new OpenAlert(a.incident(), a.watch(), a.zone(), e.level() != null ? e.level() : a.level(),
-                            a.quantity(), Double.isNaN(e.value()) ? a.value() : e.value(), a.since(), a.acknowledgedBy(), a.acknowledgedAt())));
-                }
+                if (a != null) open.put(e.incident(), new Open(site, new OpenIncident(a.id(), a.watch(), a.zone(),
+                        e.level() != null ? e.level() : a.level(), a.quantity(), Double.isNaN(e.value()) ? a.value() : e.value(), a.unit(),
+                        a.since(), a.raisedAt(), e.message() != null && !e.message().isBlank() ? e.message() : a.message(), a.told(),
+                        a.escalated() || e.kind() == EventKind.ESCALATED, a.ackBy(), a.ackAt())));
             }
             case CLEARED -> open.remove(e.incident());
             case TEST, SUMMARY, DIGEST -> { }
         }
     }
 
+    /** The central zone of a site's event: {@code <site>/<zone>}, or the site's own zone for an alert of no zone. */
+    private static String zoneOf(String site, String zone) {
+        return zone == null || zone.isEmpty() ? site : CentralSettings.zoneId(site, zone);
+    }
+
     /** Every site's open incidents, oldest first; zones as central zone ids ({@code larkmoor/cow-shed}). */
     public List<OpenAlert> openAlerts() {
+        return openIncidents().stream().map(OpenAlert::of).toList();
+    }
+
+    /** As {@link #openAlerts()}, with each incident's message (the barn page shows it). */
+    public List<OpenIncident> openIncidents() {
         synchronized (conn) {
-            return open.values().stream().map(Open::alert).toList();
+            return open.values().stream().map(Open::incident).toList();
         }
     }
 
@@ -120,7 +127,7 @@ public final class SiteEventLog implements AutoCloseable {
     public OpenAlert openAlert(String incident) {
         synchronized (conn) {
             Open o = open.get(incident);
-            return o == null ? null : o.alert();
+            return o == null ? null : OpenAlert.of(o.incident());
         }
     }
 

@@ -5,6 +5,7 @@ import byre.ingest.Reading;
 import byre.units.Quantity;
 import java.nio.charset.StandardCharsets;
 import java.time.Clock;
+import java.time.Instant;
 import java.util.Map;
 import java.util.concurrent.ConcurrentHashMap;
 import java.util.function.Consumer;
@@ -17,6 +18,7 @@ import org.slf4j.LoggerFactory;
  * the central broker sets to 0 by itself when the bridge drops). A site is online (1) when its byre says online and
  * its bridge is not known to be down; a central broker the barns reach without a bridge never sees an uplink topic.
  * A reading goes out on every change and again at each {@link #refresh}, so the stream stays fresh for the rules.
+ * It also notes when each site was last heard from (the barn page shows how long ago).
  */
 public final class SiteLinks {
     private static final Logger LOG = LoggerFactory.getLogger(SiteLinks.class);
@@ -25,6 +27,8 @@ public final class SiteLinks {
     private static final class Link {
         Boolean byreOnline;
         Boolean uplink;
+        /** Arrival of the site's newest message sent while the centre listened (not a retained one); null before. */
+        Instant heard;
 
         Double value() {
             if (Boolean.FALSE.equals(byreOnline) || Boolean.FALSE.equals(uplink)) return 0.0;
@@ -42,6 +46,11 @@ public final class SiteLinks {
         this.clock = clock;
         this.sink = sink;
         for (String site : central.siteIds()) links.put(site, new Link());
+    }
+
+    /** Starts following a site found after the start (its status and bridge topics then count). */
+    public void add(String site) {
+        links.putIfAbsent(site, new Link());
     }
 
     /** The topic of a site's status (its byre's last will). */
@@ -97,6 +106,25 @@ public final class SiteLinks {
                 if (v != null) emit(site, v);
             }
         });
+    }
+
+    /** Notes that a message of {@code site} arrived now; a retained one tells nothing of when the site last spoke. */
+    public void heard(String site, boolean retained) {
+        Link l = links.get(site);
+        if (l == null || retained) return;
+        Instant now = clock.instant();
+        synchronized (l) {
+            if (l.heard == null || now.isAfter(l.heard)) l.heard = now;
+        }
+    }
+
+    /** When a message of the site last arrived while the centre listened, or null. */
+    public Instant lastHeard(String site) {
+        Link l = links.get(site);
+        if (l == null) return null;
+        synchronized (l) {
+            return l.heard;
+        }
     }
 
     /** 1 or 0 as now known, or null. */

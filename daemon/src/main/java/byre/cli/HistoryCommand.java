@@ -58,7 +58,7 @@ final class HistoryCommand implements Callable<Integer> {
         if (cfg == null) return Main.USAGE;
         Query q;
         try {
-            q = resolve(cfg, zone, quantity, sensor, from, to, every, Clock.systemUTC().instant());
+            q = resolve(byre.central.FoundSites.readStored(cfg), zone, quantity, sensor, from, to, every, Clock.systemUTC().instant());
         } catch (BadQuery e) {
             System.err.println("byre: " + e.getMessage());
             return Main.USAGE;
@@ -110,7 +110,7 @@ final class HistoryCommand implements Callable<Integer> {
                     + Suggest.hint(quantity, Quantity.ids()) + "; known: " + String.join(", ", Quantity.ids())));
             key = StreamKey.zone(zone, q);
             // A central zone's every value as its site published it (the zone stream is stored once a minute).
-            if (cfg.central().isMirroredZone(zone)) key = StreamKey.sensor(zone + "/" + q.id());
+            if (cfg.central().isMirroredZone(zone)) key = StreamKey.sensor(byre.config.CentralSettings.mirrorSensor(zone, q));
             if (cfg.central().isSiteZone(zone) && q == Quantity.ONLINE) key = StreamKey.sensor(byre.config.CentralSettings.onlineSensor(zone));
             name = q.id();
         }

@@ -48,8 +48,10 @@ final class StatusCommand implements Callable<Integer> {
 
     @Override
     public Integer call() {
-        ByreConfig cfg = config.load(System.err);
-        if (cfg == null) return Main.USAGE;
+        ByreConfig loaded = config.load(System.err);
+        if (loaded == null) return Main.USAGE;
+        // A central byre's sites found on the broker are in its history, with their zones.
+        ByreConfig cfg = byre.central.FoundSites.readStored(loaded);
         if (site != null && !cfg.central().siteIds().contains(site)) {
             System.err.println("byre: --site " + site + ": not a site of this central byre's configuration"
                     + byre.units.Suggest.hint(site, cfg.central().siteIds())

@@ -39,6 +39,19 @@ public record ByreConfig(Path file, String site, ZoneId timezone, DisplayUnits u
         return new ByreConfig(file, site, timezone, units, mqtt, sensors, z, channels, rulePaths, history, admin, alerts, page, central);
     }
 
+    /** This configuration with more central sites (found on the broker): their entries, sensors and zones. */
+    public ByreConfig withCentralSites(java.util.Collection<CentralSettings.Site> more) {
+        if (more.isEmpty()) return this;
+        Map<String, SensorConfig> se = new java.util.LinkedHashMap<>(sensors);
+        Map<String, ZoneConfig> zo = new java.util.LinkedHashMap<>(zones);
+        CentralSettings c = central;
+        for (CentralSettings.Site s : more) {
+            CentralSettings.addSite(s, mqtt.publishPrefix(), se, zo);
+            c = c.with(s);
+        }
+        return new ByreConfig(file, site, timezone, units, mqtt, se, zo, channels, rulePaths, history, admin, alerts, page, c);
+    }
+
     public ByreConfig withRulePaths(List<Path> paths) {
         return new ByreConfig(file, site, timezone, units, mqtt, sensors, zones, channels, paths, history, admin, alerts, page, central);
     }

@@ -1,6 +1,5 @@
 package byre.config;
 
-import byre.units.Quantity;
 import java.time.Duration;
 import java.util.ArrayList;
 import java.util.LinkedHashMap;
@@ -14,10 +13,11 @@ import org.snakeyaml.engine.v2.nodes.Node;
  * becomes the zone {@code <site>/<zone>}, fed by one sensor per quantity on the site's zone-stream topics; each site
  * also gets the zone {@code <site>} (group {@code sites}) whose {@code online} stream comes from its status and bridge
  * topics. Added to {@code sensors} and {@code zones}, so the rules, the history and {@code byre status} see them like
- * any other.
+ * any other. {@code defaults} fills what a site's entry leaves out; {@code discover: true} also takes in the sites
+ * found on the broker, each with the defaults.
  */
 final class CentralSection {
-    static final Set<String> KEYS = NodeReader.ordered("sites");
+    static final Set<String> KEYS = NodeReader.ordered("sites", "discover", "defaults");
     static final Set<String> SITE_KEYS = NodeReader.ordered("zones", "groups", "max-age");
 
     private CentralSection() {}
@@ -26,63 +26,62 @@ final class CentralSection {
                                 Map<String, ZoneConfig> zones) {
         if (node == null) return CentralSettings.NONE;
         Map<String, Node> c = r.mapping(node, KEYS, "central");
-        if (c.get("sites") == null) {
-            r.problem(node, "central: lists no sites (sites: { larkmoor: { zones: [cow-shed] } })");
+        boolean discover = r.bool(c.get("discover"), "central.discover", false);
+        CentralSettings.Defaults defaults = CentralSettings.Defaults.NONE;
+        if (c.get("defaults") != null) {
+            Map<String, Node> d = r.mapping(c.get("defaults"), SITE_KEYS, "central.defaults");
+            defaults = new CentralSettings.Defaults(zoneIds(r, d.get("zones"), "central.defaults"), groups(r, d.get("groups")),
+                    r.duration(d.get("max-age"), "max-age", CentralSettings.DEFAULT_MAX_AGE));
+        }
+        if (c.get("sites") == null && !discover) {
+            r.problem(node, "central: lists no sites and does not discover them (sites: { larkmoor: { zones: [cow-shed] } }, or discover: true)");
             return CentralSettings.NONE;
         }
         Map<String, CentralSettings.Site> sites = new LinkedHashMap<>();
-        for (Map.Entry<String, Node> e : r.mapping(c.get("sites"), null, "central.sites").entrySet()) {
+        Map<String, Node> listed = c.get("sites") == null ? Map.of() : r.mapping(c.get("sites"), null, "central.sites");
+        for (Map.Entry<String, Node> e : listed.entrySet()) {
             String id = e.getKey();
             Node n = e.getValue();
-            if (!id.matches("[A-Za-z0-9][A-Za-z0-9_.-]*")) {
-                r.problem(r.keyOf(n), "site id '" + id + "' must be letters, digits, '-', '_' or '.' (it is a topic level of that site)");
-                continue;
+            String bad = CentralSettings.siteIdProblem(id, ownSite, zones);
+            if (bad != null) {
+                r.problem(r.keyOf(n), bad);
+                if (!CentralSettings.isSiteId(id)) continue;
             }
-            if (id.equals(ownSite)) r.problem(r.keyOf(n), "site '" + id + "' is this byre's own site: the centre needs a site id of its own");
-            if (zones.containsKey(id)) r.problem(r.keyOf(n), "site '" + id + "' has the name of a zone of this configuration");
             Map<String, Node> f = r.mapping(n, SITE_KEYS, "site " + id);
-            List<NodeReader.Item> zoneItems = r.items(f.get("zones"), "zones");
-            List<String> siteZones = zoneItems.stream().map(NodeReader.Item::value).toList();
-            if (siteZones.isEmpty()) r.problem(n, "site " + id + " lists no zones (zones: [cow-shed, calf-pen-1])");
-            List<String> groups = new ArrayList<>();
-            for (NodeReader.Item g : r.items(f.get("groups"), "groups")) {
-                groups.add(g.value());
-                if (g.value().equals(CentralSettings.SITES_GROUP)) {
-                    r.problem(g.node(), "group '" + CentralSettings.SITES_GROUP + "' is every site's own zone (its online stream); choose another name");
-                }
-            }
-            Duration maxAge = r.duration(f.get("max-age"), "max-age", Duration.ofMinutes(5));
-            int line = NodeReader.line(n);
-            for (NodeReader.Item item : zoneItems) {
-                String z = item.value();
-                if (!z.matches("[A-Za-z0-9][A-Za-z0-9_.-]*")) {
-                    r.problem(item.node(), "zone id '" + z + "' must be letters, digits, '-', '_' or '.'");
-                    continue;
-                }
-                String zoneId = CentralSettings.zoneId(id, z);
-                if (zones.containsKey(zoneId)) {
-                    r.problem(item.node(), "site " + id + " lists zone " + z + " twice");
-                    continue;
-                }
-                List<String> zoneSensors = new ArrayList<>();
-                for (Quantity q : Quantity.values()) {
-                    if (q == Quantity.ONLINE) continue;
-                    String sensorId = zoneId + "/" + q.id();
-                    String topic = mqtt.publishPrefix() + "/" + id + "/zones/" + z + "/" + q.id();
-                    sensors.put(sensorId, new SensorConfig(sensorId, topic, q, q.canonicalUnit(),
-                            new PayloadFormat(PayloadFormat.Kind.JSON, "value"), "at", 0, line));
-                    zoneSensors.add(sensorId);
-                }
-                zones.put(zoneId, new ZoneConfig(zoneId, groups, zoneSensors, Double.NaN, ZoneConfig.Psychrometer.ASPIRATED, maxAge,
-                        "nrc-1971", line));
-            }
-            String online = CentralSettings.onlineSensor(id);
-            sensors.put(online, new SensorConfig(online, mqtt.publishPrefix() + "/" + id + "/status", Quantity.ONLINE,
-                    Quantity.ONLINE.canonicalUnit(), PayloadFormat.NUMBER, null, 0, line));
-            zones.put(id, new ZoneConfig(id, List.of(CentralSettings.SITES_GROUP), List.of(online), Double.NaN,
-                    ZoneConfig.Psychrometer.ASPIRATED, maxAge, "nrc-1971", line));
-            sites.put(id, new CentralSettings.Site(id, siteZones, groups, maxAge, line));
+            List<String> siteZones = f.get("zones") == null ? defaults.zones() : zoneIds(r, f.get("zones"), "site " + id);
+            if (siteZones.isEmpty()) r.problem(n, "site " + id + " lists no zones (zones: [cow-shed, calf-pen-1]), and central.defaults gives none");
+            List<String> groups = f.get("groups") == null ? defaults.groups() : groups(r, f.get("groups"));
+            Duration maxAge = r.duration(f.get("max-age"), "max-age", defaults.maxAge());
+            CentralSettings.Site site = new CentralSettings.Site(id, siteZones, groups, maxAge, NodeReader.line(n));
+            CentralSettings.addSite(site, mqtt.publishPrefix(), sensors, zones);
+            sites.put(id, site);
         }
-        return new CentralSettings(sites);
+        return new CentralSettings(sites, defaults, discover);
+    }
+
+    private static List<String> zoneIds(NodeReader r, Node node, String whose) {
+        List<String> out = new ArrayList<>();
+        for (NodeReader.Item item : r.items(node, "zones")) {
+            String z = item.value();
+            if (!CentralSettings.isSiteId(z)) {
+                r.problem(item.node(), "zone id '" + z + "' must be letters, digits, '-', '_' or '.'");
+            } else if (out.contains(z)) {
+                r.problem(item.node(), whose + " lists zone " + z + " twice");
+            } else {
+                out.add(z);
+            }
+        }
+        return out;
+    }
+
+    private static List<String> groups(NodeReader r, Node node) {
+        List<String> groups = new ArrayList<>();
+        for (NodeReader.Item g : r.items(node, "groups")) {
+            groups.add(g.value());
+            if (g.value().equals(CentralSettings.SITES_GROUP)) {
+                r.problem(g.node(), "group '" + CentralSettings.SITES_GROUP + "' is every site's own zone (its online stream); choose another name");
+            }
+        }
+        return groups;
     }
 }

@@ -105,6 +105,15 @@ public final class ConfigRuleContext implements RuleContext {
         return z == null ? java.util.Optional.empty() : Derivable.whyNot(zone, quantity, measured.get(zone), thiVariant(z));
     }
 
+    /** A central byre that takes in the sites it finds: they join {@code sites} and the groups of {@code central.defaults}. */
+    @Override
+    public Set<String> growingGroups() {
+        if (!config.central().discover()) return Set.of();
+        Set<String> g = new LinkedHashSet<>(config.central().defaults().groups());
+        g.add(byre.config.CentralSettings.SITES_GROUP);
+        return g;
+    }
+
     @Override
     public String site() {
         return config.site();

@@ -32,6 +32,8 @@ public final class Daemon implements AutoCloseable {
     public static final int FLOOD_LIMIT_PER_SENSOR = 50;
 
     private final ByreConfig config;
+    /** The configuration with the sites a central byre found (its zones and sensors too); the file's otherwise. */
+    private volatile ByreConfig running;
     private final Clock clock;
     private final byre.time.Ticker ticker;
     private final MeterRegistry registry;
@@ -54,6 +56,7 @@ public final class Daemon implements AutoCloseable {
 
     private Daemon(ByreConfig config, Clock clock, byre.time.Ticker ticker, MeterRegistry registry) {
         this.config = config;
+        this.running = config;
         this.clock = clock;
         this.ticker = ticker;
         this.registry = registry;
@@ -98,19 +101,22 @@ public final class Daemon implements AutoCloseable {
      */
     public Daemon start(ZoneDeriver deriver) throws Exception {
         try {
-            rules = new RuleLoader(config, clock);
-            byre.rules.RuleSet ruleSet = rules.load()
-                    .orElseThrow(() -> new StartException("the rule files have errors (listed above); run 'byre check'"));
             Path db = config.history().path();
             if (db.getParent() != null) Files.createDirectories(db.getParent());
             store = HistoryStore.open(db, clock);
+            byre.central.FoundSites found = new byre.central.FoundSites(store);
+            // A central byre starts with the sites it found before, their zones and watches included.
+            running = found.withStored(config);
+            rules = new RuleLoader(running, clock);
+            byre.rules.RuleSet ruleSet = rules.load()
+                    .orElseThrow(() -> new StartException("the rule files have errors (listed above); run 'byre check'"));
             writer = HistoryWriter.start(store, new Retention(config.history().keepRaw(), config.history().keepMinute(),
                     config.history().keepHour()), clock, writerSettings(config), ticker);
             registerHistoryMeters();
 
-            byre.config.CentralSettings sites = config.central();
+            byre.config.CentralSettings sites = running.central();
             // A central zone takes its site's streams as they are: the barn derived them, the centre derives nothing.
-            ZoneDeriver zoneDeriver = byre.central.CentralDeriver.wrap(sites, deriver);
+            ZoneDeriver zoneDeriver = byre.central.CentralDeriver.wrap(() -> running.central(), deriver);
             // Zones combine inputs with the max-ages known at start (learnt from the history where not configured).
             zones = new ZoneStage(new ArrayList<>(rules.effective().zones().values()), zoneDeriver, new ZoneMetrics(registry));
             pipeline = new Pipeline(zones, writer, clock, ticker);
@@ -124,7 +130,7 @@ public final class Daemon implements AutoCloseable {
                 mqtt = mqtt.withBroker("embedded", broker.ownPort());
             }
             link = new MqttLink(mqtt, config.site(), registry, ticker);
-            quietLimit = QuietLimit.of(config, ReportingIntervals.fromHistory(config, clock.instant()));
+            quietLimit = QuietLimit.of(running, ReportingIntervals.fromHistory(running, clock.instant()));
             publisher = new ZoneStreamPublisher(link, config.mqtt().publishPrefix(), config.site(), config.mqtt().publishEvery());
             if (sites.enabled()) {
                 // The centre does not send the sites' streams back out under its own name.
@@ -177,14 +183,15 @@ public final class Daemon implements AutoCloseable {
                     .description("Rule reloads since start").register(registry);
             extraListeners.forEach(pipeline::addListener);
 
-            IngestStage ingest = new IngestStage(config.sensors().values(), clock, ticker, registry, pipeline::offer, FLOOD_LIMIT_PER_SENSOR);
+            IngestStage ingest = new IngestStage(running.sensors().values(), clock, ticker, registry, pipeline::offer, FLOOD_LIMIT_PER_SENSOR);
             java.util.Set<String> centralSensors = new java.util.HashSet<>();
             if (sites.enabled()) {
-                for (var z : config.zones().values()) if (isCentralZone(z.id())) centralSensors.addAll(z.sensors());
-                central = new byre.central.CentralConsumer(config, link, store.openSyncedConnection(), clock, registry, pipeline::offer);
+                for (var z : running.zones().values()) if (isCentralZone(z.id())) centralSensors.addAll(z.sensors());
+                central = new byre.central.CentralConsumer(running, link, store.openSyncedConnection(), found, clock, registry, pipeline::offer);
+                central.onFound(more -> takeIn(more, ingest));
                 central.subscribe(ingest);
             }
-            for (SensorConfig s : config.sensors().values()) {
+            for (SensorConfig s : running.sensors().values()) {
                 if (!centralSensors.contains(s.id())) link.subscribeAcked(s.topic(), ingest::accept);
             }
             link.onConnect(publisher::republishAll);
@@ -194,8 +201,9 @@ public final class Daemon implements AutoCloseable {
             if (central != null) central.start();
             alerts.start();
             link.start();
-            LOG.info("byre started for site {}: {} sensors in {} zones, history {}", config.site(), config.sensors().size(),
-                    config.zones().size(), db);
+            int foundBefore = running.central().siteIds().size() - config.central().siteIds().size();
+            LOG.info("byre started for site {}: {} sensors in {} zones{}, history {}", config.site(), running.sensors().size(),
+                    running.zones().size(), foundBefore > 0 ? " (with " + foundBefore + " sites found on the broker before)" : "", db);
             return this;
         } catch (Exception e) {
             close();
@@ -227,7 +235,23 @@ public final class Daemon implements AutoCloseable {
     }
 
     private boolean isCentralZone(String zone) {
-        return config.central().isSiteZone(zone) || config.central().isMirroredZone(zone);
+        byre.config.CentralSettings c = running.central();
+        return c.isSiteZone(zone) || c.isMirroredZone(zone);
+    }
+
+    /**
+     * Takes in the sensors and zones of a site a central byre found (on the MQTT callback thread, before the site's
+     * first reading) and has the rules compiled again with its zones, on the pipeline thread within a second.
+     */
+    private void takeIn(ByreConfig more, IngestStage ingest) {
+        ByreConfig before = running;
+        List<SensorConfig> sensors = more.sensors().values().stream().filter(s -> !before.sensors().containsKey(s.id())).toList();
+        List<byre.config.ZoneConfig> zoneList = more.zones().values().stream().filter(z -> !before.zones().containsKey(z.id())).toList();
+        ingest.router().add(sensors);
+        pipeline.addZones(zoneList);
+        running = more;
+        rules.use(more);
+        reload();
     }
 
     /**

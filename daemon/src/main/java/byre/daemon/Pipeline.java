@@ -87,6 +87,13 @@ public final class Pipeline implements AutoCloseable {
         this.thread = new Thread(this::loop, "pipeline");
     }
 
+    /** Takes in zones that came after the start (a central byre's found sites), in step with the readings. */
+    void addZones(java.util.Collection<byre.config.ZoneConfig> more) {
+        synchronized (lock) {
+            zones.add(more);
+        }
+    }
+
     void addListener(ZoneListener l) {
         listeners.add(l);
     }

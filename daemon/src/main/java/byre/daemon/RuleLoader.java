@@ -22,7 +22,7 @@ import org.slf4j.LoggerFactory;
 final class RuleLoader {
     private static final Logger LOG = LoggerFactory.getLogger(RuleLoader.class);
 
-    private final ByreConfig config;
+    private volatile ByreConfig config;
     private final java.time.Clock clock;
     private String fingerprint = "";
     private volatile ByreConfig effective;
@@ -32,6 +32,14 @@ final class RuleLoader {
         this.config = config;
         this.clock = clock;
         this.effective = config;
+    }
+
+    /**
+     * Compiles against {@code more} from the next {@link #load()} on: the configuration with sites a central byre has
+     * found since (their zones and groups), which the caller then asks to be loaded.
+     */
+    void use(ByreConfig more) {
+        config = more;
     }
 
     List<Path> paths() {

@@ -23,8 +23,10 @@ public final class TopicRouter {
         }
     }
 
-    private final Map<String, Route> exact = new HashMap<>();
-    private final List<Family> families = new ArrayList<>();
+    // Replaced, never changed, when a central byre adds the sensors of a site it found: routing every message reads
+    // a plain map (one volatile read), and adding is rare.
+    private volatile Map<String, Route> exact = Map.of();
+    private volatile List<Family> families = List.of();
 
     /** A wildcard entry, its split filter and the ids it has taken in. */
     private static final class Family {
@@ -51,13 +53,22 @@ public final class TopicRouter {
     }
 
     public TopicRouter(Collection<SensorConfig> sensors) {
+        add(sensors);
+    }
+
+    /** Routes these sensors' topics too (a site a central byre found after the start); known topics stay as they are. */
+    public synchronized void add(Collection<SensorConfig> sensors) {
+        Map<String, Route> e = new HashMap<>(exact);
+        List<Family> f = new ArrayList<>(families);
         for (SensorConfig s : sensors) {
             if (s.isFamily()) {
-                families.add(new Family(s));
+                if (f.stream().noneMatch(x -> x.sensor.id().equals(s.id()))) f.add(new Family(s));
             } else {
-                exact.put(s.topic(), new Route(s, s.id()));
+                e.putIfAbsent(s.topic(), new Route(s, s.id()));
             }
         }
+        exact = e;
+        families = f;
     }
 
     /** The route for a topic, or null when no sensor is configured for it. */

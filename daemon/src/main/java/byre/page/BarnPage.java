@@ -1,10 +1,13 @@
 package byre.page;
 
 import byre.admin.LiveValues;
+import byre.alerts.AckService;
 import byre.alerts.OpenIncident;
+import byre.central.CentralConsumer;
 import byre.config.ByreConfig;
 import byre.config.PageSettings;
 import byre.daemon.Daemon;
+import byre.history.HistoryReader;
 import java.io.IOException;
 import java.nio.file.Path;
 import java.time.Clock;
@@ -53,9 +56,16 @@ public final class BarnPage implements byre.alerts.AckLinks, AutoCloseable {
             LOG.info("page.base-url is not set: messages carry no acknowledgement link");
         }
         Supplier<List<OpenIncident>> open = () -> daemon.alerts().book().openIncidents();
-        BarnPageSource source = new BarnPageSource(cfg, live, () -> daemon.store().openReader(), open);
+        Supplier<HistoryReader> readers = () -> daemon.store().openReader();
+        CentralConsumer central = daemon.central();
+        BarnPageSource source = central == null ? new BarnPageSource(cfg, live, readers, open)
+                : new BarnPageSource(cfg, live, readers, open, central::settings);
         BarnPageHtml.Site site = new BarnPageHtml.Site(cfg.site(), cfg.timezone(), cfg.units() == ByreConfig.DisplayUnits.US);
-        PageServer server = PageServer.start(ps.host(), ps.port(), site, source, open, daemon.alerts(), signer, cfg.admin().token(),
+        // A central byre lists its sites; acknowledging one of a site's incidents sends it to that site (Daemon.acknowledge).
+        PageContent content = central == null ? PageContent.barn(site, source, open)
+                : PageContent.central(site, CentralPageSource.of(cfg, central, source, readers, open));
+        AckService acks = central == null ? daemon.alerts() : daemon::acknowledge;
+        PageServer server = PageServer.start(ps.host(), ps.port(), site, content, acks, signer, cfg.admin().token(),
                 ps.readingNeedsToken(), clock, registry);
         BarnPage page = new BarnPage(server, signer, ps.linksEnabled() && signer != null);
         if (page.linksInMessages) daemon.alerts().useAckLinks(page);

@@ -85,6 +85,14 @@ final class BarnPageHtml {
             label{display:block;margin:10px 0 4px}
             input{font:inherit;width:100%;padding:10px;border-radius:6px;border:1px solid var(--line);background:var(--bg);color:var(--fg)}
             footer{margin:18px 0 8px}
+            .state{font-weight:700}.state.off{background:#D55E00;color:#000;border-radius:4px;padding:0 6px}
+            .site h2{margin:0 0 4px;display:flex;flex-wrap:wrap;justify-content:space-between;align-items:baseline;gap:2px 10px}
+            .site h2 a{color:inherit;display:inline-block;padding:6px 0}.site h2 .sub{font-weight:400}
+            ul.keys{list-style:none;margin:6px 0 0;padding:0}
+            ul.keys li{display:flex;flex-wrap:wrap;align-items:center;gap:2px 10px;border-top:1px solid var(--line);padding:6px 0 0;margin-top:6px}
+            .zn{flex:1 0 100%;color:var(--muted);font-size:.9rem}
+            .kv{font-size:1.3rem;font-weight:700;font-variant-numeric:tabular-nums}
+            ul.keys .band{font-size:.95rem;padding:0 8px}
             """;
     /** The style sheet's hash for the Content-Security-Policy, so no other inline style may run. */
     static final String CSS_HASH = "sha256-" + sha256(CSS);
@@ -103,18 +111,35 @@ final class BarnPageHtml {
     static String page(Site site, BarnView v, Instant now) {
         StringBuilder sb = new StringBuilder(16_384);
         head(sb, site, now, site.name() + " barn", true);
-        ZonedDateTime local = now.atZone(site.timezone());
-        sb.append("<header><div><h1>").append(esc(site.name())).append("</h1><div class=\"sub\">")
-                .append(esc(local.format(DAY))).append(", farm time</div></div>")
-                .append("<div class=\"clock\" id=\"farm-time\">").append(local.format(CLOCK)).append("</div></header>\n");
+        header(sb, site, now);
+        if (v.state() != null) {
+            sb.append("<nav class=\"sub\"><a href=\"/\" id=\"all-sites\">&larr; All sites</a> &middot; ");
+            linkState(sb, v.state(), now);
+            sb.append("</nav>\n");
+        }
         if (v.problem() != null) sb.append("<p class=\"card\"><strong>").append(esc(v.problem())).append("</strong></p>\n");
 
         alerts(sb, site, v, now);
         sb.append("<section id=\"zones\"><h2>Zones</h2>\n");
         for (BarnView.Zone z : v.zones()) zone(sb, site, z, v, now);
         sb.append("</section>\n");
-        silent(sb, v, now);
+        // A site seen from the centre has no sensors here: its barn's page lists its silent ones.
+        if (v.state() == null || v.state().self()) silent(sb, v, now);
 
+        footer(sb, site);
+        return sb.toString();
+    }
+
+    /** The name, the day and the farm's time, large. */
+    static void header(StringBuilder sb, Site site, Instant now) {
+        ZonedDateTime local = now.atZone(site.timezone());
+        sb.append("<header><div><h1>").append(esc(site.name())).append("</h1><div class=\"sub\">")
+                .append(esc(local.format(DAY))).append(", farm time</div></div>")
+                .append("<div class=\"clock\" id=\"farm-time\">").append(local.format(CLOCK)).append("</div></header>\n");
+    }
+
+    /** Time zone, units, the THI bands and their source, the safety note; the end of the page. */
+    static void footer(StringBuilder sb, Site site) {
         sb.append("<footer class=\"note\"><p>Farm time is ").append(esc(site.timezone().getId())).append(". Values in ")
                 .append(site.us() ? "US units" : "metric units")
                 .append(". THI bands: ").append(esc(SCALE.source())).append("; ");
@@ -125,7 +150,6 @@ final class BarnPageHtml {
         sb.append(".</p><p>Alerts and bands supplement, never replace, regular checks of the animals, their water and "
                 + "ventilation. Adapt every threshold with the herd&#39;s veterinarian and local codes of practice.</p>")
                 .append("<p>Refreshes every minute.</p></footer>\n</body></html>\n");
-        return sb.toString();
     }
 
     /** Unacknowledged first, then the most severe, then the oldest: what needs someone comes to the top. */
@@ -134,7 +158,8 @@ final class BarnPageHtml {
             .thenComparing(a -> -severity(a.level()))
             .thenComparing(a -> a.since() == null ? a.raisedAt() : a.since(), java.util.Comparator.nullsLast(java.util.Comparator.naturalOrder()));
 
-    private static int severity(String level) {
+    /** 3 for critical, 2 warning, 1 info, 0 none or unknown. */
+    static int severity(String level) {
         return level == null ? 0 : switch (level) {
             case "critical" -> 3;
             case "warning" -> 2;
@@ -147,16 +172,8 @@ final class BarnPageHtml {
         List<OpenIncident> open = v.alerts().stream().sorted(URGENCY).toList();
         sb.append("<section id=\"alerts\"><h2>").append(open.isEmpty() ? "No open alerts" : "Open alerts (" + open.size() + ")").append("</h2>\n");
         for (OpenIncident a : open) {
-            String level = a.level() == null ? "info" : a.level();
-            sb.append("<article class=\"card alert lvl-").append(esc(cssWord(level))).append("\" data-incident=\"").append(esc(a.id())).append("\">");
-            sb.append("<p class=\"what\"><span class=\"level\">").append(esc(level)).append("</span>").append(esc(a.watch()));
-            if (a.zone() != null && !a.zone().isEmpty()) sb.append(" in <span class=\"nb\">").append(esc(a.zone())).append("</span>");
-            sb.append("</p>");
-            String reading = reading(a, site.us());
-            if (!reading.isEmpty()) sb.append("<p class=\"reading\">").append(reading).append("</p>");
-            if (a.message() != null && !a.message().isBlank()) sb.append("<p class=\"msg\">").append(esc(a.message())).append("</p>");
-            sb.append("<p class=\"meta\">open ").append(esc(IncidentBook.human(Duration.between(a.since() == null ? a.raisedAt() : a.since(), now))))
-                    .append(" &middot; incident <span class=\"id\">").append(esc(a.id())).append("</span></p>");
+            sb.append("<article class=\"card alert lvl-").append(esc(levelWord(a))).append("\" data-incident=\"").append(esc(a.id())).append("\">");
+            details(sb, site, a, zoneName(site, v, a.zone()), now);
             if (a.ackBy() == null) {
                 sb.append("<div class=\"ackrow\"><span class=\"unacked\">Not acknowledged</span><a class=\"button\" href=\"/ack/")
                         .append(esc(a.id())).append("\">Acknowledge&hellip;</a></div>");
@@ -176,14 +193,14 @@ final class BarnPageHtml {
         if (q == null || !Double.isFinite(a.value())) return "";
         Unit u = displayUnit(q, us);
         String s = esc(label(q)) + " " + number(u.fromCanonical(a.value()), q, u) + unitSuffix(u);
-        if (q == Quantity.THI) s += " <span class=\"band b" + bandIndex(a.value()) + "\">" + esc(bandName(a.value())) + "</span>";
+        if (q == Quantity.THI) s += " " + bandChip(a.value());
         return s;
     }
 
     private static void zone(StringBuilder sb, Site site, BarnView.Zone z, BarnView v, Instant now) {
         long alerts = v.alerts().stream().filter(a -> z.id().equals(a.zone())).count();
         sb.append("<article class=\"card zone\" id=\"zone-").append(esc(z.id())).append("\" data-zone=\"").append(esc(z.id())).append("\">");
-        sb.append("<h2><span>").append(esc(z.id())).append("</span>");
+        sb.append("<h2><span>").append(esc(zoneName(site, v, z.id()))).append("</span>");
         if (alerts > 0) sb.append("<a href=\"#alerts\">").append(alerts).append(alerts == 1 ? " open alert" : " open alerts").append("</a>");
         sb.append("</h2>");
         if (!z.groups().isEmpty()) sb.append("<div class=\"sub\">").append(esc(String.join(", ", z.groups()))).append("</div>");
@@ -195,8 +212,7 @@ final class BarnPageHtml {
         if (thi != null) {
             boolean stale = stale(thi, z, now);
             sb.append("<div class=\"thi").append(stale ? " stale" : "").append("\" data-q=\"thi\"><div><div class=\"sub\">THI</div><span class=\"big\">")
-                    .append(fmt(thi.value(), 1)).append("</span></div><span class=\"band b").append(bandIndex(thi.value())).append("\">")
-                    .append(esc(bandName(thi.value()))).append("</span>");
+                    .append(fmt(thi.value(), 1)).append("</span></div>").append(bandChip(thi.value()));
             if (stale) sb.append("<span class=\"sub\">").append(esc(ago(thi, now))).append("</span>");
             sb.append("</div>");
         }
@@ -335,16 +351,59 @@ final class BarnPageHtml {
     }
 
     private static void alertSummary(StringBuilder sb, Site site, OpenIncident a, Instant now) {
-        String level = a.level() == null ? "info" : a.level();
-        sb.append("<article class=\"card alert lvl-").append(esc(cssWord(level))).append("\" data-incident=\"").append(esc(a.id())).append("\">")
-                .append("<p class=\"what\"><span class=\"level\">").append(esc(level)).append("</span>").append(esc(a.watch()));
-        if (a.zone() != null && !a.zone().isEmpty()) sb.append(" in <span class=\"nb\">").append(esc(a.zone())).append("</span>");
-        sb.append("</p>");
+        sb.append("<article class=\"card alert lvl-").append(esc(levelWord(a))).append("\" data-incident=\"").append(esc(a.id())).append("\">");
+        details(sb, site, a, a.zone(), now);
+        sb.append("</article>");
+    }
+
+    /** An alert's level, watch and zone, its reading, message, age and incident id (the card's body before acknowledging). */
+    private static void details(StringBuilder sb, Site site, OpenIncident a, String zone, Instant now) {
+        what(sb, a, zone);
         String reading = reading(a, site.us());
         if (!reading.isEmpty()) sb.append("<p class=\"reading\">").append(reading).append("</p>");
         if (a.message() != null && !a.message().isBlank()) sb.append("<p class=\"msg\">").append(esc(a.message())).append("</p>");
-        sb.append("<p class=\"meta\">open ").append(esc(IncidentBook.human(Duration.between(a.since() == null ? a.raisedAt() : a.since(), now))))
-                .append(" &middot; incident <span class=\"id\">").append(esc(a.id())).append("</span></p></article>");
+        sb.append("<p class=\"meta\">open ").append(esc(openFor(a, now)))
+                .append(" &middot; incident <span class=\"id\">").append(esc(a.id())).append("</span></p>");
+    }
+
+    /** A zone as named on the page: on a central byre's page of one site, within that site ({@code cow-shed}). */
+    private static String zoneName(Site site, BarnView v, String zone) {
+        return v.state() == null || v.state().self() ? zone : SitesPageHtml.within(site.name(), zone);
+    }
+
+    /** "WARNING heat-stress in cow-shed": the level chip, the watch, and {@code zone} as shown (none when empty). */
+    static void what(StringBuilder sb, OpenIncident a, String zone) {
+        sb.append("<p class=\"what\"><span class=\"level\">").append(esc(a.level() == null ? "info" : a.level())).append("</span>").append(esc(a.watch()));
+        if (zone != null && !zone.isEmpty()) sb.append(" in <span class=\"nb\">").append(esc(zone)).append("</span>");
+        sb.append("</p>");
+    }
+
+    /** How long an alert has been open: "42 min". */
+    static String openFor(OpenIncident a, Instant now) {
+        return IncidentBook.human(Duration.between(a.since() == null ? a.raisedAt() : a.since(), now));
+    }
+
+    /** The alert's level as a CSS class word ({@code lvl-<word>} colours its card). */
+    static String levelWord(OpenIncident a) {
+        return cssWord(a.level() == null ? "info" : a.level());
+    }
+
+    /** "online last message 20 s ago", "offline last message 3 h ago", "no status yet nothing heard yet", or "this byre". */
+    static void linkState(StringBuilder sb, BarnView.SiteState s, Instant now) {
+        if (s.self()) {
+            sb.append("<span class=\"state\">this byre</span>");
+            return;
+        }
+        String word = s.online() == null ? "unknown" : s.online() ? "online" : "offline";
+        sb.append("<span class=\"state").append(Boolean.FALSE.equals(s.online()) ? " off" : "").append("\" data-state=\"").append(word)
+                .append("\">").append(s.online() == null ? "no status yet" : word).append("</span> <span class=\"nb heard\">");
+        if (s.lastHeard() == null) {
+            sb.append("nothing heard yet</span>");
+        } else {
+            Duration ago = Duration.between(s.lastHeard(), now);
+            // A site's clock a little ahead of the centre's reads "0 s ago", not a negative time.
+            sb.append("last message ").append(esc(IncidentBook.human(ago.isNegative() ? Duration.ZERO : ago))).append(" ago</span>");
+        }
     }
 
     /** A page that says what happened (or why nothing did) and leads back to the barn page. */
@@ -358,7 +417,7 @@ final class BarnPageHtml {
 
     // ---- shared parts ----
 
-    private static void head(StringBuilder sb, Site site, Instant now, String title, boolean refresh) {
+    static void head(StringBuilder sb, Site site, Instant now, String title, boolean refresh) {
         int hour = now.atZone(site.timezone()).getHour();
         boolean night = hour >= NIGHT_FROM_HOUR || hour < NIGHT_TO_HOUR;
         sb.append("<!DOCTYPE html>\n<html lang=\"en\"").append(night ? " class=\"night\"" : "").append(">\n<head><meta charset=\"utf-8\">")
@@ -377,11 +436,11 @@ final class BarnPageHtml {
         return t.atZone(zone).format(WHEN);
     }
 
-    private static boolean stale(BarnView.Value v, BarnView.Zone z, Instant now) {
+    static boolean stale(BarnView.Value v, BarnView.Zone z, Instant now) {
         return Duration.between(v.at(), now).compareTo(z.maxAge()) > 0;
     }
 
-    private static String ago(BarnView.Value v, Instant now) {
+    static String ago(BarnView.Value v, Instant now) {
         return IncidentBook.human(Duration.between(v.at(), now)) + " old";
     }
 
@@ -391,6 +450,11 @@ final class BarnPageHtml {
         List<ThiScale.Band> bands = SCALE.bands();
         for (int i = 0; i < bands.size(); i++) if (shown(thi) >= bands.get(i).from()) idx = i;
         return idx;
+    }
+
+    /** The band of a THI in words on its colour: {@code <span class="band b2">danger</span>}. */
+    static String bandChip(double thi) {
+        return "<span class=\"band b" + bandIndex(thi) + "\">" + esc(bandName(thi)) + "</span>";
     }
 
     /** The band's name for a THI, judged on the value as shown (one decimal): "84.0" never reads "danger". */
@@ -430,7 +494,7 @@ final class BarnPageHtml {
         return fmt(v, decimals);
     }
 
-    private static String unitSuffix(Unit u) {
+    static String unitSuffix(Unit u) {
         String s = u.symbol();
         if (s.isEmpty()) return "";
         return (s.equals("%") ? "" : "\u00a0") + esc(s.equals("C") || s.equals("F") ? "\u00b0" + s : s);

@@ -20,13 +20,11 @@ import java.time.Duration;
 import java.time.Instant;
 import java.util.Base64;
 import java.util.HashMap;
-import java.util.List;
 import java.util.Map;
 import java.util.Optional;
 import java.util.concurrent.ExecutorService;
 import java.util.concurrent.Executors;
 import java.util.concurrent.atomic.AtomicInteger;
-import java.util.function.Supplier;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
 
@@ -35,7 +33,8 @@ import org.slf4j.LoggerFactory;
  * network while {@code /metrics} and the token API stay on loopback:
  * <ul>
  * <li>{@code GET /}: the barn page (open on the listener's network, or behind the admin token as a basic-login
- *     password when {@code page.reading: token});</li>
+ *     password when {@code page.reading: token}); on a central byre the list of sites;</li>
+ * <li>{@code GET /site/<site>}: on a central byre, one site's page (read as {@code /} is);</li>
  * <li>{@code GET /a/<incident>/<expiry>/<signature>}: a signed link's page, the alert and one button; a GET never
  *     acknowledges (phones fetch links for previews). {@code POST} to the same address acknowledges, once;</li>
  * <li>{@code GET /ack/<incident>}, {@code POST /ack/<incident>}: acknowledging from the page with the admin token.</li>
@@ -56,8 +55,7 @@ public final class PageServer implements AutoCloseable {
     private final HttpServer server;
     private final ExecutorService pool;
     private final BarnPageHtml.Site site;
-    private final BarnPageSource source;
-    private final Supplier<List<OpenIncident>> open;
+    private final PageContent content;
     private final AckService acks;
     private final AckLinkSigner signer;
     private final byte[] token;
@@ -65,14 +63,13 @@ public final class PageServer implements AutoCloseable {
     private final Clock clock;
     private final MeterRegistry registry;
 
-    private PageServer(HttpServer server, ExecutorService pool, BarnPageHtml.Site site, BarnPageSource source,
-                       Supplier<List<OpenIncident>> open, AckService acks, AckLinkSigner signer, Secret token,
+    private PageServer(HttpServer server, ExecutorService pool, BarnPageHtml.Site site, PageContent content,
+                       AckService acks, AckLinkSigner signer, Secret token,
                        boolean readingNeedsToken, Clock clock, MeterRegistry registry) {
         this.server = server;
         this.pool = pool;
         this.site = site;
-        this.source = source;
-        this.open = open;
+        this.content = content;
         this.acks = acks;
         this.signer = signer;
         this.token = token == null ? null : token.reveal().strip().getBytes(StandardCharsets.UTF_8);
@@ -84,13 +81,14 @@ public final class PageServer implements AutoCloseable {
     /**
      * Binds and starts the listener.
      *
+     * @param content  a barn's page, or a central byre's list of sites and their pages
+     * @param acks     acknowledges an incident of {@link PageContent#open()} (a central byre sends a site's on to it)
      * @param signer checks signed links; null when there is no link key (links then get the "not valid" page)
      * @param token    the admin token, or null (acknowledging from the page is then off; signed links still work)
      * @param registry counts acknowledgement attempts by outcome ({@code byre.page.acks})
      * @throws IOException when the address cannot be bound
      */
-    static PageServer start(String host, int port, BarnPageHtml.Site site, BarnPageSource source, Supplier<List<OpenIncident>> open,
-                            AckService acks, AckLinkSigner signer, Secret token, boolean readingNeedsToken, Clock clock,
+    static PageServer start(String host, int port, BarnPageHtml.Site site, PageContent content, AckService acks, AckLinkSigner signer, Secret token, boolean readingNeedsToken, Clock clock,
                             MeterRegistry registry) throws IOException {
         // Bound the time a slow or idle client may hold a worker (JDK server properties, seconds; the admin API sets the same).
         System.setProperty("sun.net.httpserver.maxReqTime", System.getProperty("sun.net.httpserver.maxReqTime", "10"));
@@ -103,7 +101,7 @@ public final class PageServer implements AutoCloseable {
             t.setDaemon(true);
             return t;
         });
-        PageServer p = new PageServer(http, pool, site, source, open, acks, signer, token, readingNeedsToken, clock, registry);
+        PageServer p = new PageServer(http, pool, site, content, acks, signer, token, readingNeedsToken, clock, registry);
         http.setExecutor(pool);
         http.createContext("/", p::handle);
         http.start();
@@ -124,13 +122,16 @@ public final class PageServer implements AutoCloseable {
             String method = ex.getRequestMethod();
             Instant now = clock.instant();
             if (path.equals("/")) {
-                if (!allowed(ex, method, "GET", "HEAD")) return;
-                if (readingNeedsToken && !basicLogin(ex)) {
-                    ex.getResponseHeaders().set("WWW-Authenticate", "Basic realm=\"byre barn page\", charset=\"UTF-8\"");
-                    send(ex, 401, BarnPageHtml.outcome(site, now, "Login needed", "This barn page asks for the admin token as the password (any user name)."));
-                    return;
+                if (!readable(ex, method, now)) return;
+                send(ex, 200, content.front(now));
+            } else if (path.startsWith("/site/")) {
+                if (!readable(ex, method, now)) return;
+                Optional<String> page = content.site(path.substring("/site/".length()), now);
+                if (page.isPresent()) {
+                    send(ex, 200, page.get());
+                } else {
+                    send(ex, 404, BarnPageHtml.outcome(site, now, "No such site", "No site of that name is known here."));
                 }
-                send(ex, 200, BarnPageHtml.page(site, source.gather(now), now));
             } else if (path.startsWith("/a/")) {
                 link(ex, method, path, now);
             } else if (path.startsWith("/ack/")) {
@@ -147,6 +148,17 @@ public final class PageServer implements AutoCloseable {
                 // the response may already have started
             }
         }
+    }
+
+    /** A GET or HEAD, by someone allowed to read (anyone, or with {@code page.reading: token} the token's holder). */
+    private boolean readable(HttpExchange ex, String method, Instant now) throws IOException {
+        if (!allowed(ex, method, "GET", "HEAD")) return false;
+        if (readingNeedsToken && !basicLogin(ex)) {
+            ex.getResponseHeaders().set("WWW-Authenticate", "Basic realm=\"byre barn page\", charset=\"UTF-8\"");
+            send(ex, 401, BarnPageHtml.outcome(site, now, "Login needed", "This barn page asks for the admin token as the password (any user name)."));
+            return false;
+        }
+        return true;
     }
 
     // ---- signed links ----
@@ -246,7 +258,7 @@ public final class PageServer implements AutoCloseable {
             return;
         }
         String by = form.getOrDefault("by", "").strip();
-        if (by.isEmpty()) by = "barn page";
+        if (by.isEmpty()) by = content.unnamed();
         if (by.length() > 80) by = by.substring(0, 80);
         AckResult r = acks.acknowledge(incident, by);
         count("token", r.status().name().toLowerCase());
@@ -259,7 +271,7 @@ public final class PageServer implements AutoCloseable {
                 + ", open " + IncidentBook.human(Duration.between(i.since() == null ? i.raisedAt() : i.since(), now))).orElse(r.incident());
         switch (r.status()) {
             case ACKNOWLEDGED -> send(ex, 200, BarnPageHtml.outcome(site, now, "Acknowledged", "Acknowledged: " + what
-                    + ". Reminders and escalation stop; the people already told are told who is on it."));
+                    + ". " + content.afterAck(r.incident())));
             case ALREADY -> send(ex, 200, BarnPageHtml.outcome(site, now, "Already acknowledged", what + ": " + r.detail() + ". Nothing was changed."));
             case UNKNOWN -> send(ex, 404, BarnPageHtml.outcome(site, now, "Nothing to acknowledge",
                     "This alert is no longer open: it has cleared. Nothing was changed."));
@@ -279,7 +291,7 @@ public final class PageServer implements AutoCloseable {
     }
 
     private Optional<OpenIncident> find(String incident) {
-        return open.get().stream().filter(i -> i.id().equals(incident)).findFirst();
+        return content.open().stream().filter(i -> i.id().equals(incident)).findFirst();
     }
 
     private boolean tokenMatches(byte[] given) {

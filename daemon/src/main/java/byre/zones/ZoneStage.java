@@ -53,19 +53,30 @@ public final class ZoneStage {
         }
     }
 
-    private final Map<String, ZoneState> bySensor = new HashMap<>();
-    private final Map<String, ZoneState> byZone = new HashMap<>();
+    // Replaced, never changed, when a zone is added (a central byre's found site): readers need no lock.
+    private volatile Map<String, ZoneState> bySensor = Map.of();
+    private volatile Map<String, ZoneState> byZone = Map.of();
     private final ZoneDeriver deriver;
     private final Observer observer;
 
     public ZoneStage(List<ZoneConfig> zones, ZoneDeriver deriver, Observer observer) {
         this.deriver = deriver;
         this.observer = observer;
+        add(zones);
+    }
+
+    /** Takes in zones that came after the start (a site a central byre found); those it has already stay as they are. */
+    public synchronized void add(java.util.Collection<ZoneConfig> zones) {
+        Map<String, ZoneState> zs = new HashMap<>(byZone);
+        Map<String, ZoneState> ss = new HashMap<>(bySensor);
         for (ZoneConfig z : zones) {
+            if (zs.containsKey(z.id())) continue;
             ZoneState s = new ZoneState(z);
-            byZone.put(z.id(), s);
-            for (String sensor : z.sensors()) bySensor.put(sensor, s);
+            zs.put(z.id(), s);
+            for (String sensor : z.sensors()) ss.put(sensor, s);
         }
+        byZone = zs;
+        bySensor = ss;
     }
 
     /** The zone a sensor belongs to, or null. */

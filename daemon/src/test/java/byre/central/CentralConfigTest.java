@@ -146,5 +146,87 @@ class CentralConfigTest {
         assertTrue(m.contains("central.yaml:6:48: group 'sites' is every site's own zone"), m);
         ConfigException none = assertThrows(ConfigException.class, () -> load("site: hub\ncentral:\n  site: {}\n"));
         assertTrue(none.getMessage().contains("unknown key 'site' in central (did you mean 'sites'?)"), none.getMessage());
+        assertTrue(none.getMessage().contains("central: lists no sites and does not discover them"), none.getMessage());
+    }
+
+    static final String DISCOVERING = """
+            site: hub
+            central:
+              discover: true
+              defaults: { zones: [calf-barn, cow-shed], groups: [dairy], max-age: 3m }
+              sites:
+                larkmoor: { groups: [dairy, beef] }
+                brackenhill: { zones: [cow-shed] }
+            notify:
+              office: { type: command, argv: [/bin/true] }
+            """;
+
+    @Test
+    void defaultsFillWhatASiteLeavesOutAndAreWhatAFoundSiteGets() throws Exception {
+        ByreConfig c = load(DISCOVERING);
+        assertTrue(c.central().discover());
+        assertEquals(List.of("calf-barn", "cow-shed"), c.central().sites().get("larkmoor").zones(), "the defaults' zones");
+        assertEquals(List.of("dairy", "beef"), c.central().sites().get("larkmoor").groups(), "its own groups");
+        assertEquals(List.of("dairy"), c.zones().get("brackenhill/cow-shed").groups());
+        assertEquals(java.time.Duration.ofMinutes(3), c.zones().get("brackenhill/cow-shed").maxAge());
+        // A site found on the broker: the defaults, its sensors and zones as a listed site's.
+        ByreConfig more = c.withCentralSites(List.of(c.central().found("fellside")));
+        assertEquals(List.of("larkmoor", "brackenhill", "fellside"), List.copyOf(more.central().siteIds()));
+        assertTrue(more.central().isMirroredZone("fellside/cow-shed") && more.central().isSiteZone("fellside"));
+        assertEquals("byre/fellside/zones/calf-barn/thi", more.sensors().get("fellside/calf-barn/thi").topic());
+        assertEquals(List.of("sites"), more.zones().get("fellside").groups());
+        assertEquals(c.central().defaults().maxAge(), more.zones().get("fellside/cow-shed").maxAge());
+        assertFalse(c.central().isSiteZone("fellside"), "the file's configuration is unchanged");
+        // Discovering alone is a complete central section.
+        assertTrue(load("site: hub\ncentral: { discover: true }\n").central().enabled());
+    }
+
+    @Test
+    void mistakesInDiscoveryAreListedWithTheirLine() {
+        ConfigException e = assertThrows(ConfigException.class, () -> load("""
+                site: hub
+                central:
+                  discover: yes please
+                  defaults: { zones: [cow shed], groups: [sites], max-ages: 5m }
+                  sites:
+                    larkmoor: {}
+                """));
+        String m = e.getMessage();
+        assertTrue(m.contains("central.yaml:3:13: central.discover must be true or false, not 'yes please'"), m);
+        assertTrue(m.contains("central.yaml:4:23: zone id 'cow shed' must be letters"), m);
+        assertTrue(m.contains("central.yaml:4:43: group 'sites' is every site's own zone"), m);
+        assertTrue(m.contains("central.yaml:4:51: unknown key 'max-ages' in central.defaults (did you mean 'max-age'?)"), m);
+        assertTrue(m.contains("central.yaml:6:15: site larkmoor lists no zones (zones: [cow-shed, calf-pen-1]), and central.defaults gives none"), m);
+    }
+
+    @Test
+    void whileDiscoveringAGroupOrGlobWithoutZonesYetIsAWarning() throws Exception {
+        String rules = """
+                watch site-down
+                  raise when @sites.online == 0 for 5m
+                  clear when @sites.online == 1 for 1m
+                  notify office
+                watch dairy-heat
+                  raise when @dairy.thi >= 72
+                  clear when @dairy.thi <= 70
+                  notify office
+                watch sheds-cold
+                  raise when */cow-shed.dry-bulb < 2 C
+                  clear when */cow-shed.dry-bulb > 4 C
+                  notify office
+                """;
+        String empty = "site: hub\ncentral:\n  discover: true\n  defaults: { zones: [cow-shed], groups: [dairy] }\n"
+                + "notify:\n  office: { type: command, argv: [/bin/true] }\n";
+        CompileResult found = compile(load(empty), rules);
+        assertFalse(found.hasErrors(), found.render());
+        assertTrue(found.render().contains("group '@sites' has no zones yet; the sites found later join it"), found.render());
+        assertTrue(found.render().contains("selector '*/cow-shed' matches no zone yet"), found.render());
+        assertEquals(List.of(), zonesOf(found, "site-down"));
+        CompileResult typo = compile(load(empty), "watch w\n  raise when @diary.thi > 72\n  notify office\n");
+        assertTrue(typo.render().contains("unknown group '@diary'"), "a group no found site joins is still unknown: " + typo.render());
+        CompileResult listedOnly = compile(load("site: hub\ncentral:\n  sites:\n    larkmoor: { zones: [calf-barn] }\n"
+                + "notify:\n  office: { type: command, argv: [/bin/true] }\n"), rules);
+        assertTrue(listedOnly.render().contains("unknown group '@dairy'") && listedOnly.render().contains("'*/cow-shed' matches no zone"),
+                "without discovery the sites are all known: " + listedOnly.render());
     }
 }

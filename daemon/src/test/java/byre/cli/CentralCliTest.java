@@ -88,6 +88,31 @@ class CentralCliTest {
         assertEquals(Main.OK, r.code(), r.out() + r.err());
     }
 
+    @Test
+    void statusAndHistoryKnowASiteFoundOnTheBroker() throws Exception {
+        Path cfg = dir.resolve("central.yaml");
+        java.nio.file.Files.writeString(cfg, "site: hub\ncentral:\n  discover: true\n  defaults: { zones: [cow-shed] }\n"
+                + "history: { path: " + dir.resolve("h.db") + " }\n");
+        Instant at = Instant.now().minusSeconds(30);
+        try (byre.history.HistoryStore store = byre.history.HistoryStore.open(dir.resolve("h.db"))) {
+            store.putState(byre.central.FoundSites.PREFIX + "fellside", at.toString());
+            var w = byre.history.HistoryWriter.start(store, new byre.history.Retention(Duration.ofDays(14), Duration.ofDays(90),
+                    Duration.ofDays(1825)), java.time.Clock.systemUTC());
+            w.append(StreamKey.zone("fellside/cow-shed", byre.units.Quantity.DRY_BULB), at, 21.5);
+            w.append(StreamKey.sensor("fellside/cow-shed/dry-bulb"), at, 21.5);
+            w.flush();
+            w.close();
+        }
+        CliRun r = CliRun.of("status", "--config", cfg.toString(), "--site", "fellside", "--no-color");
+        assertEquals(Main.OK, r.code(), r.out() + r.err());
+        assertEquals(true, r.out().contains("fellside/cow-shed") && r.out().contains("21.5"), r.out());
+        CliRun h = CliRun.of("history", "--config", cfg.toString(), "--zone", "fellside/cow-shed", "--quantity", "dry-bulb", "--from", "-1h");
+        assertEquals(Main.OK, h.code(), h.out() + h.err());
+        assertEquals(true, h.out().contains("21.5"), h.out());
+        CliRun unknown = CliRun.of("status", "--config", cfg.toString(), "--site", "fellsde");
+        assertEquals(true, unknown.err().contains("(did you mean 'fellside'?)"), unknown.err());
+    }
+
     static StatusData.Zone zone(String id) {
         return new StatusData.Zone(id, List.of(), Duration.ofMinutes(5), Map.of(), Map.of());
     }

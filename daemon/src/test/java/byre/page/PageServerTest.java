@@ -78,7 +78,8 @@ class PageServerTest {
         incident = book.openIncidents().get(0).id();
         signer = new AckLinkSigner(HexFormat.of().parseHex("42".repeat(32)), "http://127.0.0.1", Duration.ofHours(12), clock);
         BarnPageSource source = new BarnPageSource(cfg, live, store::openReader, book::openIncidents);
-        server = PageServer.start("127.0.0.1", 0, new BarnPageHtml.Site("larkmoor", cfg.timezone(), false), source, book::openIncidents,
+        BarnPageHtml.Site site = new BarnPageHtml.Site("larkmoor", cfg.timezone(), false);
+        server = PageServer.start("127.0.0.1", 0, site, PageContent.barn(site, source, book::openIncidents),
                 (id, by) -> {
                     AckResult r = book.acknowledge(id, by, clock.instant());
                     acks.add(r);

@@ -216,7 +216,10 @@ final class Checker {
                 out.add(z);
             }
         }
-        if (out.isEmpty()) error(multiTerm.selectorPos(), "no zone matched by '" + multiText + "' has the streams this watch reads");
+        // No zone at all yet is only possible for a group or glob that may grow (warned about where it was read).
+        if (out.isEmpty() && !multiZones.isEmpty()) {
+            error(multiTerm.selectorPos(), "no zone matched by '" + multiText + "' has the streams this watch reads");
+        }
         return out;
     }
 
@@ -372,13 +375,23 @@ final class Checker {
                 Pattern p = glob(t.selector());
                 Set<String> matched = new LinkedHashSet<>();
                 for (String z : ctx.zones()) if (p.matcher(z).matches()) matched.add(z);
-                if (matched.isEmpty()) error(t.selectorPos(), "selector '" + t.selector() + "' matches no zone");
-                else multi(t, matched, t.selector());
+                if (!matched.isEmpty()) {
+                    multi(t, matched, t.selector());
+                } else if (!ctx.growingGroups().isEmpty()) {
+                    sink.warning(t.selectorPos(), "selector '" + t.selector() + "' matches no zone yet; it takes the zones of sites "
+                            + "found later that match it");
+                    multi(t, matched, t.selector());
+                } else {
+                    error(t.selectorPos(), "selector '" + t.selector() + "' matches no zone");
+                }
                 yield new Plan.TermPlan(null, q);
             }
             case GROUP -> {
                 Set<String> members = ctx.groups().get(t.selector());
-                if (members == null) {
+                if ((members == null || members.isEmpty()) && ctx.growingGroups().contains(t.selector())) {
+                    sink.warning(t.selectorPos(), "group '@" + t.selector() + "' has no zones yet; the sites found later join it");
+                    multi(t, Set.of(), "@" + t.selector());
+                } else if (members == null) {
                     List<String> known = ctx.groups().keySet().stream().map(g -> "@" + g).toList();
                     error(t.selectorPos(), "unknown group '@" + t.selector() + "'" + Suggest.hint("@" + t.selector(), known));
                 } else if (members.isEmpty()) {

@@ -42,6 +42,13 @@ public interface RuleContext {
      */
     default Optional<String> whyNoStream(String zone, Quantity quantity) { return Optional.empty(); }
 
+    /**
+     * Groups that may gain zones while the daemon runs (on a central byre that takes in the sites it finds: the
+     * group {@code sites} and the groups found sites join). A group of these with no zone yet, and a glob matching
+     * none while there are any, is a warning, not an error: the watch makes its alerts once zones join.
+     */
+    default Set<String> growingGroups() { return Set.of(); }
+
     /** Short site id for the {site} placeholder. */
     default String site() { return ""; }
 }

@@ -20,6 +20,7 @@ public final class SimpleRuleContext implements RuleContext {
     private final Map<String, Set<Quantity>> quantities = new HashMap<>();
     private Duration defaultMaxAge = Duration.ofMinutes(5);
     private String site = "";
+    private final Set<String> growing = new LinkedHashSet<>();
 
     public SimpleRuleContext zone(String zone, String... groupNames) {
         zones.add(zone);
@@ -48,6 +49,9 @@ public final class SimpleRuleContext implements RuleContext {
 
     public SimpleRuleContext site(String s) { site = s; return this; }
 
+    /** Groups that may gain zones later (see {@link RuleContext#growingGroups()}). */
+    public SimpleRuleContext growing(String... groupNames) { growing.addAll(Set.of(groupNames)); return this; }
+
     @Override public Set<String> zones() { return zones; }
     @Override public Map<String, Set<String>> groups() { return groups; }
     @Override public Set<String> channels() { return channels; }
@@ -55,4 +59,5 @@ public final class SimpleRuleContext implements RuleContext {
     @Override public Duration maxAge(String zone) { return maxAge.getOrDefault(zone, defaultMaxAge); }
     @Override public Set<Quantity> quantities(String zone) { return quantities.getOrDefault(zone, EnumSet.allOf(Quantity.class)); }
     @Override public String site() { return site; }
+    @Override public Set<String> growingGroups() { return growing; }
 }

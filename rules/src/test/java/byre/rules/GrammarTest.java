@@ -187,6 +187,31 @@ class GrammarTest {
     }
 
     @Test
+    void groupsThatMayGrowWarnInsteadOfRefusing() {
+        // A central byre that takes in the sites it finds: "sites" and "dairy" gain zones while it runs.
+        SimpleRuleContext ctx = new SimpleRuleContext().zone("hub-office").channel("office").growing("sites", "dairy");
+        CompileResult r = RuleCompiler.compile(List.of(new RuleSource("sites.rules", """
+                watch site-down
+                  raise when @sites.online == 0
+                  clear when @sites.online == 1
+                  notify office
+                watch sheds-hot
+                  raise when */cow-shed.thi > 80
+                  clear when */cow-shed.thi < 78
+                  notify office
+                """)), ctx);
+        assertEquals(List.of("sites.rules:2:15: warning: group '@sites' has no zones yet; the sites found later join it",
+                "sites.rules:3:15: warning: group '@sites' has no zones yet; the sites found later join it",
+                "sites.rules:6:14: warning: selector '*/cow-shed' matches no zone yet; it takes the zones of sites found later that match it",
+                "sites.rules:7:14: warning: selector '*/cow-shed' matches no zone yet; it takes the zones of sites found later that match it"),
+                r.diagnostics().stream().map(Diagnostic::headline).toList());
+        assertEquals(List.of(), r.ruleSet().orElseThrow().watch("site-down").orElseThrow().zones(), "no alert until a site joins");
+        CompileResult other = RuleCompiler.compile(List.of(new RuleSource("sites.rules", "watch w\n  raise when @beef.thi > 80\n  notify office\n")), ctx);
+        assertEquals(List.of("sites.rules:2:15: unknown group '@beef'"), other.diagnostics().stream().map(Diagnostic::headline).toList(),
+                "a group that cannot grow is still unknown");
+    }
+
+    @Test
     void nameDiagnostics() {
         assertEquals(List.of("barn.rules:3:12: unknown zone 'cowz' (did you mean 'cows'?)"), inWatch("raise when cowz.thi > 72"));
         assertEquals(List.of("barn.rules:3:12: unknown zone 'calves'; 'calves' is a group: write '@calves'"), inWatch("raise when calves.thi > 72"));
