@@ -50,11 +50,13 @@ public final class WearBench {
     public static void main(String[] args) throws Exception {
         int seconds = 60;
         long seedRows = 1_000_000;
+        String commitEvery = "2s"; // byre's history.commit-every
         for (int i = 0; i + 1 < args.length; i += 2) {
             switch (args[i]) {
                 case "--seconds": seconds = Integer.parseInt(args[i + 1]); break;
                 case "--seed-rows": seedRows = Long.parseLong(args[i + 1]); break;
-                default: throw new IllegalArgumentException("unknown option " + args[i] + " (--seconds N, --seed-rows N)");
+                case "--commit-every": commitEvery = args[i + 1]; break;
+                default: throw new IllegalArgumentException("unknown option " + args[i] + " (--seconds N, --seed-rows N, --commit-every 2s)");
             }
         }
         if (!Files.isRegularFile(SCRIPT)) throw new IllegalStateException("run from the repository root: " + SCRIPT + " not found");
@@ -71,17 +73,17 @@ public final class WearBench {
         }));
         List<String[]> table = new ArrayList<>();
         for (Load load : List.of(new Load("40 sensors every 10 s, 20 watches", 40, 10, 20), new Load("200 sensors every 1 s, 50 watches", 200, 1, 50))) {
-            run(load, seconds, seedRows, table);
+            run(load, seconds, seedRows, commitEvery, table);
         }
         System.out.println();
-        System.out.printf(Locale.ROOT, "| %-70s | %14s | %14s | %14s | %s |%n", "measure (" + seconds + " s per load, " + seedRows + " seeded rows each)",
+        System.out.printf(Locale.ROOT, "| %-70s | %14s | %14s | %14s | %s |%n", "measure (" + seconds + " s per load, " + seedRows + " seeded rows each, byre commits every " + commitEvery + ")",
                 "byre", "2 s writer", "60 s writer", "byre / 2 s writer");
         System.out.println("|---|---|---|---|---|");
         for (String[] r : table) System.out.printf(Locale.ROOT, "| %-70s | %14s | %14s | %14s | %s |%n", (Object[]) r);
         System.exit(0); // the load generator's client threads would keep the JVM alive
     }
 
-    static void run(Load load, int seconds, long seedRows, List<String[]> table) throws Exception {
+    static void run(Load load, int seconds, long seedRows, String commitEvery, List<String[]> table) throws Exception {
         Path work = Files.createTempDirectory("byre-wear");
         List<Disk> disks = new ArrayList<>();
         List<Process> started = new ArrayList<>();
@@ -102,7 +104,9 @@ public final class WearBench {
                 BenchRules.write(rules, load.zones, false);
                 int admin = Mosquitto.freePort();
                 Path cfg = work.resolve("byre.yaml");
-                Files.writeString(cfg, BenchRules.config(LoadConfig.yaml(load.sensors, load.zones, m.uri(), null, "load", rules, db), sink, false)
+                String yaml = LoadConfig.yaml(load.sensors, load.zones, m.uri(), null, "load", rules, db)
+                        .replace("\n  keep-hour: 5y\n", "\n  keep-hour: 5y\n  commit-every: " + commitEvery + "\n");
+                Files.writeString(cfg, BenchRules.config(yaml, sink, false)
                         + "\nadmin:\n  listen: 127.0.0.1:" + admin + "\n");
                 ByreProcess byre = ByreProcess.launch(cfg, List.of());
                 double startupS = Double.NaN;
