@@ -175,6 +175,8 @@ public final class Daemon implements AutoCloseable {
                 boolean asked = reloadRequested;
                 reloadRequested = false;
                 return asked;
+            }, () -> {
+                if (writer.stats().healthy()) writer.flush(java.time.Duration.ofSeconds(5));
             });
             pipeline.addListener(reloads);
             io.micrometer.core.instrument.FunctionCounter.builder("byre.rules.reloads", reloads, RuleReload::loaded).tag("result", "loaded")

@@ -25,10 +25,21 @@ final class RuleReload implements Pipeline.ZoneListener {
     private final java.util.concurrent.atomic.AtomicLong loaded = new java.util.concurrent.atomic.AtomicLong();
     private final java.util.concurrent.atomic.AtomicLong refused = new java.util.concurrent.atomic.AtomicLong();
 
+    private final Runnable writeHistory;
+
     RuleReload(RuleLoader rules, WatchStage watches, BooleanSupplier asked) {
+        this(rules, watches, asked, () -> { });
+    }
+
+    /**
+     * @param writeHistory writes what the history holds back (zone rows wait for the rollups), so that new
+     *     windows are refilled with everything up to now
+     */
+    RuleReload(RuleLoader rules, WatchStage watches, BooleanSupplier asked, Runnable writeHistory) {
         this.rules = rules;
         this.watches = watches;
         this.asked = asked;
+        this.writeHistory = writeHistory;
     }
 
     @Override
@@ -42,6 +53,7 @@ final class RuleReload implements Pipeline.ZoneListener {
         if (requested) checks.restart(now);
         if (requested || learn || rules.changed()) {
             rules.load().ifPresentOrElse(rs -> {
+                writeHistory.run();
                 watches.reload(rs, now);
                 loaded.incrementAndGet();
             }, () -> {

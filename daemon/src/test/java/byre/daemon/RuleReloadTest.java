@@ -2,6 +2,7 @@ package byre.daemon;
 
 import static org.awaitility.Awaitility.await;
 import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import byre.config.ByreConfig;
 import byre.mqtt.EmbeddedBroker;
@@ -75,6 +76,49 @@ class RuleReloadTest {
             d.reload(); // SIGHUP does the same at once
             // (the 2 s check may see the two edits one at a time first: wait for the rules both give)
             await().atMost(Duration.ofSeconds(10)).until(() -> names(d).equals(List.of("cold", "heat-stress")));
+        }
+    }
+
+    @Test
+    void aReloadFirstWritesTheZoneRowsTheHistoryHoldsBackSoNewWindowsRefillUpToNow() throws Exception {
+        Path rules = Files.createDirectories(dir.resolve("rules.d"));
+        Path heat = rules.resolve("heat.rules");
+        Files.writeString(heat, watch("heat-stress"));
+        int port = EmbeddedBroker.freePort("127.0.0.1");
+        String yaml = """
+                site: larkmoor
+                mqtt: { broker: embedded, listen: 127.0.0.1:%d, client-id: byre-reload-refill-test }
+                sensors:
+                  shed-thi-dry: { topic: t/dry, quantity: dry-bulb }
+                  shed-rh: { topic: t/rh, quantity: rh }
+                zones:
+                  cows: { sensors: [shed-thi-dry, shed-rh] }
+                notify:
+                  office: { type: command, argv: [/bin/true] }
+                rules: rules.d
+                history: { path: history.db }
+                """.formatted(port);
+        ByreConfig cfg = Configs.parse("byre.yaml", yaml, dir, n -> null);
+        try (Daemon d = Daemon.create(cfg, Clock.systemUTC(), new SimpleMeterRegistry()).start(new ClimateDeriver());
+             byre.testing.TestPublisher sensor = new byre.testing.TestPublisher("tcp://127.0.0.1:" + port)) {
+            await().atMost(Duration.ofSeconds(15)).until(() -> d.link().isConnected());
+            sensor.publish("t/dry", "24.5");
+            sensor.publish("t/rh", "70");
+            await().atMost(Duration.ofSeconds(10)).until(() -> d.history().stats().rowsWritten() >= 2);
+            Thread.sleep(600); // the zone's derived streams follow on the pipeline's next tick (four a second)
+            long zoneRowsBefore = zoneRows(d);
+            // A new watch with a window of its own: refilled from the history, which must hold the zone rows by then.
+            edit(heat, watch("heat-stress") + "\nwatch warm-day\n  raise when avg(cows.thi, 30m) >= 60 for 1m\n  notify office\n", 5);
+            await().atMost(Duration.ofSeconds(10)).until(() -> d.ruleReloads(true) == 1);
+            assertEquals(0, zoneRowsBefore, "zone rows wait in memory for the next rollup write (unless one fell in this second)");
+            assertTrue(zoneRows(d) > 0, "written before the new window was refilled");
+        }
+    }
+
+    static long zoneRows(Daemon d) {
+        try (byre.history.HistoryReader r = d.store().openReader()) {
+            return r.streams().stream().filter(k -> k.kind() == byre.history.StreamKey.Kind.ZONE)
+                    .mapToLong(k -> r.raw(k, null, null).size()).sum();
         }
     }
 }
