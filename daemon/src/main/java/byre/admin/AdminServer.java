@@ -269,11 +269,13 @@ public final class AdminServer implements AutoCloseable {
     }
 
     private static JsonWriter alertJson(JsonWriter w, OpenAlert o) {
-        return w.field("incident", o.incident()).field("watch", o.watch()).field("zone", o.zone())
+        w.field("incident", o.incident()).field("watch", o.watch()).field("zone", o.zone())
                 .field("level", o.level()).field("quantity", o.quantity()).field("value", o.value())
                 .field("since", o.since() == null ? null : o.since().toString())
                 .field("acknowledged-by", o.acknowledgedBy())
                 .field("acknowledged-at", o.acknowledgedAt() == null ? null : o.acknowledgedAt().toString());
+        // Only a central byre's alerts of a site can be known this way; a barn's /status stays as it was.
+        return o.fromAlertState() ? w.field("from-alert-state", true) : w;
     }
 
     private static String error(String message) {

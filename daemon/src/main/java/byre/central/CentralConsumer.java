@@ -28,8 +28,9 @@ import org.slf4j.LoggerFactory;
 /**
  * byre as the central consumer of other sites (configuration {@code central:}): subscribes each listed site's zone
  * streams (into the ordinary ingest, as the sensors of the central zones), its status and bridge state (the
- * {@code online} streams) and its alert events (kept once each in {@link SiteEventLog}); sends acknowledgements of a
- * site's incidents to that site's ack topic, where the site's byre records them and reports back.
+ * {@code online} streams), its alert events (kept once each in {@link SiteEventLog}) and its retained alert states
+ * (which correct the open alerts its events missed, {@link SiteAlertStates}); sends acknowledgements of a site's
+ * incidents to that site's ack topic, where the site's byre records them and reports back.
  */
 public final class CentralConsumer implements AutoCloseable {
     private static final Logger LOG = LoggerFactory.getLogger(CentralConsumer.class);
@@ -45,6 +46,7 @@ public final class CentralConsumer implements AutoCloseable {
     private final Clock clock;
     private final SiteLinks links;
     private final SiteEventLog events;
+    private final SiteAlertStates states;
     private final FoundSites found;
     private final RateLimitedLog warnings = new RateLimitedLog(LOG, Duration.ofMinutes(1), System::nanoTime);
     private final Counter eventsNew;
@@ -76,6 +78,7 @@ public final class CentralConsumer implements AutoCloseable {
         this.found = found;
         this.links = new SiteLinks(config.central(), prefix, clock, sink);
         this.events = new SiteEventLog(eventsConn);
+        this.states = new SiteAlertStates(under, events, warnings, registry);
         String d = "Sites' alert events received by the centre";
         eventsNew = Counter.builder("byre.central.events").tag("result", "new").description(d).register(registry);
         eventsRepeated = Counter.builder("byre.central.events").tag("result", "repeated").description(d).register(registry);
@@ -105,6 +108,7 @@ public final class CentralConsumer implements AutoCloseable {
             link.subscribe(prefix + "/+/status", this::onStatus);
             link.subscribe(prefix + "/+/uplink", links::accept);
             link.subscribeAcked(prefix + "/+/events", (topic, payload, retained, ack) -> onSiteEvent(siteOf(topic), topic, payload, retained, ack));
+            link.subscribe(prefix + "/+/alerts/#", this::onAlertState);
             return;
         }
         for (String site : config.central().siteIds()) {
@@ -112,6 +116,7 @@ public final class CentralConsumer implements AutoCloseable {
             link.subscribe(links.statusTopic(site), links::accept);
             link.subscribe(links.uplinkTopic(site), links::accept);
             link.subscribeAcked(prefix + "/" + site + "/events", (topic, payload, retained, ack) -> onSiteEvent(site, topic, payload, retained, ack));
+            link.subscribe(prefix + "/" + site + "/alerts/#", this::onAlertState);
         }
     }
 
@@ -141,6 +146,21 @@ public final class CentralConsumer implements AutoCloseable {
         onEvent(topic, payload, retained, ack);
     }
 
+    /**
+     * A site's alert state: a known site's corrects its open alerts; one of a site that may still join (discover) is held
+     * until it does, since a bridge may send a site's retained states before its status.
+     */
+    void onAlertState(String topic, byte[] payload) {
+        String site = siteOf(topic);
+        if (site == null) return;
+        ByreConfig c = config;
+        if (c.central().siteIds().contains(site)) {
+            states.accept(site, topic, payload);
+        } else if (c.central().discover() && CentralSettings.siteIdProblem(site, c.site(), c.zones()) == null) {
+            states.hold(site, topic, payload);
+        }
+    }
+
     /** A status: a known site's goes to its link; an unknown site that says online or offline is found (discover). */
     void onStatus(String topic, byte[] payload) {
         String site = siteOf(topic);
@@ -167,6 +187,7 @@ public final class CentralConsumer implements AutoCloseable {
         }
         if (problem != null) {
             sitesRefused.increment();
+            states.refused(site);
             warnings.warn(key, "a status on " + prefix + "/" + clip(site) + "/status was not taken as a new site: " + problem);
             return false;
         }
@@ -176,6 +197,7 @@ public final class CentralConsumer implements AutoCloseable {
         onFound.accept(after); // the daemon takes in its sensors and zones before its first reading arrives
         links.add(site);
         config = after;
+        states.joined(site);
         sitesFound.increment();
         LOG.info("site {} found on the broker: zones {}, groups {}, max-age {} (central.defaults)", site,
                 s.zones().isEmpty() ? "none" : String.join(", ", s.zones()), s.groups().isEmpty() ? "none" : String.join(", ", s.groups()),

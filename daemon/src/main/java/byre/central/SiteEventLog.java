@@ -12,6 +12,7 @@ import java.sql.SQLException;
 import java.sql.Statement;
 import java.time.Instant;
 import java.util.ArrayList;
+import java.util.Iterator;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
@@ -20,7 +21,8 @@ import java.util.Map;
  * The sites' alert events as a central byre received them, in the central history file (table {@code site_event},
  * created by the first central start: a barn's file never has it). Each event is kept once by its id, however often
  * the bridge or the broker delivers it, in the order it first arrived. The open incidents of every site are held in
- * memory (rebuilt from the table at start) for {@code byre status} and for acknowledging from the centre.
+ * memory (rebuilt from the table at start) for {@code byre status} and for acknowledging from the centre, and corrected
+ * by the sites' retained alert states ({@link #apply}), which tell the centre what its events missed.
  */
 public final class SiteEventLog implements AutoCloseable {
     /** One event as stored. */
@@ -85,17 +87,92 @@ public final class SiteEventLog implements AutoCloseable {
                     e.quantity(), e.value(), e.unit(), e.since() != null ? e.since() : e.at(), e.at(), e.message(), List.of(), false, null, null)));
             case ACKNOWLEDGED -> {
                 if (a != null) open.put(e.incident(), new Open(site, new OpenIncident(a.id(), a.watch(), a.zone(), a.level(), a.quantity(),
-                        a.value(), a.unit(), a.since(), a.raisedAt(), a.message(), a.told(), a.escalated(), e.by(), e.at())));
+                        a.value(), a.unit(), a.since(), a.raisedAt(), a.message(), a.told(), a.escalated(), e.by(), e.at(), a.fromAlertState())));
             }
             case REMINDER, ESCALATED -> {
                 if (a != null) open.put(e.incident(), new Open(site, new OpenIncident(a.id(), a.watch(), a.zone(),
                         e.level() != null ? e.level() : a.level(), a.quantity(), Double.isNaN(e.value()) ? a.value() : e.value(), a.unit(),
                         a.since(), a.raisedAt(), e.message() != null && !e.message().isBlank() ? e.message() : a.message(), a.told(),
-                        a.escalated() || e.kind() == EventKind.ESCALATED, a.ackBy(), a.ackAt())));
+                        a.escalated() || e.kind() == EventKind.ESCALATED, a.ackBy(), a.ackAt(), a.fromAlertState())));
             }
             case CLEARED -> open.remove(e.incident());
             case TEST, SUMMARY, DIGEST -> { }
         }
+    }
+
+    /** What a site's alert state changed in the centre's view of its open incidents. */
+    public record StateChange(List<OpenIncident> added, List<OpenIncident> removed) {
+        public boolean none() {
+            return added.isEmpty() && removed.isEmpty();
+        }
+    }
+
+    /**
+     * Corrects the open incidents by one alert state of a site. The events stay the record: nothing is stored, the
+     * correction lives in memory, and the broker sends every retained state again whenever the centre subscribes.
+     * <ul>
+     *   <li>A site's byre has at most one incident open per watch and zone, so an incident the centre holds open there
+     *       that was raised before the state's incident began is over: its clear was missed.</li>
+     *   <li>A cleared state ends its incident, if the centre still holds it open.</li>
+     *   <li>An open state adds its incident, marked {@link OpenIncident#fromAlertState()}, unless the centre holds it
+     *       already, or has its {@code cleared} event, or holds one there that began after the state was written (then
+     *       the state is old).</li>
+     *   <li>An emptied slot ends what its earlier state added; an incident its events opened waits for its clear.</li>
+     * </ul>
+     * An event of an added incident then updates it as any; its {@code cleared} event ends it.
+     */
+    public StateChange apply(AlertStateMessage s) throws SQLException {
+        String zone = zoneOf(s.site(), s.zone());
+        AlertEvent e = s.event();
+        Instant began = e == null ? null : e.since() != null ? e.since() : e.at();
+        // The state was written at e.at(), when its incident was open: an incident that began later is newer.
+        Instant written = e == null ? null : e.at() != null ? e.at() : e.since();
+        List<OpenIncident> added = new ArrayList<>();
+        List<OpenIncident> removed = new ArrayList<>();
+        synchronized (conn) {
+            boolean newerOpen = false;
+            for (Iterator<Open> it = open.values().iterator(); it.hasNext(); ) {
+                Open o = it.next();
+                OpenIncident i = o.incident();
+                if (!o.site().equals(s.site()) || !s.watch().equals(i.watch()) || !zone.equals(i.zone())) continue;
+                boolean over;
+                if (e == null) over = i.fromAlertState();
+                else if (i.id().equals(e.incident())) over = !s.open();
+                else over = began != null && i.raisedAt() != null && i.raisedAt().isBefore(began);
+                if (over) {
+                    it.remove();
+                    removed.add(i);
+                } else if (written != null && i.since() != null && i.since().isAfter(written)) {
+                    newerOpen = true;
+                }
+            }
+            if (s.open() && !newerOpen && !open.containsKey(e.incident()) && !clearedStored(s.site(), e.incident())) {
+                OpenIncident i = learnt(zone, e);
+                open.put(i.id(), new Open(s.site(), i));
+                added.add(i);
+            }
+        }
+        return new StateChange(added, removed);
+    }
+
+    /** Whether the {@code cleared} event of a site's incident is stored. */
+    private boolean clearedStored(String site, String incident) throws SQLException {
+        try (PreparedStatement ps = conn.prepareStatement(
+                "SELECT 1 FROM site_event WHERE incident = ? AND site = ? AND kind = 'cleared' LIMIT 1")) {
+            ps.setString(1, incident);
+            ps.setString(2, site);
+            try (ResultSet rs = ps.executeQuery()) {
+                return rs.next();
+            }
+        }
+    }
+
+    /** An open incident as its alert state tells it (a {@code raised} event, or a later one of the incident). */
+    private static OpenIncident learnt(String zone, AlertEvent e) {
+        boolean acked = e.kind() == EventKind.ACKNOWLEDGED;
+        return new OpenIncident(e.incident(), e.watch(), zone, e.level(), e.quantity(), e.value(), e.unit(),
+                e.since() != null ? e.since() : e.at(), e.at() != null ? e.at() : e.since(), e.message(), List.of(),
+                e.kind() == EventKind.ESCALATED, acked ? e.by() : null, acked ? e.at() : null, true);
     }
 
     /** The central zone of a site's event: {@code <site>/<zone>}, or the site's own zone for an alert of no zone. */

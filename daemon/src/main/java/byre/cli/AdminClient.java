@@ -90,7 +90,7 @@ final class AdminClient {
     static OpenAlert alert(Map<?, ?> a) {
         return new OpenAlert(str(a.get("incident")), str(a.get("watch")), str(a.get("zone")), str(a.get("level")),
                 str(a.get("quantity")), a.get("value") instanceof Double d ? d : Double.NaN, time(a.get("since")),
-                str(a.get("acknowledged-by")), time(a.get("acknowledged-at")));
+                str(a.get("acknowledged-by")), time(a.get("acknowledged-at")), Boolean.TRUE.equals(a.get("from-alert-state")));
     }
 
     private static String str(Object o) {

@@ -106,7 +106,8 @@ final class StatusScreen {
                 String ack = a.acknowledgedBy() == null ? paint(BOLD, "not acknowledged")
                         : "acknowledged by " + a.acknowledgedBy() + (a.acknowledgedAt() == null ? "" : " " + age(Duration.between(a.acknowledgedAt(), now)) + " ago");
                 String incident = a.incident() == null ? "" : "; incident " + a.incident();
-                line(("  " + lvl + " " + a.watch() + " in " + a.zone() + ":" + value + since).replaceAll(",$", "") + "; " + ack + incident);
+                String known = a.fromAlertState() ? "; " + byre.alerts.OpenIncident.FROM_ALERT_STATE : "";
+                line(("  " + lvl + " " + a.watch() + " in " + a.zone() + ":" + value + since).replaceAll(",$", "") + "; " + ack + incident + known);
             }
         }
 

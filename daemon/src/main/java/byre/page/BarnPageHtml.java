@@ -363,7 +363,9 @@ final class BarnPageHtml {
         if (!reading.isEmpty()) sb.append("<p class=\"reading\">").append(reading).append("</p>");
         if (a.message() != null && !a.message().isBlank()) sb.append("<p class=\"msg\">").append(esc(a.message())).append("</p>");
         sb.append("<p class=\"meta\">open ").append(esc(openFor(a, now)))
-                .append(" &middot; incident <span class=\"id\">").append(esc(a.id())).append("</span></p>");
+                .append(" &middot; incident <span class=\"id\">").append(esc(a.id())).append("</span>");
+        if (a.fromAlertState()) sb.append(" &middot; <span class=\"known\">").append(esc(OpenIncident.FROM_ALERT_STATE)).append("</span>");
+        sb.append("</p>");
     }
 
     /** A zone as named on the page: on a central byre's page of one site, within that site ({@code cow-shed}). */

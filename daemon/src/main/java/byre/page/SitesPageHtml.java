@@ -83,6 +83,7 @@ final class SitesPageHtml {
             BarnPageHtml.what(sb, w, within(s.id(), w.zone()));
             sb.append("<p class=\"meta\">open ").append(esc(BarnPageHtml.openFor(w, now))).append(" &middot; ")
                     .append(w.ackBy() == null ? "<span class=\"unacked\">not acknowledged</span>" : "acknowledged by " + esc(w.ackBy()));
+            if (w.fromAlertState()) sb.append(" &middot; <span class=\"known\">").append(esc(OpenIncident.FROM_ALERT_STATE)).append("</span>");
             if (s.alerts().size() > 1) sb.append(" &middot; ").append(s.alerts().size()).append(" open alerts");
             sb.append("</p>");
         }

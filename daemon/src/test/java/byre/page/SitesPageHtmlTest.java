@@ -140,6 +140,20 @@ class SitesPageHtmlTest {
                 "a barn's page has no list to go back to");
     }
 
+    @Test
+    void anAlertKnownFromTheSitesAlertStateSaysSo() {
+        OpenIncident a = alert("k7m2xq9rtb", "calves-cold", "larkmoor/calf-barn", "critical", 42, null);
+        OpenIncident learnt = new OpenIncident(a.id(), a.watch(), a.zone(), a.level(), a.quantity(), a.value(), a.unit(), a.since(),
+                a.raisedAt(), a.message(), a.told(), false, null, null, true);
+        String mark = "<span class=\"known\">known from the site&#39;s alert state</span>";
+        SitesView.Site site = site("larkmoor", true, 1, List.of(learnt), shed("larkmoor"));
+        assertTrue(card(SitesPageHtml.page(HUB, new SitesView(List.of(site), null), DAY), "larkmoor").contains(mark));
+        BarnView v = new BarnView(List.of(shed("larkmoor")), List.of(learnt), List.of(), null, BarnView.SiteState.of(true, DAY));
+        assertTrue(BarnPageHtml.page(new BarnPageHtml.Site("larkmoor", BarnPageHtmlTest.LONDON, false), v, DAY).contains(mark));
+        SitesView.Site seen = site("larkmoor", true, 1, List.of(a), shed("larkmoor"));
+        assertFalse(SitesPageHtml.page(HUB, new SitesView(List.of(seen), null), DAY).contains("class=\"known\""), "its events were seen");
+    }
+
     /** The card of one site. */
     static String card(String html, String site) {
         int at = html.indexOf("data-site=\"" + site.replace("<", "&lt;").replace(">", "&gt;") + "\"");
