@@ -77,7 +77,7 @@ public final class CentralConsumer implements AutoCloseable {
         this.clock = clock;
         this.found = found;
         this.links = new SiteLinks(config.central(), prefix, clock, sink);
-        this.events = new SiteEventLog(eventsConn);
+        this.events = new SiteEventLog(eventsConn, config.history().keepRaw());
         this.states = new SiteAlertStates(under, events, warnings, registry);
         String d = "Sites' alert events received by the centre";
         eventsNew = Counter.builder("byre.central.events").tag("result", "new").description(d).register(registry);

@@ -10,6 +10,7 @@ import java.sql.PreparedStatement;
 import java.sql.ResultSet;
 import java.sql.SQLException;
 import java.sql.Statement;
+import java.time.Duration;
 import java.time.Instant;
 import java.util.ArrayList;
 import java.util.Iterator;
@@ -34,21 +35,26 @@ public final class SiteEventLog implements AutoCloseable {
     private final Connection conn;
     private final Map<String, Open> open = new LinkedHashMap<>();
 
-    /** Uses (and closes) {@code conn}, a synced connection to the central history file. */
+    /** Events are kept this long by default (as raw readings are). */
+    static final Duration DEFAULT_KEEP = Duration.ofDays(14);
+    private static final long PRUNE_EVERY_MS = Duration.ofHours(1).toMillis();
+
+    private final long keepMs;
+    private long lastPruneMs = Long.MIN_VALUE;
+
+    /** Uses (and closes) {@code conn}, a synced connection to the central history file; keeps events 14 days. */
     public SiteEventLog(Connection conn) throws SQLException {
+        this(conn, DEFAULT_KEEP);
+    }
+
+    /**
+     * Uses (and closes) {@code conn}, a synced connection to the central history file (whose schema holds the
+     * {@code site_event} table). Events older than {@code keep} go once their incident is cleared (and events of
+     * no incident); an incident still open keeps all its events, however old.
+     */
+    public SiteEventLog(Connection conn, Duration keep) throws SQLException {
         this.conn = conn;
-        try (Statement st = conn.createStatement()) {
-            st.execute("""
-                    CREATE TABLE IF NOT EXISTS site_event (
-                      seq      INTEGER PRIMARY KEY AUTOINCREMENT,
-                      id       TEXT    NOT NULL UNIQUE,
-                      site     TEXT    NOT NULL,
-                      incident TEXT,
-                      kind     TEXT    NOT NULL,
-                      body     TEXT    NOT NULL,
-                      received INTEGER NOT NULL)""");
-            st.execute("CREATE INDEX IF NOT EXISTS site_event_incident ON site_event (incident)");
-        }
+        this.keepMs = keep.toMillis();
         // Incidents not cleared yet, replayed in order.
         try (Statement st = conn.createStatement();
              ResultSet rs = st.executeQuery("SELECT seq, site, body FROM site_event WHERE incident NOT IN "
@@ -74,7 +80,23 @@ public final class SiteEventLog implements AutoCloseable {
                 if (ps.executeUpdate() == 0) return false;
             }
             fold(site, e);
+            long now = received.toEpochMilli();
+            if (lastPruneMs == Long.MIN_VALUE || now - lastPruneMs >= PRUNE_EVERY_MS || now < lastPruneMs) {
+                lastPruneMs = now;
+                prune(now - keepMs);
+            }
             return true;
+        }
+    }
+
+    /** Deletes the events received before {@code cutoffMs} whose incident is cleared, or that belong to no incident. */
+    int prune(long cutoffMs) throws SQLException {
+        synchronized (conn) {
+            try (PreparedStatement ps = conn.prepareStatement("DELETE FROM site_event WHERE received < ? AND (incident IS NULL OR EXISTS "
+                    + "(SELECT 1 FROM site_event c WHERE c.incident = site_event.incident AND c.site = site_event.site AND c.kind = 'cleared'))")) {
+                ps.setLong(1, cutoffMs);
+                return ps.executeUpdate();
+            }
         }
     }
 

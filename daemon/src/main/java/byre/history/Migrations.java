@@ -97,7 +97,22 @@ final class Migrations {
             """
             INSERT INTO rollup_mark(res, upto)
               SELECT 'minute', coalesce(max((SELECT max(ts) FROM rollup_hour h WHERE h.stream = s.id)) + 3600000, 0) FROM stream s""",
-            "INSERT INTO rollup_mark(res, upto) SELECT 'hour', upto FROM rollup_mark WHERE res = 'minute'"))
+            "INSERT INTO rollup_mark(res, upto) SELECT 'hour', upto FROM rollup_mark WHERE res = 'minute'")),
+        new Migration(4, "central: alert events received from sites", List.of(
+            // A central byre's record of its sites' events, in arrival order (seq); id is the event's own id (a site
+            // may deliver one twice), body its JSON, received epoch ms. IF NOT EXISTS: a central file of an earlier
+            // build created the table itself.
+            """
+            CREATE TABLE IF NOT EXISTS site_event (
+              seq      INTEGER PRIMARY KEY AUTOINCREMENT,
+              id       TEXT    NOT NULL UNIQUE,
+              site     TEXT    NOT NULL,
+              incident TEXT,
+              kind     TEXT    NOT NULL,
+              body     TEXT    NOT NULL,
+              received INTEGER NOT NULL)""",
+            "CREATE INDEX IF NOT EXISTS site_event_incident ON site_event (incident)",
+            "CREATE INDEX IF NOT EXISTS site_event_received ON site_event (received)"))
     );
 
     static int latestVersion() { return ALL.get(ALL.size() - 1).version(); }

@@ -51,4 +51,31 @@ class SiteEventLogTest {
             assertFalse(record(log, event("e4", "i2", "acknowledged", "Ann")), "still known after the restart");
         }
     }
+
+    @Test
+    void eventsOlderThanTheKeepGoOnceTheirIncidentIsClearedButAnOpenIncidentKeepsAllOfIts() throws Exception {
+        Path db = dir.resolve("central.db");
+        Instant day0 = Instant.parse("2026-07-01T06:00:00Z");
+        try (HistoryStore store = HistoryStore.open(db); SiteEventLog log = new SiteEventLog(store.openSyncedConnection(), java.time.Duration.ofDays(14))) {
+            String raised1 = event("e1", "i1", "raised", null);
+            String raised2 = event("e2", "i2", "raised", null);
+            String cleared1 = event("e3", "i1", "cleared", null);
+            log.record("larkmoor", AlertEvent.fromJson(raised1), raised1, day0);
+            log.record("larkmoor", AlertEvent.fromJson(raised2), raised2, day0.plusSeconds(60));
+            log.record("larkmoor", AlertEvent.fromJson(cleared1), cleared1, day0.plusSeconds(3600));
+            // Another site reuses incident id i2 and clears it: that says nothing about larkmoor's i2.
+            String other = event("e4", "i2", "cleared", null);
+            log.record("northfield", AlertEvent.fromJson(other), other, day0.plusSeconds(7200));
+            assertEquals(List.of("e1", "e2", "e3"), log.events("larkmoor").stream().map(x -> x.event().id()).toList());
+            // Fifteen days later the next event prunes: i1 (cleared) goes, the still open i2 stays.
+            String later = event("e5", "i5", "raised", null);
+            log.record("larkmoor", AlertEvent.fromJson(later), later, day0.plus(java.time.Duration.ofDays(15)));
+            assertEquals(List.of("e2", "e5"), log.events("larkmoor").stream().map(x -> x.event().id()).toList());
+            assertEquals(List.of(), log.events("northfield"), "northfield's i2 is cleared and past the keep");
+        }
+        try (HistoryStore store = HistoryStore.open(db); SiteEventLog log = new SiteEventLog(store.openSyncedConnection())) {
+            assertEquals(List.of("i2", "i5"), log.openAlerts().stream().map(a -> a.incident()).sorted().toList(),
+                "larkmoor's open incident survives the pruning and the restart");
+        }
+    }
 }
