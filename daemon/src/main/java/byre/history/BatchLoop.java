@@ -102,8 +102,10 @@ final class BatchLoop implements Runnable {
         this.heldZoneRows = insert.heldZoneRows();
     }
 
-    /** Time between the last two wake-ups that found rows: shorter than a nap means rows come faster than naps. */
+    /** Time between the last two rows: shorter than a nap means rows come faster than naps. */
     private long arrivalGapNanos = Long.MAX_VALUE;
+    private long gapAverageNanos;
+    private static final long ONE_SECOND_NANOS = TimeUnit.SECONDS.toNanos(1);
 
     @Override
     public void run() {
@@ -173,12 +175,22 @@ final class BatchLoop implements Runnable {
     /** When the backlog is due by age (or by a pause with acknowledgements held). */
     private long nextDue() {
         long due = firstPendingNanos + settings.commitEvery().toNanos();
-        if (pendingCallbacks >= STALL_MIN_HELD) due = Math.min(due, lastArrivalNanos + settings.stallPause().toNanos());
+        if (pendingCallbacks >= STALL_MIN_HELD) due = Math.min(due, lastArrivalNanos + stallPauseNanos());
         return due;
     }
 
     private boolean stalled(long now) {
-        return pendingCallbacks >= STALL_MIN_HELD && now - lastArrivalNanos >= settings.stallPause().toNanos();
+        return pendingCallbacks >= STALL_MIN_HELD && now - lastArrivalNanos >= stallPauseNanos();
+    }
+
+    /**
+     * A pause counts as the broker's window being full only when it is long for the rate rows come at: four times
+     * the usual gap, and at least the configured pause. Sensors reporting a few times a second leave gaps longer
+     * than 50 ms between readings all the time; without this a light load would commit every 8 readings whatever
+     * {@code commit-every} says.
+     */
+    private long stallPauseNanos() {
+        return Math.max(settings.stallPause().toNanos(), Math.min(4 * gapAverageNanos, settings.commitEvery().toNanos()));
     }
 
     /** The very first batch goes at once (when so configured): an installer watching the log sees the first stored reading. */
@@ -196,9 +208,14 @@ final class BatchLoop implements Runnable {
     private void absorb(WriterItem it) {
         if (it instanceof WriterItem.Row r) {
             long now = ticker.nanos();
-            if (backlog.isEmpty()) firstPendingNanos = now;
             arrivalGapNanos = now - lastArrivalNanos;
             lastArrivalNanos = now;
+            // The usual gap between the rows of a batch, smoothed over about eight of them (at most 1 s each).
+            if (backlog.isEmpty()) {
+                firstPendingNanos = now;
+            } else {
+                gapAverageNanos += (Math.min(arrivalGapNanos, ONE_SECOND_NANOS) - gapAverageNanos) / 8;
+            }
             if (backlog.size() >= settings.backlogLimit()) {
                 WriterItem.Row dropped = backlog.pollFirst();
                 if (dropped.onStored != null) {

@@ -103,6 +103,28 @@ class HistoryWriterTest {
     }
 
     @Test
+    void sensorsReportingAFewTimesASecondAreNotMistakenForAFullWindow() throws Exception {
+        // 40 sensors every 10 s: a reading every 250 ms. Gaps of 250 ms are the load's own rhythm, not a stalled broker.
+        startTicking(WriterSettings.builder().commitEvery(Duration.ofSeconds(2)).firstBatchAtOnce(false).build());
+        java.util.concurrent.atomic.AtomicInteger acks = new java.util.concurrent.atomic.AtomicInteger();
+        for (int i = 0; i < 7; i++) {
+            writer.append(PEN1_DRY, T0.plusSeconds(i).toEpochMilli(), i, acks::incrementAndGet);
+            writerWentRound();
+            ticker.advance(Duration.ofMillis(250));
+            writerWentRound();
+        }
+        assertEquals(0, acks.get(), "1.75 s: neither the interval nor a stall");
+        writer.append(PEN1_DRY, T0.plusSeconds(7).toEpochMilli(), 7, acks::incrementAndGet);
+        writerWentRound();
+        ticker.advance(Duration.ofMillis(240));
+        writerWentRound();
+        assertEquals(0, acks.get(), "eight held and a usual gap: still waiting for the interval");
+        ticker.advance(Duration.ofMillis(10));
+        await().atMost(Duration.ofSeconds(10)).until(() -> acks.get() == 8);
+        assertEquals(1, writer.stats().batches(), "one commit, at the interval");
+    }
+
+    @Test
     void aPauseWithManyAcknowledgementsHeldCommitsAtOnce() throws Exception {
         // The broker stops sending when its in-flight window is full of unacknowledged messages: do not wait 2 s.
         startTicking(WriterSettings.builder().commitEvery(Duration.ofSeconds(2)).firstBatchAtOnce(false).build());
