@@ -133,8 +133,9 @@ public final class IngestBench {
                 long hwmKb = byre.procStatusKb("VmHWM");
                 long heapKb = heapAfterGcKb(byre.pid());
                 long rows = sensorRows(db);
-                long bytes = Files.size(db) + (Files.exists(Path.of(db + "-wal")) ? Files.size(Path.of(db + "-wal")) : 0);
                 int code = byre.stop(30);
+                // After the clean stop: the last connection has checkpointed the write-ahead log (up to 16 MiB while running).
+                long bytes = Files.size(db) + (Files.exists(Path.of(db + "-wal")) ? Files.size(Path.of(db + "-wal")) : 0);
 
                 addRate(table, "ingest QoS 0, msgs/s (byre vs bare Paho subscriber, same JVM options)", q0, Round::bareRate);
                 addRate(table, "ingest QoS 1, msgs/s (byre vs bare Paho subscriber, same JVM options)", q1, Round::bareRate);
