@@ -33,6 +33,24 @@ class RuleReloadTest {
         return d.watches().engine().rules().watches().stream().map(Watch::name).toList();
     }
 
+    /** A cow shed with a dry bulb and RH, rules in rules.d, on the embedded broker at {@code port}. */
+    ByreConfig config(int port, String clientId) {
+        String yaml = """
+                site: larkmoor
+                mqtt: { broker: embedded, listen: 127.0.0.1:%d, client-id: %s }
+                sensors:
+                  shed-thi-dry: { topic: t/dry, quantity: dry-bulb }
+                  shed-rh: { topic: t/rh, quantity: rh }
+                zones:
+                  cows: { sensors: [shed-thi-dry, shed-rh] }
+                notify:
+                  office: { type: command, argv: [/bin/true] }
+                rules: rules.d
+                history: { path: history.db }
+                """.formatted(port, clientId);
+        return Configs.parse("byre.yaml", yaml, dir, n -> null);
+    }
+
     void edit(Path file, String text, int secondsLater) throws Exception {
         Files.writeString(file, text);
         // Make the change visible even on file systems with coarse modification times.
@@ -44,20 +62,7 @@ class RuleReloadTest {
         Path rules = Files.createDirectories(dir.resolve("rules.d"));
         Path heat = rules.resolve("heat.rules");
         Files.writeString(heat, watch("heat-stress"));
-        String yaml = """
-                site: larkmoor
-                mqtt: { broker: embedded, listen: 127.0.0.1:%d, client-id: byre-reload-test }
-                sensors:
-                  shed-thi-dry: { topic: t/dry, quantity: dry-bulb }
-                  shed-rh: { topic: t/rh, quantity: rh }
-                zones:
-                  cows: { sensors: [shed-thi-dry, shed-rh] }
-                notify:
-                  office: { type: command, argv: [/bin/true] }
-                rules: rules.d
-                history: { path: history.db }
-                """.formatted(EmbeddedBroker.freePort("127.0.0.1"));
-        ByreConfig cfg = Configs.parse("byre.yaml", yaml, dir, n -> null);
+        ByreConfig cfg = config(EmbeddedBroker.freePort("127.0.0.1"), "byre-reload-test");
         try (Daemon d = Daemon.create(cfg, Clock.systemUTC(), new SimpleMeterRegistry()).start(new ClimateDeriver())) {
             assertEquals(List.of("heat-stress"), names(d));
             assertEquals(0, d.ruleReloads(true));
@@ -85,20 +90,7 @@ class RuleReloadTest {
         Path heat = rules.resolve("heat.rules");
         Files.writeString(heat, watch("heat-stress"));
         int port = EmbeddedBroker.freePort("127.0.0.1");
-        String yaml = """
-                site: larkmoor
-                mqtt: { broker: embedded, listen: 127.0.0.1:%d, client-id: byre-reload-refill-test }
-                sensors:
-                  shed-thi-dry: { topic: t/dry, quantity: dry-bulb }
-                  shed-rh: { topic: t/rh, quantity: rh }
-                zones:
-                  cows: { sensors: [shed-thi-dry, shed-rh] }
-                notify:
-                  office: { type: command, argv: [/bin/true] }
-                rules: rules.d
-                history: { path: history.db }
-                """.formatted(port);
-        ByreConfig cfg = Configs.parse("byre.yaml", yaml, dir, n -> null);
+        ByreConfig cfg = config(port, "byre-reload-refill-test");
         try (Daemon d = Daemon.create(cfg, Clock.systemUTC(), new SimpleMeterRegistry()).start(new ClimateDeriver());
              byre.testing.TestPublisher sensor = new byre.testing.TestPublisher("tcp://127.0.0.1:" + port)) {
             await().atMost(Duration.ofSeconds(15)).until(() -> d.link().isConnected());
