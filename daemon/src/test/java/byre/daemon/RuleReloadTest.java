@@ -34,7 +34,7 @@ class RuleReloadTest {
     }
 
     /** A cow shed with a dry bulb and RH, rules in rules.d, on the embedded broker at {@code port}. */
-    ByreConfig config(int port, String clientId) {
+    ByreConfig config(int port, String clientId) throws Exception {
         String yaml = """
                 site: larkmoor
                 mqtt: { broker: embedded, listen: 127.0.0.1:%d, client-id: %s }
