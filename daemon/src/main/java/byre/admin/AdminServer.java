@@ -8,7 +8,6 @@ import com.sun.net.httpserver.HttpExchange;
 import com.sun.net.httpserver.HttpServer;
 import java.io.IOException;
 import java.io.InputStream;
-import java.io.OutputStream;
 import java.net.InetSocketAddress;
 import java.nio.charset.StandardCharsets;
 import java.security.MessageDigest;
@@ -283,16 +282,7 @@ public final class AdminServer implements AutoCloseable {
     }
 
     private static void send(HttpExchange ex, int code, String type, String body) throws IOException {
-        byte[] bytes = body.getBytes(StandardCharsets.UTF_8);
-        ex.getResponseHeaders().set("Content-Type", type);
-        ex.getResponseHeaders().set("Cache-Control", "no-store");
-        boolean head = ex.getRequestMethod().equals("HEAD");
-        ex.sendResponseHeaders(code, head ? -1 : bytes.length);
-        if (!head) {
-            try (OutputStream os = ex.getResponseBody()) {
-                os.write(bytes);
-            }
-        }
+        HttpReply.send(ex, code, type, body);
     }
 
     @Override

@@ -10,7 +10,6 @@ import com.sun.net.httpserver.HttpServer;
 import io.micrometer.core.instrument.Counter;
 import io.micrometer.core.instrument.MeterRegistry;
 import java.io.IOException;
-import java.io.OutputStream;
 import java.net.InetSocketAddress;
 import java.net.URLDecoder;
 import java.nio.charset.StandardCharsets;
@@ -342,22 +341,13 @@ public final class PageServer implements AutoCloseable {
     }
 
     private static void send(HttpExchange ex, int code, String html) throws IOException {
-        byte[] bytes = html.getBytes(StandardCharsets.UTF_8);
         var h = ex.getResponseHeaders();
-        h.set("Content-Type", HTML);
-        h.set("Cache-Control", "no-store");
         h.set("Content-Security-Policy", CSP);
         h.set("Referrer-Policy", "no-referrer");
         h.set("X-Content-Type-Options", "nosniff");
         h.set("X-Frame-Options", "DENY");
         h.set("X-Robots-Tag", "noindex");
-        boolean head = ex.getRequestMethod().equals("HEAD");
-        ex.sendResponseHeaders(code, head ? -1 : bytes.length);
-        if (!head) {
-            try (OutputStream os = ex.getResponseBody()) {
-                os.write(bytes);
-            }
-        }
+        byre.admin.HttpReply.send(ex, code, HTML, html);
     }
 
     @Override
