@@ -84,26 +84,35 @@ class CentralConfigTest {
         assertTrue(out.stream().anyMatch(r -> r.zone().equals("office") && r.quantity() == Quantity.THI), "the centre's own zone derives");
     }
 
+    /** Watches over a group of sites' zones and over a glob of them. */
+    static final String GROUP_AND_GLOB = """
+            watch dairy-heat
+              raise when @dairy.thi >= 72
+              clear when @dairy.thi <= 70
+              notify office
+            watch sheds-cold
+              raise when */cow-shed.dry-bulb < 2 C
+              clear when */cow-shed.dry-bulb > 4 C
+              notify office
+            """;
+
+    /** A watch over every site's online stream. */
+    static final String SITE_DOWN = """
+            watch site-down
+              raise when @sites.online == 0 for 5m
+              clear when @sites.online == 1 for 1m
+              notify office
+            """;
+
     @Test
     void rulesSelectSitesZonesByNameGlobAndGroup() throws Exception {
         ByreConfig c = load(CENTRAL);
-        CompileResult ok = compile(c, """
-                watch dairy-heat
-                  raise when @dairy.thi >= 72
-                  clear when @dairy.thi <= 70
-                  notify office
-                watch sheds-cold
-                  raise when */cow-shed.dry-bulb < 2 C
-                  clear when */cow-shed.dry-bulb > 4 C
-                  notify office
+        CompileResult ok = compile(c, GROUP_AND_GLOB + """
                 watch one-pen
                   raise when larkmoor/calf-pen-1.wind-chill < 5 C
                   clear when larkmoor/calf-pen-1.wind-chill > 7 C
                   notify office
-                watch site-down
-                  raise when @sites.online == 0 for 5m
-                  clear when @sites.online == 1 for 1m
-                  notify office
+                """ + SITE_DOWN + """
                 watch larkmoor-down
                   raise when larkmoor.online == 0
                   clear when larkmoor.online == 1
@@ -201,20 +210,7 @@ class CentralConfigTest {
 
     @Test
     void whileDiscoveringAGroupOrGlobWithoutZonesYetIsAWarning() throws Exception {
-        String rules = """
-                watch site-down
-                  raise when @sites.online == 0 for 5m
-                  clear when @sites.online == 1 for 1m
-                  notify office
-                watch dairy-heat
-                  raise when @dairy.thi >= 72
-                  clear when @dairy.thi <= 70
-                  notify office
-                watch sheds-cold
-                  raise when */cow-shed.dry-bulb < 2 C
-                  clear when */cow-shed.dry-bulb > 4 C
-                  notify office
-                """;
+        String rules = SITE_DOWN + GROUP_AND_GLOB;
         String empty = "site: hub\ncentral:\n  discover: true\n  defaults: { zones: [cow-shed], groups: [dairy] }\n"
                 + "notify:\n  office: { type: command, argv: [/bin/true] }\n";
         CompileResult found = compile(load(empty), rules);

@@ -14,6 +14,7 @@ import byre.config.ByreConfig;
 import byre.daemon.Daemon;
 import byre.mqtt.EmbeddedBroker;
 import byre.page.BarnPage;
+import byre.testing.ConfigYaml;
 import byre.testing.Configs;
 import byre.testing.TestPublisher;
 import byre.zones.ClimateDeriver;
@@ -51,31 +52,12 @@ class LateCentreTest {
         Files.createDirectories(dir.resolve("barn-rules"));
         Files.writeString(dir.resolve("barn-rules/cold.rules"), "watch calves-cold\n  raise when calf-barn.dry-bulb < 5 C\n"
                 + "  clear when calf-barn.dry-bulb > 8 C\n  level critical\n  notify office\n");
-        ByreConfig barnCfg = Configs.parse("barn.yaml", """
-                site: larkmoor
-                mqtt: { broker: embedded, listen: 127.0.0.1:%d, client-id: byre-larkmoor }
-                sensors:
-                  calf-dry: { topic: larkmoor/calf-barn/dry, quantity: dry-bulb }
-                zones:
-                  calf-barn: { sensors: [calf-dry] }
-                notify:
-                  office: { type: command, argv: [/bin/true] }
-                rules: barn-rules
-                history: { path: barn.db }
-                """.formatted(brokerPort), dir, n -> null);
+        ByreConfig barnCfg = ConfigYaml.barn().embeddedBroker(brokerPort)
+                .sensor("calf-dry", "larkmoor/calf-barn/dry", "dry-bulb").zone("calf-barn", "calf-dry").parse("barn.yaml", dir);
         Files.createDirectories(dir.resolve("central-rules"));
         Path hubFile = dir.resolve("central.yaml");
-        Files.writeString(hubFile, """
-                site: hub
-                mqtt: { broker: tcp://127.0.0.1:%d, client-id: byre-hub }
-                central:
-                  sites:
-                    larkmoor: { zones: [calf-barn] }
-                rules: central-rules
-                history: { path: %s }
-                admin: { listen: "127.0.0.1:%d" }
-                page: { listen: "127.0.0.1:%d" }
-                """.formatted(brokerPort, dir.resolve("central.db"), adminPort, pagePort));
+        Files.writeString(hubFile, ConfigYaml.centre().broker(brokerPort).site("larkmoor", "zones: [calf-barn]")
+                .history(dir.resolve("central.db").toString()).admin(adminPort).page(pagePort).text());
         ByreConfig hubCfg = Configs.load(hubFile);
 
         try (Daemon barn = Daemon.create(barnCfg, Clock.systemUTC(), new SimpleMeterRegistry()).start(new ClimateDeriver());

@@ -13,7 +13,7 @@ import byre.history.HistoryReader;
 import byre.history.HistoryRow;
 import byre.history.StreamKey;
 import byre.json.Json;
-import byre.testing.Configs;
+import byre.testing.ConfigYaml;
 import byre.testing.Mosquitto;
 import byre.testing.TestPublisher;
 import byre.units.Quantity;
@@ -65,41 +65,17 @@ class ManySitesTest {
         Path barnRules = Files.createDirectories(dir.resolve("barn-rules"));
         Files.writeString(barnRules.resolve("warm.rules"),
                 "watch shed-warm\n  raise when cow-shed.dry-bulb > 30\n  clear when cow-shed.dry-bulb < 28\n  notify office\n");
-        ByreConfig barnCfg = Configs.parse("barn.yaml", """
-                site: larkmoor
-                mqtt: { broker: tcp://127.0.0.1:%d, client-id: byre-larkmoor, accept-acks: true }
-                sensors:
-                  shed-dry: { topic: larkmoor/cow-shed/dry, quantity: dry-bulb }
-                  shed-rh: { topic: larkmoor/cow-shed/rh, quantity: rh }
-                zones:
-                  cow-shed: { sensors: [shed-dry, shed-rh] }
-                notify:
-                  office: { type: command, argv: [/bin/true] }
-                rules: barn-rules
-                history: { path: barn.db }
-                """.formatted(barnPort), dir, n -> null);
+        ByreConfig barnCfg = ConfigYaml.barn().broker(barnPort).acceptAcks()
+                .sensor("shed-dry", "larkmoor/cow-shed/dry", "dry-bulb").sensor("shed-rh", "larkmoor/cow-shed/rh", "rh")
+                .zone("cow-shed", "shed-dry", "shed-rh").parse("barn.yaml", dir);
         Path centralRules = Files.createDirectories(dir.resolve("central-rules"));
-        Files.writeString(centralRules.resolve("sites.rules"), """
-                watch site-down
-                  raise when @sites.online == 0
-                  clear when @sites.online == 1
-                  level critical
-                  notify office
+        Files.writeString(centralRules.resolve("sites.rules"), ConfigYaml.SITE_DOWN + """
                 watch dairy-hot
                   raise when @dairy.thi > 90
                   notify office
                 """);
-        ByreConfig centralCfg = Configs.parse("central.yaml", """
-                site: hub
-                mqtt: { broker: tcp://127.0.0.1:%d, client-id: byre-hub }
-                central:
-                  sites:
-                    larkmoor: { zones: [cow-shed], groups: [dairy] }
-                notify:
-                  office: { type: command, argv: [/bin/true] }
-                rules: central-rules
-                history: { path: central.db }
-                """.formatted(centralPlain), dir, n -> null);
+        ByreConfig centralCfg = ConfigYaml.centre().broker(centralPlain).site("larkmoor", "zones: [cow-shed], groups: [dairy]")
+                .parse("central.yaml", dir);
 
         // What the barn publishes on its zone stream, seen on the barn's own broker: value by reading time.
         Map<Instant, Double> barnDry = new ConcurrentSkipListMap<>();

@@ -10,7 +10,7 @@ import byre.config.ByreConfig;
 import byre.daemon.Daemon;
 import byre.mqtt.EmbeddedBroker;
 import byre.page.BarnPage;
-import byre.testing.Configs;
+import byre.testing.ConfigYaml;
 import byre.testing.MutableClock;
 import byre.testing.TestPublisher;
 import byre.units.Quantity;
@@ -42,32 +42,15 @@ class SiteDiscoveryTest {
     Path dir;
 
     ByreConfig config(int brokerPort, int pagePort) throws Exception {
-        return Configs.parse("central.yaml", """
-                site: hub
-                mqtt: { broker: embedded, listen: 127.0.0.1:%d, client-id: byre-hub }
-                central:
-                  discover: true
-                  defaults: { zones: [cow-shed], groups: [dairy], max-age: 5m }
-                  sites:
-                    larkmoor: { zones: [calf-barn] }
-                notify:
-                  office: { type: command, argv: [/bin/true] }
-                rules: rules
-                history: { path: central.db }
-                page: { listen: 127.0.0.1:%d }
-                """.formatted(brokerPort, pagePort), dir, n -> null);
+        return ConfigYaml.centre().embeddedBroker(brokerPort).discover("zones: [cow-shed], groups: [dairy], max-age: 5m")
+                .site("larkmoor", "zones: [calf-barn]").rules("rules").page(pagePort).parse("central.yaml", dir);
     }
 
     @Test
     @Timeout(90)
     void aSiteThatPublishesItsStatusJoinsWithTheDefaultsAndStaysAfterARestart() throws Exception {
         Files.createDirectories(dir.resolve("rules"));
-        Files.writeString(dir.resolve("rules/sites.rules"), """
-                watch site-down
-                  raise when @sites.online == 0
-                  clear when @sites.online == 1
-                  level critical
-                  notify office
+        Files.writeString(dir.resolve("rules/sites.rules"), ConfigYaml.SITE_DOWN + """
                 watch dairy-hot
                   raise when @dairy.thi > 90
                   clear when @dairy.thi < 85

@@ -6,7 +6,7 @@ import static org.junit.jupiter.api.Assertions.assertFalse;
 import byre.config.ByreConfig;
 import byre.daemon.Daemon;
 import byre.mqtt.EmbeddedBroker;
-import byre.testing.Configs;
+import byre.testing.ConfigYaml;
 import byre.testing.MutableClock;
 import byre.testing.TestPublisher;
 import byre.units.Quantity;
@@ -36,17 +36,8 @@ class SiteDownWatchTest {
                   notify office
                 """);
         int port = EmbeddedBroker.freePort("127.0.0.1");
-        ByreConfig cfg = Configs.parse("central.yaml", """
-                site: hub
-                mqtt: { broker: embedded, listen: 127.0.0.1:%d, client-id: byre-hub }
-                central:
-                  sites:
-                    larkmoor: { zones: [cow-shed], groups: [dairy] }
-                notify:
-                  office: { type: command, argv: [/bin/true] }
-                rules: rules.d
-                history: { path: central.db }
-                """.formatted(port), dir, n -> null);
+        ByreConfig cfg = ConfigYaml.centre().embeddedBroker(port).site("larkmoor", "zones: [cow-shed], groups: [dairy]")
+                .rules("rules.d").parse("central.yaml", dir);
         MutableClock clock = new MutableClock(Instant.parse("2026-07-14T02:00:00Z"));
         try (Daemon centre = Daemon.create(cfg, clock, new SimpleMeterRegistry()).start(new ClimateDeriver());
              TestPublisher bridge = new TestPublisher("tcp://127.0.0.1:" + port)) {

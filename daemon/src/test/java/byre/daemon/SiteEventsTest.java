@@ -10,6 +10,7 @@ import byre.config.ByreConfig;
 import byre.config.ConfigException;
 import byre.json.Json;
 import byre.mqtt.EmbeddedBroker;
+import byre.testing.ConfigYaml;
 import byre.testing.Configs;
 import byre.testing.TestPublisher;
 import byre.zones.ClimateDeriver;
@@ -34,18 +35,9 @@ class SiteEventsTest {
     Path dir;
 
     String yaml(int port, String extraMqtt) {
-        return """
-                site: larkmoor
-                mqtt: { broker: embedded, listen: 127.0.0.1:%d, client-id: byre-events-test%s }
-                sensors:
-                  shed-dry: { topic: larkmoor/cow-shed/dry, quantity: dry-bulb }
-                zones:
-                  cow-shed: { sensors: [shed-dry] }
-                notify:
-                  office: { type: command, argv: [/bin/true] }
-                rules: rules.d
-                history: { path: history.db }
-                """.formatted(port, extraMqtt);
+        return ConfigYaml.barn().embeddedBroker(port).clientId("byre-events-test").mqttOptions(extraMqtt)
+                .sensor("shed-dry", "larkmoor/cow-shed/dry", "dry-bulb").zone("cow-shed", "shed-dry").rules("rules.d")
+                .history("history.db").text();
     }
 
     @Test

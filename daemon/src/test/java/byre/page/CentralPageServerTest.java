@@ -10,7 +10,7 @@ import byre.config.ByreConfig;
 import byre.daemon.Daemon;
 import byre.json.Json;
 import byre.mqtt.EmbeddedBroker;
-import byre.testing.Configs;
+import byre.testing.ConfigYaml;
 import byre.testing.TestPublisher;
 import byre.zones.ClimateDeriver;
 import io.micrometer.core.instrument.simple.SimpleMeterRegistry;
@@ -51,33 +51,13 @@ class CentralPageServerTest {
         int pagePort = EmbeddedBroker.freePort("127.0.0.1");
         Files.createDirectories(dir.resolve("barn-rules"));
         Files.writeString(dir.resolve("barn-rules/warm.rules"), "watch shed-warm\n  raise when cow-shed.dry-bulb > 30 C\n  clear when cow-shed.dry-bulb < 28 C\n  level warning\n  notify office\n");
-        ByreConfig barnCfg = Configs.parse("barn.yaml", """
-                site: larkmoor
-                mqtt: { broker: embedded, listen: 127.0.0.1:%d, client-id: byre-larkmoor, accept-acks: true }
-                sensors:
-                  shed-dry: { topic: larkmoor/cow-shed/dry, quantity: dry-bulb }
-                zones:
-                  cow-shed: { sensors: [shed-dry] }
-                notify:
-                  office: { type: command, argv: [/bin/true] }
-                rules: barn-rules
-                history: { path: barn.db }
-                """.formatted(brokerPort), dir, n -> null);
+        ByreConfig barnCfg = ConfigYaml.barn().embeddedBroker(brokerPort).acceptAcks()
+                .sensor("shed-dry", "larkmoor/cow-shed/dry", "dry-bulb").zone("cow-shed", "shed-dry").parse("barn.yaml", dir);
         Files.createDirectories(dir.resolve("central-rules"));
         Files.writeString(dir.resolve("admin.token"), TOKEN + "\n");
-        ByreConfig hubCfg = Configs.parse("central.yaml", """
-                site: hub
-                timezone: Europe/London
-                mqtt: { broker: tcp://127.0.0.1:%d, client-id: byre-hub }
-                central:
-                  sites:
-                    larkmoor: { zones: [cow-shed], groups: [dairy] }
-                    brackenhill: { zones: [cow-shed] }
-                rules: central-rules
-                history: { path: central.db }
-                admin: { listen: 127.0.0.1:0, token-file: admin.token }
-                page: { listen: 127.0.0.1:%d }
-                """.formatted(brokerPort, pagePort), dir, n -> null);
+        ByreConfig hubCfg = ConfigYaml.centre().timezone("Europe/London").broker(brokerPort)
+                .site("larkmoor", "zones: [cow-shed], groups: [dairy]").site("brackenhill", "zones: [cow-shed]")
+                .admin(0, "admin.token").page(pagePort).parse("central.yaml", dir);
         SimpleMeterRegistry registry = new SimpleMeterRegistry();
         LiveValues live = new LiveValues();
 

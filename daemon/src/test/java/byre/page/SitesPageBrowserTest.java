@@ -11,7 +11,7 @@ import byre.config.ByreConfig;
 import byre.daemon.Daemon;
 import byre.mqtt.EmbeddedBroker;
 import byre.testing.Chromium;
-import byre.testing.Configs;
+import byre.testing.ConfigYaml;
 import byre.testing.MutableClock;
 import byre.testing.TestPublisher;
 import byre.units.Quantity;
@@ -52,28 +52,11 @@ class SitesPageBrowserTest {
         int brokerPort = EmbeddedBroker.freePort("127.0.0.1");
         int pagePort = EmbeddedBroker.freePort("127.0.0.1");
         Files.createDirectories(dir.resolve("rules"));
-        Files.writeString(dir.resolve("rules/sites.rules"), """
-                watch site-down
-                  raise when @sites.online == 0
-                  clear when @sites.online == 1
-                  level critical
-                  notify office
-                """);
-        ByreConfig cfg = Configs.parse("central.yaml", """
-                site: hub
-                timezone: Europe/London
-                mqtt: { broker: embedded, listen: 127.0.0.1:%d, client-id: byre-hub }
-                central:
-                  sites:
-                    larkmoor:    { zones: [calf-barn, cow-shed], groups: [dairy] }
-                    brackenhill: { zones: [cow-shed], groups: [dairy] }
-                    fellside:    { zones: [cow-shed] }
-                notify:
-                  office: { type: command, argv: [/bin/true] }
-                rules: rules
-                history: { path: central.db }
-                page: { listen: 127.0.0.1:%d }
-                """.formatted(brokerPort, pagePort), dir, n -> null);
+        Files.writeString(dir.resolve("rules/sites.rules"), ConfigYaml.SITE_DOWN);
+        ByreConfig cfg = ConfigYaml.centre().timezone("Europe/London").embeddedBroker(brokerPort)
+                .site("larkmoor", "zones: [calf-barn, cow-shed], groups: [dairy]")
+                .site("brackenhill", "zones: [cow-shed], groups: [dairy]")
+                .site("fellside", "zones: [cow-shed]").rules("rules").page(pagePort).parse("central.yaml", dir);
         Instant fresh = NOW.minus(Duration.ofMinutes(1));
         Instant old = NOW.minus(Duration.ofMinutes(125));
         MutableClock clock = new MutableClock(old);
