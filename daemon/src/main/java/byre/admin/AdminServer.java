@@ -57,6 +57,10 @@ public final class AdminServer implements AutoCloseable {
     private final String site;
     private volatile AlertSource alerts;
     private volatile AckHandler ack;
+    private volatile Runnable historyWrite;
+    /** The last {@code POST /history/write} that wrote (guarded by this). */
+    private Instant lastHistoryWrite;
+    static final Duration HISTORY_WRITE_EVERY = Duration.ofSeconds(10);
 
     private AdminServer(HttpServer server, ExecutorService pool, ReadDeadlines deadlines, Secret token, Supplier<String> metrics,
                         HealthMonitor health, LiveValues values, Clock clock, String site) {
@@ -118,6 +122,15 @@ public final class AdminServer implements AutoCloseable {
         this.alerts = source;
     }
 
+    /**
+     * Plugs in {@code POST /history/write}: writes what the history holds back in memory (the zone rows of the last
+     * minutes wait for the rollups), so that a query sees everything up to now. At most once every
+     * {@link #HISTORY_WRITE_EVERY}: each call writes pages, and the card should not be worn by a loop of calls.
+     */
+    public void setHistoryWrite(Runnable write) {
+        this.historyWrite = write;
+    }
+
     /** Plugs in acknowledgements for {@code POST /ack}; null answers 404. */
     public void setAckHandler(AckHandler handler) {
         this.ack = handler;
@@ -145,7 +158,8 @@ public final class AdminServer implements AutoCloseable {
                     if (requireGet(ex, method)) send(ex, 200, "application/json", statusJson());
                 }
                 case "/ack" -> ack(ex, method, body);
-                default -> send(ex, 404, "application/json", error("no such endpoint; try /metrics, /health, /status or POST /ack"));
+                case "/history/write" -> historyWrite(ex, method);
+                default -> send(ex, 404, "application/json", error("no such endpoint; try /metrics, /health, /status, POST /ack or POST /history/write"));
             }
         } catch (RuntimeException e) {
             LOG.warn("admin API {} {} failed: {}", byre.alerts.AckBy.oneLine(ex.getRequestMethod(), 16), byre.alerts.AckBy.oneLine(ex.getRequestURI().getRawPath(), 200), e.toString());
@@ -162,6 +176,27 @@ public final class AdminServer implements AutoCloseable {
         ex.getResponseHeaders().set("Allow", "GET, HEAD");
         send(ex, 405, "application/json", error("use GET"));
         return false;
+    }
+
+    private void historyWrite(HttpExchange ex, String method) throws IOException {
+        if (!method.equals("POST")) {
+            ex.getResponseHeaders().set("Allow", "POST");
+            send(ex, 405, "application/json", error("use POST"));
+            return;
+        }
+        Runnable write = historyWrite;
+        if (write == null) {
+            send(ex, 404, "application/json", error("this byre keeps no history"));
+            return;
+        }
+        Instant now = clock.instant();
+        boolean due;
+        synchronized (this) {
+            due = lastHistoryWrite == null || !now.isBefore(lastHistoryWrite.plus(HISTORY_WRITE_EVERY)) || now.isBefore(lastHistoryWrite);
+            if (due) lastHistoryWrite = now;
+        }
+        if (due) write.run();
+        send(ex, 200, "application/json", new JsonWriter().field("written", due) + "\n");
     }
 
     private void ack(HttpExchange ex, String method, byte[] body) throws IOException {

@@ -53,6 +53,20 @@ final class AdminClient {
         }
     }
 
+    /**
+     * Asks the running daemon to write what its history holds back (zone rows wait in memory for the rollups, up to
+     * ten minutes); false when nobody answers. The daemon does it at most every few seconds.
+     */
+    boolean writeHistory() {
+        try {
+            HttpRequest req = HttpRequest.newBuilder(URI.create(base + "/history/write")).timeout(Duration.ofSeconds(8))
+                    .POST(HttpRequest.BodyPublishers.noBody()).build();
+            return http.send(req, HttpResponse.BodyHandlers.ofString()).statusCode() == 200;
+        } catch (Exception e) {
+            return false;
+        }
+    }
+
     /** Live zone values (canonical units) by zone, and the open alerts (null when the daemon has no alert stage). */
     record Live(Map<String, Map<Quantity, StatusData.Value>> values, List<OpenAlert> alerts) {}
 

@@ -63,6 +63,9 @@ final class HistoryCommand implements Callable<Integer> {
             System.err.println("byre: " + e.getMessage());
             return Main.USAGE;
         }
+        // A running daemon holds the zone rows of the last minutes in memory (they wait for the rollups): ask it to
+        // write them first. Raw sensor readings are committed within seconds anyway.
+        if (q.key().kind() == byre.history.StreamKey.Kind.ZONE && cfg.admin().enabled()) new AdminClient(cfg.admin()).writeHistory();
         Writer out = new BufferedWriter(new OutputStreamWriter(System.out, StandardCharsets.UTF_8), 1 << 16);
         ProgressBar bar = ProgressBar.forStderr();
         try (HistoryReader r = HistoryReader.openReadOnly(cfg.history().path())) {

@@ -60,6 +60,7 @@ final class RunCommand implements Callable<Integer> {
                         Clock.systemUTC(), cfg.site());
                 Daemon running = daemon;
                 admin.setAlertSource(running::openAlerts);
+                admin.setHistoryWrite(running::flush);
                 admin.setAckHandler((incident, by) -> {
                     byre.alerts.AckResult r = running.acknowledge(incident, by);
                     switch (r.status()) {

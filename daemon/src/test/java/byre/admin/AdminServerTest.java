@@ -145,6 +145,22 @@ class AdminServerTest {
     }
 
     @Test
+    void historyWriteRunsTheWriterAtMostOnceInTenSeconds() throws Exception {
+        java.util.concurrent.atomic.AtomicInteger writes = new java.util.concurrent.atomic.AtomicInteger();
+        HttpRequest post = HttpRequest.newBuilder(URI.create("http://127.0.0.1:" + server.port() + "/history/write"))
+                .POST(HttpRequest.BodyPublishers.noBody()).build();
+        assertEquals(404, http.send(post, HttpResponse.BodyHandlers.ofString()).statusCode(), "no history plugged in");
+        server.setHistoryWrite(writes::incrementAndGet);
+        HttpResponse<String> first = http.send(post, HttpResponse.BodyHandlers.ofString());
+        assertEquals(200, first.statusCode());
+        assertEquals("{\"written\":true}\n", first.body());
+        // The clock is fixed: a second call within the ten seconds writes nothing (a loop of calls cannot wear the card).
+        assertEquals("{\"written\":false}\n", http.send(post, HttpResponse.BodyHandlers.ofString()).body());
+        assertEquals(1, writes.get());
+        assertEquals(405, get("/history/write").statusCode());
+    }
+
+    @Test
     void theBearerSchemeIsCaseInsensitiveAndTheTokenIsNot() throws Exception {
         server.setAckHandler((incident, by) -> AckHandler.Result.acknowledged("acknowledged"));
         String body = "{\"incident\":\"inc-7\",\"by\":\"sam\"}";
