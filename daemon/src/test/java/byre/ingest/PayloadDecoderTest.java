@@ -59,6 +59,21 @@ class PayloadDecoderTest {
         refused(NESTED, "{\"sensor\":{\"speed\":1},\"sensor\":{}}", RejectReason.MISSING_FIELD, "no 'sensor.speed' in the JSON payload");
     }
 
+    /** A payload is UTF-8 (RFC 8259 section 8.1): zero bytes do not make Jackson read it as UTF-16 or UTF-32. */
+    @Test
+    void zeroBytesAreNeverTakenForAnotherEncoding() {
+        refused(V_TS, "{\0\"\0v\0\"\0:\0001\0}\0", RejectReason.UNPARSEABLE, "not JSON: Illegal character ((CTRL-CHAR, code 0))");
+        refused(V_TS, "\0{\"v\":1}", RejectReason.UNPARSEABLE, "not JSON: Illegal character ((CTRL-CHAR, code 0))");
+        refused(V_TS, "\0\0\0{", RejectReason.UNPARSEABLE, "not JSON: Illegal character ((CTRL-CHAR, code 0))");
+    }
+
+    /** JSON allows an escaped lone surrogate; Jackson's byte parser refuses one in a member name (it has no UTF-8). */
+    @Test
+    void aLoneSurrogateEscapeIsKeptInAValueAndRefusedInAName() {
+        assertEquals(1.0, decode(V_TS, "{\"id\":\"pen\\ud800\",\"v\":1}").value());
+        refused(V_TS, "{\"id\\ud800\":\"pen\",\"v\":1}", RejectReason.UNPARSEABLE, "not JSON: Broken surrogate pair in field name");
+    }
+
     @Test
     void malformedJsonAnywhereIsRefusedWithWhere() {
         refused(V_TS, "{\"v\":21.4,\"x\":[1,2}", RejectReason.UNPARSEABLE, "not JSON: Unexpected close marker '}': expected ']'");

@@ -61,7 +61,7 @@ class JsonTest {
         String deep = error("{\"x\":" + "[".repeat(Json.MAX_DEPTH) + "]".repeat(Json.MAX_DEPTH) + "}");
         assertTrue(deep.startsWith("Document nesting depth (33) exceeds the maximum allowed (32)") && deep.endsWith("at line 1, column 38"), deep);
         // A member that is passed over counts too.
-        assertThrows(Json.JsonException.class, () -> Json.select("{\"x\":" + "[".repeat(40) + "]".repeat(40) + ",\"v\":1}", "v"));
+        assertThrows(Json.JsonException.class, () -> Json.read("{\"x\":" + "[".repeat(40) + "]".repeat(40) + ",\"v\":1}", Json.valuesAt("v")));
     }
 
     @Test
@@ -70,6 +70,6 @@ class JsonTest {
         assertEquals(Double.POSITIVE_INFINITY, Json.parse(longest), "read, and not finite: the caller refuses it");
         String tooLong = error("{\"v\":" + longest + "0}");
         assertTrue(tooLong.startsWith("Number value length (1001) exceeds the maximum allowed (1000)"), tooLong);
-        assertThrows(Json.JsonException.class, () -> Json.select("{\"x\":" + longest + "0,\"v\":1}", "v"), "also in a member passed over");
+        assertThrows(Json.JsonException.class, () -> Json.read("{\"x\":" + longest + "0,\"v\":1}", Json.valuesAt("v")), "also in a member passed over");
     }
 }
