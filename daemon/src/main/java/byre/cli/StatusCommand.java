@@ -9,7 +9,6 @@ import byre.history.HistoryReader;
 import byre.history.HistoryRow;
 import byre.history.RollupRow;
 import byre.history.StreamKey;
-import byre.json.Json;
 import byre.units.Quantity;
 import java.time.Clock;
 import java.time.Duration;

@@ -4,6 +4,9 @@ import byre.config.PayloadFormat;
 import byre.config.SensorConfig;
 import byre.json.Json;
 import byre.units.Unit;
+import com.fasterxml.jackson.core.JsonParser;
+import com.fasterxml.jackson.core.JsonToken;
+import java.io.IOException;
 import java.nio.charset.CharacterCodingException;
 import java.nio.charset.CodingErrorAction;
 import java.nio.charset.StandardCharsets;
@@ -11,8 +14,6 @@ import java.nio.ByteBuffer;
 import java.time.Instant;
 import java.time.OffsetDateTime;
 import java.time.format.DateTimeParseException;
-import java.util.List;
-import java.util.Map;
 import java.util.regex.Pattern;
 
 /** Turns a raw MQTT payload into a number (and maybe a time) as the sensor's configuration says. */
@@ -30,22 +31,32 @@ public final class PayloadDecoder {
         if (payload.length > MAX_PAYLOAD_BYTES) {
             return Decoded.rejected(RejectReason.TOO_LARGE, payload.length + " bytes");
         }
-        String text;
-        if (isAscii(payload)) {
-            // Nearly every payload is ASCII: no strict UTF-8 decoder (and its buffers) needed.
-            text = new String(payload, StandardCharsets.ISO_8859_1).strip();
-        } else try {
-            text = StandardCharsets.UTF_8.newDecoder().onMalformedInput(CodingErrorAction.REPORT)
-                    .onUnmappableCharacter(CodingErrorAction.REPORT).decode(ByteBuffer.wrap(payload)).toString().strip();
-        } catch (CharacterCodingException e) {
-            return Decoded.rejected(RejectReason.UNPARSEABLE, "payload is not UTF-8 text");
+        // Nearly every payload is ASCII: no strict UTF-8 decoder (and its buffers) needed, and JSON is read from the bytes.
+        String text = null;
+        if (!isAscii(payload)) {
+            try {
+                text = StandardCharsets.UTF_8.newDecoder().onMalformedInput(CodingErrorAction.REPORT)
+                        .onUnmappableCharacter(CodingErrorAction.REPORT).decode(ByteBuffer.wrap(payload)).toString().strip();
+            } catch (CharacterCodingException e) {
+                return Decoded.rejected(RejectReason.UNPARSEABLE, "payload is not UTF-8 text");
+            }
         }
         PayloadFormat format = sensor.payload();
         switch (format.kind()) {
-            case NUMBER: return number(text, sensor.unit());
-            case JSON: return json(text, format.selector(), sensor);
-            default: return senml(text, format.selector(), sensor.unit(), arrival);
+            case NUMBER: return number(text != null ? text : new String(payload, StandardCharsets.ISO_8859_1).strip(), sensor.unit());
+            case JSON: return json(payload, text, format.selector(), sensor);
+            default: return senml(payload, text, format.selector(), sensor.unit(), arrival);
         }
+    }
+
+    /** The payload as one JSON value: from the decoded text, or from the ASCII bytes; white space around it is stripped. */
+    private static <T> T readJson(byte[] payload, String text, Json.ValueReader<T> reader) {
+        if (text != null) return Json.read(text, reader);
+        int from = 0;
+        int to = payload.length;
+        while (from < to && Character.isWhitespace(payload[from])) from++; // as String.strip does for ASCII
+        while (to > from && Character.isWhitespace(payload[to - 1])) to--;
+        return Json.read(payload, from, to - from, reader);
     }
 
     private static Decoded number(String text, Unit unit) {
@@ -56,22 +67,18 @@ public final class PayloadDecoder {
         return Decoded.rejected(RejectReason.UNPARSEABLE, "expected a plain number, got '" + clip(text) + "'");
     }
 
-    private static Decoded json(String text, String path, SensorConfig sensor) {
+    private static Decoded json(byte[] payload, String text, String path, SensorConfig sensor) {
         String timePath = sensor.timePath();
         Object v;
         Object t = null;
         try {
-            // Top-level names (the usual {"v": 21.4, "ts": ...}) are picked out without building the document.
-            boolean oneName = timePath == null || timePath.equals(path);
-            Object[] members = path.indexOf('.') < 0 && (timePath == null || timePath.indexOf('.') < 0)
-                    ? (oneName ? Json.members(text, path) : Json.members(text, path, timePath)) : null;
-            if (members != null) {
-                v = members[0];
-                if (timePath != null) t = oneName ? members[0] : members[1];
+            if (timePath == null || timePath.equals(path)) {
+                v = readJson(payload, text, Json.valuesAt(path))[0];
+                if (timePath != null) t = v;
             } else {
-                Object root = Json.parse(text);
-                v = Json.path(root, path);
-                if (timePath != null) t = Json.path(root, timePath);
+                Object[] found = readJson(payload, text, Json.valuesAt(path, timePath));
+                v = found[0];
+                t = found[1];
             }
         } catch (Json.JsonException e) {
             return Decoded.rejected(RejectReason.UNPARSEABLE, "not JSON: " + e.getMessage());
@@ -92,40 +99,79 @@ public final class PayloadDecoder {
         return Decoded.rejected(RejectReason.UNPARSEABLE, "'" + path + "' is not a number");
     }
 
-    private static Decoded senml(String text, String name, Unit configured, Instant arrival) {
-        Object root;
+    private static Decoded senml(byte[] payload, String text, String name, Unit configured, Instant arrival) {
         try {
-            root = Json.parse(text);
+            return readJson(payload, text, new SenmlReader(name, configured, arrival));
         } catch (Json.JsonException e) {
             return Decoded.rejected(RejectReason.UNPARSEABLE, "not SenML JSON: " + e.getMessage());
         }
-        if (!(root instanceof List<?> pack)) return Decoded.rejected(RejectReason.UNPARSEABLE, "SenML must be a JSON array of records");
-        String baseName = "";
-        double baseTime = 0;
-        for (Object o : pack) {
-            if (!(o instanceof Map<?, ?> rec)) return Decoded.rejected(RejectReason.UNPARSEABLE, "SenML records must be JSON objects");
-            if (rec.get("bn") instanceof String bn) baseName = bn;
-            if (rec.get("bt") instanceof Double bt) baseTime = bt;
-            String n = rec.get("n") instanceof String s ? s : "";
-            String full = baseName + n;
-            if (!full.equals(name) && !n.equals(name)) continue;
-            Object v = rec.get("v");
-            if (!(v instanceof Double value)) return Decoded.rejected(RejectReason.UNPARSEABLE, "SenML record '" + full + "' has no numeric v");
-            Unit unit = configured;
-            if (rec.get("u") instanceof String u) {
-                unit = senmlUnit(u);
-                if (unit == null || unit.dimension() != configured.dimension()) {
-                    return Decoded.rejected(RejectReason.BAD_UNIT, "SenML unit '" + clip(u) + "' does not fit " + configured.dimension().name().toLowerCase().replace('_', ' '));
+    }
+
+    /**
+     * The first record that names the sensor, read record by record: only the SenML fields are built. The records
+     * after it are still passed over, so that a malformed pack is refused wherever it breaks. (A record rather than a
+     * lambda: see {@code Json.valuesAt}.)
+     */
+    private record SenmlReader(String name, Unit configured, Instant arrival) implements Json.ValueReader<Decoded> {
+        @Override
+        public Decoded read(JsonParser p) throws IOException {
+            if (p.currentToken() != JsonToken.START_ARRAY) {
+                p.skipChildren();
+                return Decoded.rejected(RejectReason.UNPARSEABLE, "SenML must be a JSON array of records");
+            }
+            String baseName = "";
+            double baseTime = 0;
+            Decoded result = null;
+            while (p.nextToken() != JsonToken.END_ARRAY) {
+                if (result != null) {
+                    p.skipChildren();
+                    continue;
                 }
+                if (p.currentToken() != JsonToken.START_OBJECT) {
+                    result = Decoded.rejected(RejectReason.UNPARSEABLE, "SenML records must be JSON objects");
+                    p.skipChildren();
+                    continue;
+                }
+                Object bn = null, bt = null, n = null, v = null, u = null, t = null;
+                while (p.nextToken() == JsonToken.FIELD_NAME) {
+                    String field = p.currentName();
+                    p.nextToken();
+                    switch (field) { // a repeated field: the last one counts
+                        case "bn": bn = Json.value(p); break;
+                        case "bt": bt = Json.value(p); break;
+                        case "n": n = Json.value(p); break;
+                        case "v": v = Json.value(p); break;
+                        case "u": u = Json.value(p); break;
+                        case "t": t = Json.value(p); break;
+                        default: p.skipChildren(); break;
+                    }
+                }
+                if (bn instanceof String s) baseName = s;
+                if (bt instanceof Double d) baseTime = d;
+                String recordName = n instanceof String s ? s : "";
+                String full = baseName + recordName;
+                if (!full.equals(name) && !recordName.equals(name)) continue;
+                result = senmlRecord(full, v, u, t, baseTime, configured, arrival);
             }
-            double t = baseTime + (rec.get("t") instanceof Double td ? td : 0);
-            Instant time = null;
-            if (t != 0) {
-                time = t < SENML_RELATIVE_LIMIT ? arrival.plusMillis(Math.round(t * 1000)) : Instant.ofEpochMilli(Math.round(t * 1000));
-            }
-            return finite(value, unit, time);
+            return result != null ? result : Decoded.rejected(RejectReason.MISSING_FIELD, "no SenML record named '" + name + "'");
         }
-        return Decoded.rejected(RejectReason.MISSING_FIELD, "no SenML record named '" + name + "'");
+    }
+
+    private static Decoded senmlRecord(String full, Object v, Object u, Object t, double baseTime, Unit configured, Instant arrival) {
+        if (!(v instanceof Double value)) return Decoded.rejected(RejectReason.UNPARSEABLE, "SenML record '" + full + "' has no numeric v");
+        Unit unit = configured;
+        if (u instanceof String s) {
+            unit = senmlUnit(s);
+            if (unit == null || unit.dimension() != configured.dimension()) {
+                return Decoded.rejected(RejectReason.BAD_UNIT, "SenML unit '" + clip(s) + "' does not fit " + configured.dimension().name().toLowerCase().replace('_', ' '));
+            }
+        }
+        double time = baseTime + (t instanceof Double d ? d : 0);
+        Instant at = null;
+        if (time != 0) {
+            at = time < SENML_RELATIVE_LIMIT ? arrival.plusMillis(Math.round(time * 1000)) : Instant.ofEpochMilli(Math.round(time * 1000));
+        }
+        return finite(value, unit, at);
     }
 
     private static boolean isAscii(byte[] b) {

@@ -1,37 +1,121 @@
 package byre.json;
 
+import com.fasterxml.jackson.core.ErrorReportConfiguration;
+import com.fasterxml.jackson.core.JsonFactory;
+import com.fasterxml.jackson.core.JsonLocation;
+import com.fasterxml.jackson.core.JsonParser;
+import com.fasterxml.jackson.core.JsonProcessingException;
+import com.fasterxml.jackson.core.JsonToken;
+import com.fasterxml.jackson.core.StreamReadConstraints;
+import com.fasterxml.jackson.core.StreamReadFeature;
+import java.io.IOException;
+import java.io.UncheckedIOException;
+import java.nio.charset.StandardCharsets;
 import java.util.ArrayList;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
 
 /**
- * A small strict JSON reader (RFC 8259) for sensor payloads, SenML records and acknowledgements.
- * Objects become {@code LinkedHashMap}, arrays {@code ArrayList}, numbers {@code Double}, plus
- * {@code String}, {@code Boolean} and {@code null}. Nesting is bounded so that a hostile payload
- * cannot exhaust the stack. Written by hand: payloads are small and a full JSON library would be
- * most of the jar for three uses.
+ * Strict JSON reading (RFC 8259) for sensor payloads, SenML records, acknowledgements and byre's own files, on
+ * Jackson core's streaming parser (jackson-core only, no data binding). {@link #parse} gives objects as
+ * {@code LinkedHashMap} (the last of repeated names wins), arrays as {@code ArrayList}, numbers as {@code Double}
+ * (the correctly rounded double of the decimal text, {@code -0} included), plus {@code String}, {@code Boolean} and
+ * {@code null}. Every problem is a {@link JsonException} that says what and where.
  */
 public final class Json {
-    /** Deeper nesting than this is refused; no sensor payload needs more. */
+    /** Deeper nesting of objects and arrays than this is refused; no payload needs more, and it bounds the stack. */
     public static final int MAX_DEPTH = 32;
+    /**
+     * Longer numbers are refused. Jackson's default as well, set here so that an upgrade cannot move it: far above
+     * any reading (17 significant digits give any double back), and it keeps a hostile number cheap to convert.
+     */
+    public static final int MAX_NUMBER_CHARS = 1000;
+    /** Characters of an offending token quoted in a message (messages go into log lines). */
+    private static final int MAX_QUOTED_CHARS = 40;
 
-    /** The text as characters: indexing an array is much cheaper than {@code String.charAt} without the C2 compiler. */
-    private final char[] text;
-    private int pos;
+    private static final JsonFactory FACTORY = JsonFactory.builder()
+            .streamReadConstraints(StreamReadConstraints.builder().maxNestingDepth(MAX_DEPTH).maxNumberLength(MAX_NUMBER_CHARS).build())
+            .errorReportConfiguration(ErrorReportConfiguration.builder().maxErrorTokenLength(MAX_QUOTED_CHARS).maxRawContentLength(0).build())
+            // Jackson's port of a fast decimal reader: as exact as Double.parseDouble (checked by JsonSelectFuzzTest), and quicker.
+            .enable(StreamReadFeature.USE_FAST_DOUBLE_PARSER)
+            .build();
 
-    private Json(String text) {
-        this.text = text.toCharArray();
+    private Json() {}
+
+    /** Reads the value whose first token is the parser's current token, leaving the parser on its last token. */
+    @FunctionalInterface
+    public interface ValueReader<T> {
+        T read(JsonParser p) throws IOException;
     }
 
-    /** Parses one JSON value; throws {@link JsonException} with the offset of the first problem. */
+    /**
+     * Reads {@code text}, which must be exactly one JSON value (JSON white space around it allowed), with {@code
+     * reader}; throws {@link JsonException} for malformed JSON anywhere in the text, also after what the reader used.
+     */
+    public static <T> T read(String text, ValueReader<T> reader) {
+        try {
+            return read(FACTORY.createParser(text), reader);
+        } catch (IOException e) {
+            throw new UncheckedIOException(e); // a string source does no I/O
+        }
+    }
+
+    /**
+     * As {@link #read(String, ValueReader)}, for UTF-8 text (RFC 8259 section 8.1) straight from bytes, with no
+     * string made first: sensor payloads. Jackson would take a byte-order mark or a zero byte among the first four
+     * as UTF-16 or UTF-32 instead; such bytes are read as UTF-8 text like any other, which JSON does not allow there.
+     */
+    public static <T> T read(byte[] utf8, int offset, int length, ValueReader<T> reader) {
+        boolean guessable = length >= 3 && utf8[offset] == (byte) 0xEF && utf8[offset + 1] == (byte) 0xBB && utf8[offset + 2] == (byte) 0xBF;
+        for (int i = offset; i < offset + Math.min(4, length); i++) guessable |= utf8[i] == 0;
+        if (guessable) return read(new String(utf8, offset, length, StandardCharsets.UTF_8), reader);
+        try {
+            return read(FACTORY.createParser(utf8, offset, length), reader);
+        } catch (IOException e) {
+            throw new UncheckedIOException(e); // a byte array source does no I/O
+        }
+    }
+
+    private static <T> T read(JsonParser p, ValueReader<T> reader) throws IOException {
+        try (p) {
+            try {
+                if (p.nextToken() == null) throw new JsonException("no JSON value in the text");
+                T result = reader.read(p);
+                if (p.nextToken() != null) throw new JsonException("text after the JSON value" + at(p.currentTokenLocation()));
+                return result;
+            } catch (JsonProcessingException e) { // caught before the parser closes: its location is still where it stopped
+                JsonLocation where = e.getLocation() != null ? e.getLocation() : p.currentLocation(); // limits come without one
+                throw new JsonException(message(e.getOriginalMessage()) + at(where));
+            }
+        }
+    }
+
+    /** Parses one JSON value; throws {@link JsonException} at the first problem. */
     public static Object parse(String text) {
-        Json p = new Json(text);
-        p.skipWhitespace();
-        Object value = p.value(0);
-        p.skipWhitespace();
-        if (p.pos != text.length()) throw p.error("unexpected text after the value");
-        return value;
+        return read(text, Json::value);
+    }
+
+    /**
+     * A reader of the values at the dotted paths, each exactly what {@link #path} finds in
+     * {@link #parse}{@code (text)}, without building the rest of the document (only a value found is built); the
+     * whole text is still checked. Sensor payloads go through here thousands of times a second in a burst.
+     */
+    public static ValueReader<Object[]> valuesAt(String... dottedPaths) {
+        if (dottedPaths.length > 31) throw new IllegalArgumentException("at most 31 paths at once");
+        String[][] steps = new String[dottedPaths.length][];
+        for (int i = 0; i < steps.length; i++) steps[i] = steps(dottedPaths[i]);
+        return new ValuesAt(steps);
+    }
+
+    /** A record, not a lambda: under C1 alone (as byre runs) making a capturing lambda costs about 40 ns a payload. */
+    private record ValuesAt(String[][] steps) implements ValueReader<Object[]> {
+        @Override
+        public Object[] read(JsonParser p) throws IOException {
+            Object[] found = new Object[steps.length];
+            select(p, steps, 0, (1 << steps.length) - 1, found);
+            return found;
+        }
     }
 
     /**
@@ -39,360 +123,128 @@ public final class Json {
      * number); returns null when any step is missing.
      */
     public static Object path(Object root, String dottedPath) {
-        Object node = root;
-        for (String step : dottedPath.split("\\.", -1)) {
+        return walk(root, steps(dottedPath), 0);
+    }
+
+    private static Object walk(Object node, String[] steps, int from) {
+        for (int s = from; s < steps.length && node != null; s++) {
             if (node instanceof Map<?, ?> m) {
-                node = m.get(step);
+                node = m.get(steps[s]);
             } else if (node instanceof List<?> l) {
-                int i;
-                try {
-                    i = Integer.parseInt(step);
-                } catch (NumberFormatException e) {
-                    return null;
-                }
+                int i = arrayIndex(steps[s]);
                 node = i >= 0 && i < l.size() ? l.get(i) : null;
             } else {
                 return null;
             }
-            if (node == null) return null;
         }
         return node;
     }
 
-    /**
-     * The values of the given top-level members of a JSON object, as {@link #path} would find them after
-     * {@link #parse} (the last of repeated names wins), without building the rest of the document: the
-     * whole text is still checked, and a malformed one throws like {@link #parse}. Returns null, without
-     * reading further, when the text does not start with an object: the caller reads it with {@link #parse}.
-     * Sensor payloads go through here thousands of times a second in a burst.
-     */
-    public static Object[] members(String text, String... names) {
-        Json p = new Json(text);
-        p.skipWhitespace();
-        if (p.pos >= text.length() || text.charAt(p.pos) != '{') return null;
-        Object[] found = new Object[names.length];
+    private static String[] steps(String dottedPath) {
+        return dottedPath.indexOf('.') < 0 ? new String[] {dottedPath} : dottedPath.split("\\.", -1);
+    }
+
+    /** A path step as an array index, or -1. */
+    private static int arrayIndex(String step) {
         try {
-            p.selectMembers(names, found);
-            p.skipWhitespace();
-            if (p.pos != text.length()) throw p.error("unexpected text after the value");
-        } catch (JsonException e) {
-            parse(text); // the error exactly as parse reports it
-            throw e;
-        }
-        return found;
-    }
-
-    private void selectMembers(String[] names, Object[] found) {
-        pos++;
-        skipWhitespace();
-        if (peek() == '}') {
-            pos++;
-            return;
-        }
-        while (true) {
-            skipWhitespace();
-            if (peek() != '"') throw error("expected a quoted member name");
-            int wanted = memberIndex(names);
-            skipWhitespace();
-            if (peek() != ':') throw error("expected ':' after member name");
-            pos++;
-            skipWhitespace();
-            if (wanted >= 0) {
-                found[wanted] = value(1);
-            } else {
-                skipValue(1);
-            }
-            skipWhitespace();
-            char c = peek();
-            pos++;
-            if (c == '}') return;
-            if (c != ',') throw error("expected ',' or '}' in object");
-        }
-    }
-
-    /** Reads a member name; its index in {@code names}, or -1. */
-    private int memberIndex(String[] names) {
-        int start = pos + 1;
-        int end = start;
-        while (end < text.length && text[end] != '"' && text[end] != '\\' && text[end] >= 0x20) end++;
-        if (end < text.length && text[end] == '"') {
-            pos = end + 1; // a plain name: compared in place
-            for (int i = 0; i < names.length; i++) {
-                if (names[i].length() == end - start && regionIs(names[i], start)) return i;
-            }
+            return Math.max(-1, Integer.parseInt(step));
+        } catch (NumberFormatException e) {
             return -1;
         }
-        String key = string(); // escapes (or a malformed name, which throws here)
-        for (int i = 0; i < names.length; i++) if (names[i].equals(key)) return i;
-        return -1;
     }
-
-    /** Checks and passes over one value without building it (same rules and messages as {@link #value}). */
-    private void skipValue(int depth) {
-        if (depth > MAX_DEPTH) throw error("nesting deeper than " + MAX_DEPTH);
-        if (pos >= text.length) throw error("unexpected end of input");
-        char c = text[pos];
-        switch (c) {
-            case '{': skipContainer(depth, '}', true); return;
-            case '[': skipContainer(depth, ']', false); return;
-            case '"': scanString(null); return;
-            case 't': literal("true", null); return;
-            case 'f': literal("false", null); return;
-            case 'n': literal("null", null); return;
-            default:
-                if (c == '-' || (c >= '0' && c <= '9')) {
-                    numberEnd();
-                    return;
-                }
-                throw error("unexpected character '" + printable(c) + "'");
-        }
-    }
-
-    private void skipContainer(int depth, char close, boolean object) {
-        pos++;
-        skipWhitespace();
-        if (peek() == close) {
-            pos++;
-            return;
-        }
-        while (true) {
-            skipWhitespace();
-            if (object) {
-                if (peek() != '"') throw error("expected a quoted member name");
-                scanString(null);
-                skipWhitespace();
-                if (peek() != ':') throw error("expected ':' after member name");
-                pos++;
-                skipWhitespace();
-            }
-            skipValue(depth + 1);
-            skipWhitespace();
-            char c = peek();
-            pos++;
-            if (c == close) return;
-            if (c != ',') throw error(object ? "expected ',' or '}' in object" : "expected ',' or ']' in array");
-        }
-    }
-
-    private Object value(int depth) {
-        if (depth > MAX_DEPTH) throw error("nesting deeper than " + MAX_DEPTH);
-        if (pos >= text.length) throw error("unexpected end of input");
-        char c = text[pos];
-        switch (c) {
-            case '{': return object(depth);
-            case '[': return array(depth);
-            case '"': return string();
-            case 't': return literal("true", Boolean.TRUE);
-            case 'f': return literal("false", Boolean.FALSE);
-            case 'n': return literal("null", null);
-            default:
-                if (c == '-' || (c >= '0' && c <= '9')) return number();
-                throw error("unexpected character '" + printable(c) + "'");
-        }
-    }
-
-    private Map<String, Object> object(int depth) {
-        Map<String, Object> map = new LinkedHashMap<>();
-        pos++;
-        skipWhitespace();
-        if (peek() == '}') {
-            pos++;
-            return map;
-        }
-        while (true) {
-            skipWhitespace();
-            if (peek() != '"') throw error("expected a quoted member name");
-            String key = string();
-            skipWhitespace();
-            if (peek() != ':') throw error("expected ':' after member name");
-            pos++;
-            skipWhitespace();
-            map.put(key, value(depth + 1));
-            skipWhitespace();
-            char c = peek();
-            pos++;
-            if (c == '}') return map;
-            if (c != ',') throw error("expected ',' or '}' in object");
-        }
-    }
-
-    private List<Object> array(int depth) {
-        List<Object> list = new ArrayList<>();
-        pos++;
-        skipWhitespace();
-        if (peek() == ']') {
-            pos++;
-            return list;
-        }
-        while (true) {
-            skipWhitespace();
-            list.add(value(depth + 1));
-            skipWhitespace();
-            char c = peek();
-            pos++;
-            if (c == ']') return list;
-            if (c != ',') throw error("expected ',' or ']' in array");
-        }
-    }
-
-    private String string() {
-        StringBuilder sb = new StringBuilder();
-        scanString(sb);
-        return sb.toString();
-    }
-
-    /** Moves past one string, checking it; appends its characters to {@code out} unless that is null. */
-    private void scanString(StringBuilder out) {
-        pos++;
-        while (true) {
-            if (pos >= text.length) throw error("unterminated string");
-            char c = text[pos++];
-            if (c == '"') return;
-            if (c < 0x20) throw error("control character in string");
-            if (c == '\\') c = escape();
-            if (out != null) out.append(c);
-        }
-    }
-
-    /** The character of the escape after a backslash. */
-    private char escape() {
-        if (pos >= text.length) throw error("unterminated escape");
-        char e = text[pos++];
-        switch (e) {
-            case '"': case '\\': case '/': return e;
-            case 'b': return '\b';
-            case 'f': return '\f';
-            case 'n': return '\n';
-            case 'r': return '\r';
-            case 't': return '\t';
-            case 'u':
-                if (pos + 4 > text.length) throw error("short \\u escape");
-                char unit;
-                try {
-                    unit = (char) Integer.parseInt(new String(text, pos, 4), 16);
-                } catch (NumberFormatException ex) {
-                    throw error("bad \\u escape");
-                }
-                pos += 4;
-                return unit;
-            default: throw error("bad escape '\\" + printable(e) + "'");
-        }
-    }
-
-    private Double number() {
-        int start = pos;
-        numberEnd();
-        double quick = exactDecimal(text, start, pos);
-        return Double.isNaN(quick) ? Double.parseDouble(new String(text, start, pos - start)) : quick;
-    }
-
-    private static final double[] POWERS_OF_TEN = {1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12,
-        1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19, 1e20, 1e21, 1e22};
 
     /**
-     * The value of a well-formed JSON number when it has at most 15 significant digits and a decimal exponent
-     * within ±22, else NaN. Such a mantissa and power of ten are both exact doubles, so one multiplication or
-     * division rounds correctly and gives what {@code Double.parseDouble} gives (Clinger, "How to read floating
-     * point numbers accurately", PLDI 1990). Sensor readings nearly always take this path.
+     * At the first token of a value at {@code depth}: for the paths in {@code mask} that end here, the value; for
+     * those that go deeper, descends into the members or elements they name and passes over (still checking) the rest.
      */
-    static double exactDecimal(char[] t, int from, int to) {
-        int i = from;
-        boolean negative = t[i] == '-';
-        if (negative) i++;
-        long mantissa = 0;
-        int digits = 0;
-        int scale = 0;
-        boolean fraction = false;
-        for (; i < to; i++) {
-            char c = t[i];
-            if (c == '.') {
-                fraction = true;
-                continue;
+    private static void select(JsonParser p, String[][] steps, int depth, int mask, Object[] found) throws IOException {
+        boolean endsHere = false;
+        for (int i = 0; i < steps.length; i++) if ((mask & (1 << i)) != 0 && steps[i].length == depth) endsHere = true;
+        if (endsHere) { // built once; a longer path through the same value is followed in what was built
+            Object v = value(p);
+            for (int i = 0; i < steps.length; i++) if ((mask & (1 << i)) != 0) found[i] = walk(v, steps[i], depth);
+            return;
+        }
+        JsonToken token = p.currentToken();
+        if (token == JsonToken.START_OBJECT) {
+            while (p.nextToken() == JsonToken.FIELD_NAME) {
+                String name = p.currentName();
+                int next = 0;
+                for (int i = 0; i < steps.length; i++) {
+                    if ((mask & (1 << i)) != 0 && steps[i][depth].equals(name)) {
+                        next |= 1 << i;
+                        found[i] = null; // a repeated name replaces the earlier member, as in the parsed map
+                    }
+                }
+                p.nextToken();
+                if (next == 0) {
+                    p.skipChildren();
+                } else {
+                    select(p, steps, depth + 1, next, found);
+                }
             }
-            if (c < '0' || c > '9') break;
-            if (mantissa != 0 || c != '0') {
-                if (++digits > 15) return Double.NaN;
-                mantissa = mantissa * 10 + (c - '0');
+        } else if (token == JsonToken.START_ARRAY) {
+            int[] wanted = new int[steps.length];
+            for (int i = 0; i < steps.length; i++) wanted[i] = (mask & (1 << i)) == 0 ? -1 : arrayIndex(steps[i][depth]);
+            for (int index = 0; p.nextToken() != JsonToken.END_ARRAY; index++) {
+                int next = 0;
+                for (int i = 0; i < steps.length; i++) if (wanted[i] == index) next |= 1 << i;
+                if (next == 0) {
+                    p.skipChildren();
+                } else {
+                    select(p, steps, depth + 1, next, found);
+                }
             }
-            if (fraction) scale--;
         }
-        if (i < to) { // exponent
-            i++;
-            boolean expNegative = t[i] == '-';
-            if (t[i] == '+' || t[i] == '-') i++;
-            int exp = 0;
-            for (; i < to; i++) {
-                exp = exp * 10 + (t[i] - '0');
-                if (exp > 1000) return Double.NaN;
+        // a scalar where the paths need an object or array: they find nothing here
+    }
+
+    /** The value at the parser's current token, built; the parser is left on its last token. */
+    public static Object value(JsonParser p) throws IOException {
+        switch (p.currentToken()) {
+            case START_OBJECT: {
+                Map<String, Object> map = new LinkedHashMap<>();
+                while (p.nextToken() == JsonToken.FIELD_NAME) {
+                    String name = p.currentName();
+                    p.nextToken();
+                    map.put(name, value(p));
+                }
+                return map;
             }
-            scale += expNegative ? -exp : exp;
-        }
-        if (scale < -22 || scale > 22) return mantissa == 0 ? (negative ? -0.0 : 0.0) : Double.NaN;
-        double v = scale >= 0 ? mantissa * POWERS_OF_TEN[scale] : mantissa / POWERS_OF_TEN[-scale];
-        return negative ? -v : v;
-    }
-
-    /** Moves past one number (RFC 8259 grammar). */
-    private void numberEnd() {
-        if (peek() == '-') pos++;
-        if (!digit()) throw error("malformed number");
-        if (text[pos] == '0') {
-            pos++;
-        } else {
-            while (digit()) pos++;
-        }
-        if (pos < text.length && text[pos] == '.') {
-            pos++;
-            if (!digit()) throw error("malformed number");
-            while (digit()) pos++;
-        }
-        if (pos < text.length && (text[pos] == 'e' || text[pos] == 'E')) {
-            pos++;
-            if (pos < text.length && (text[pos] == '+' || text[pos] == '-')) pos++;
-            if (!digit()) throw error("malformed number");
-            while (digit()) pos++;
+            case START_ARRAY: {
+                List<Object> list = new ArrayList<>();
+                while (p.nextToken() != JsonToken.END_ARRAY) list.add(value(p));
+                return list;
+            }
+            case VALUE_STRING: return p.getText();
+            case VALUE_NUMBER_INT: case VALUE_NUMBER_FLOAT: return number(p);
+            case VALUE_TRUE: return Boolean.TRUE;
+            case VALUE_FALSE: return Boolean.FALSE;
+            case VALUE_NULL: return null;
+            default: throw new IllegalStateException("not at the start of a value: " + p.currentToken());
         }
     }
 
-    private boolean digit() {
-        return pos < text.length && text[pos] >= '0' && text[pos] <= '9';
+    /** The number at the parser's current token as the double {@code Double.parseDouble} gives for its text. */
+    private static Double number(JsonParser p) throws IOException {
+        double d = p.getDoubleValue();
+        // Jackson reads an integer as a long first, which has no negative zero.
+        if (d == 0 && p.currentToken() == JsonToken.VALUE_NUMBER_INT && p.getText().charAt(0) == '-') return -0.0;
+        return d;
     }
 
-    private Object literal(String word, Object value) {
-        if (!regionIs(word, pos)) throw error("unexpected word");
-        pos += word.length();
-        return value;
+    /** Jackson's message in plain words: where a start marker is, without the source note; no control characters. */
+    private static String message(String original) {
+        return original.replaceAll("\\[Source: [^;\\]]*; line: (\\d+), column: (\\d+)]", "line $1, column $2")
+                .replaceAll(", from `[^`]*`", "")
+                .replaceAll("\\p{Cntrl}", "?");
     }
 
-    /** Whether {@code word} appears at {@code at}. */
-    private boolean regionIs(String word, int at) {
-        if (at < 0 || at + word.length() > text.length) return false;
-        for (int i = 0; i < word.length(); i++) if (text[at + i] != word.charAt(i)) return false;
-        return true;
+    private static String at(JsonLocation where) {
+        return where == null || where.getLineNr() < 1 ? "" : " at line " + where.getLineNr() + ", column " + where.getColumnNr();
     }
 
-    private char peek() {
-        if (pos >= text.length) throw error("unexpected end of input");
-        return text[pos];
-    }
-
-    private void skipWhitespace() {
-        while (pos < text.length) {
-            char c = text[pos];
-            if (c != ' ' && c != '\t' && c != '\n' && c != '\r') return;
-            pos++;
-        }
-    }
-
-    private JsonException error(String message) {
-        return new JsonException(message + " at offset " + pos);
-    }
-
-    private static String printable(char c) {
-        return c < 0x20 || c > 0x7e ? String.format("\\u%04x", (int) c) : String.valueOf(c);
-    }
-
-    /** A payload that is not valid JSON. */
+    /** Text that is not (exactly one) valid JSON value. */
     public static final class JsonException extends RuntimeException {
         public JsonException(String message) {
             super(message);

@@ -4,7 +4,6 @@ import byre.config.PayloadFormat;
 import byre.config.SensorConfig;
 import byre.demo.LoadConfig;
 import byre.ingest.Decoded;
-import byre.ingest.JacksonPayloadDecoder;
 import byre.ingest.PayloadDecoder;
 import byre.testing.ByreProcess;
 import byre.units.Quantity;
@@ -18,21 +17,16 @@ import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
 import java.util.Locale;
-import java.util.Objects;
 
 /**
- * byre's payload decoding ({@link PayloadDecoder} on byre's own JSON reader) against the same job done with Jackson's
- * streaming parser ({@link JacksonPayloadDecoder}, with Jackson's default and its fast exact double reader), in
- * nanoseconds per payload (a benchmark, not a test). Payloads: the ingest benchmark's ({@link LoadConfig#payload}),
- * a flat object with more members, a nested object read by dotted paths, a SenML pack and, as a control where both
- * sides run the same code, a plain number. Every payload is first checked to decode to the same value, unit and time
- * both ways; a list of bad and odd inputs shows where the two readers disagree. Then, after a warm-up, rounds that
- * alternate the order of the three decoders; medians of the rounds.
- *
- * <p>The decision it serves: byre keeps its own JSON reader only if the library's extra time per payload is more than
- * 3 % of the time byre has per message at its ingest rate ({@code --rates}, messages/s, e.g. the README's QoS 0 and
- * QoS 1 figures). It runs itself twice as child JVMs: with the service's options from {@code systemd/byre.service}
- * (C1 only, as byre runs) and with the same options but the default JIT (C2), for reference.
+ * byre's payload decoding ({@link PayloadDecoder}, on Jackson's streaming parser through {@code byre.json.Json}) in
+ * nanoseconds and bytes allocated per payload (a benchmark, not a test), as a regression measure against the figures
+ * in the README's "JSON reader: own or library". Payloads: the ingest benchmark's ({@link LoadConfig#payload}), a flat
+ * object with more members, a nested object read by dotted paths, a SenML pack and, as a control without JSON, a plain
+ * number. Every payload is first checked to decode. Then, after a warm-up, rounds over the formats; medians of the
+ * rounds, and the decoding's share of byre's time per message at each ingest rate given ({@code --rates}, messages/s,
+ * e.g. the README's QoS 0 and QoS 1 figures). It runs itself twice as child JVMs: with the service's options from
+ * {@code systemd/byre.service} (C1 only, as byre runs) and with the same options but the default JIT (C2).
  *
  * <p>Run from the repository root (needs the test class path; {@code run.sh} builds it):
  * {@code mvn -q -B -o -pl daemon -am test-compile dependency:build-classpath -Dmdep.outputFile=target/bench.classpath
@@ -53,11 +47,6 @@ public final class JsonReaderBench {
         double meanBytes() {
             return payloads.stream().mapToInt(p -> p.bytes.length).average().orElse(0);
         }
-    }
-
-    @FunctionalInterface
-    private interface Decoder {
-        Decoded decode(SensorConfig sensor, byte[] payload, Instant arrival);
     }
 
     public static void main(String[] args) throws Exception {
@@ -99,76 +88,43 @@ public final class JsonReaderBench {
 
     private static void run(String label, int rounds, double[] rates) {
         List<Format> formats = corpus();
-        JacksonPayloadDecoder plain = new JacksonPayloadDecoder(false);
-        JacksonPayloadDecoder fast = new JacksonPayloadDecoder(true);
-        Decoder[] decoders = {PayloadDecoder::decode, plain::decode, fast::decode};
-        String[] names = {"byre", "Jackson", "Jackson fast doubles"};
-
         System.out.println();
         System.out.println("JVM: " + label);
-        System.out.println("Jackson core " + PackageVersion.VERSION + " (nesting limit "
-                + plain.factory().streamReadConstraints().getMaxNestingDepth() + "; byre's reader 32)");
-        for (Format f : formats) sameResults(f, decoders, names);
-        differences(plain);
+        System.out.println("Jackson core " + PackageVersion.VERSION);
+        for (Format f : formats) decodes(f);
 
         long[] counts = new long[formats.size()];
-        for (int w = 0; w < 3; w++) { // warm-up: the JIT compiles all three paths; the last pass sizes the stretches
+        for (int w = 0; w < 3; w++) { // warm-up: the JIT compiles the decoding; the last pass sizes the stretches
             for (int f = 0; f < formats.size(); f++) {
-                for (int d = 0; d < decoders.length; d++) {
-                    double ns = measure(formats.get(f), decoders[d], 20_000)[0];
-                    if (d == 0) counts[f] = Math.max(20_000, (long) (STRETCH_NS / ns));
-                }
+                double ns = measure(formats.get(f), 20_000)[0];
+                counts[f] = Math.max(20_000, (long) (STRETCH_NS / ns));
             }
         }
-        double[][][] ns = new double[formats.size()][decoders.length][rounds];
-        double[][][] bytes = new double[formats.size()][decoders.length][rounds];
+        double[][] ns = new double[formats.size()][rounds];
+        double[][] bytes = new double[formats.size()][rounds];
         for (int r = 0; r < rounds; r++) {
-            for (int f = 0; f < formats.size(); f++) {
-                for (int k = 0; k < decoders.length; k++) {
-                    int d = (k + r) % decoders.length; // each decoder goes first, second and third in turn
-                    double[] m = measure(formats.get(f), decoders[d], counts[f]);
-                    ns[f][d][r] = m[0];
-                    bytes[f][d][r] = m[1];
-                }
+            for (int k = 0; k < formats.size(); k++) {
+                int f = (k + r) % formats.size(); // each format first in turn
+                double[] m = measure(formats.get(f), counts[f]);
+                ns[f][r] = m[0];
+                bytes[f][r] = m[1];
             }
         }
 
-        System.out.printf(Locale.ROOT, "medians of %d rounds, ns per payload (ratio to byre: median of per-round ratios; B = bytes allocated per payload)%n", rounds);
-        System.out.printf(Locale.ROOT, "%-58s %7s %8s %6s %8s %6s  %s%n", "payload (mean size)", "byre", "Jackson", "ratio",
-                "J. fast", "ratio", "B byre / J. / J. fast");
-        double[][] extra = new double[formats.size()][2];
+        System.out.printf(Locale.ROOT, "medians of %d rounds: ns per payload (min..max of the rounds), bytes allocated per payload%n", rounds);
         for (int f = 0; f < formats.size(); f++) {
             Format format = formats.get(f);
-            double own = median(ns[f][0]);
-            double[] ratio = new double[2];
-            for (int j = 1; j <= 2; j++) {
-                double[] perRound = new double[rounds];
-                double[] diff = new double[rounds];
-                for (int r = 0; r < rounds; r++) {
-                    perRound[r] = ns[f][j][r] / ns[f][0][r];
-                    diff[r] = ns[f][j][r] - ns[f][0][r];
-                }
-                ratio[j - 1] = median(perRound);
-                extra[f][j - 1] = median(diff);
-            }
-            System.out.printf(Locale.ROOT, "%-58s %7.0f %8.0f %6.2f %8.0f %6.2f  %.0f / %.0f / %.0f%n",
-                    format.name + String.format(Locale.ROOT, " (%.0f B)", format.meanBytes()), own, median(ns[f][1]), ratio[0],
-                    median(ns[f][2]), ratio[1], median(bytes[f][0]), median(bytes[f][1]), median(bytes[f][2]));
+            double[] sorted = ns[f].clone();
+            Arrays.sort(sorted);
+            System.out.printf(Locale.ROOT, "  %-58s %6.0f ns (%.0f..%.0f) %6.0f B%n", format.name + String.format(Locale.ROOT, " (%.0f B)", format.meanBytes()),
+                    median(ns[f]), sorted[0], sorted[rounds - 1], median(bytes[f]));
         }
         for (double rate : rates) {
             double budgetNs = 1e9 / rate;
-            System.out.printf(Locale.ROOT, "Jackson's extra time (median per-round difference) as a share of byre's time per message at %,.0f msgs/s (%,.0f ns):%n",
-                    rate, budgetNs);
+            System.out.printf(Locale.ROOT, "decoding as a share of byre's time per message at %,.0f msgs/s (%,.0f ns):%n", rate, budgetNs);
             for (int f = 0; f < formats.size(); f++) {
-                System.out.printf(Locale.ROOT, "  %-50s %+5.0f ns = %+5.2f %%   fast doubles %+5.0f ns = %+5.2f %%%n", formats.get(f).name,
-                        extra[f][0], 100 * extra[f][0] / budgetNs, extra[f][1], 100 * extra[f][1] / budgetNs);
+                System.out.printf(Locale.ROOT, "  %-50s %5.2f %%%n", formats.get(f).name, 100 * median(ns[f]) / budgetNs);
             }
-        }
-        if (rates.length > 0) {
-            double highest = Arrays.stream(rates).max().getAsDouble();
-            double share = 100 * Math.min(extra[0][0], extra[0][1]) * highest / 1e9;
-            System.out.printf(Locale.ROOT, "rule (ingest payload, cheaper Jackson setting, %,.0f msgs/s): Jackson costs %.2f %% -> %s%n", highest, share,
-                    share > 3 ? "more than 3 %: keep byre's own reader" : "3 % or less: a library would do (the lead decides)");
         }
         System.out.println("(checksum " + (sink != 0) + ")");
     }
@@ -210,7 +166,7 @@ public final class JsonReaderBench {
         formats.add(new Format("flat, 5 members (json:v, time json:ts)", flat));
         formats.add(new Format("nested (json:sensor.temp.v, time json:meta.ts)", nested));
         formats.add(new Format("SenML pack of 3 records (senml:<name>)", senml));
-        formats.add(new Format("plain number (control: same code both ways)", number));
+        formats.add(new Format("plain number (control: no JSON)", number));
         return formats;
     }
 
@@ -228,73 +184,16 @@ public final class JsonReaderBench {
         return s.getBytes(StandardCharsets.UTF_8);
     }
 
-    /** Every decoder gives the same value (bit for bit), unit, time and verdict; else the timings would compare different work. */
-    private static void sameResults(Format format, Decoder[] decoders, String[] names) {
+    /** Every payload of the corpus decodes (a benchmark of rejections would measure something else). */
+    private static void decodes(Format format) {
         for (Payload p : format.payloads) {
-            Decoded own = decoders[0].decode(p.sensor, p.bytes, ARRIVAL);
-            if (!own.ok()) throw new IllegalStateException(format.name + ": byre rejects " + text(p.bytes) + ": " + own.detail());
-            for (int d = 1; d < decoders.length; d++) {
-                Decoded other = decoders[d].decode(p.sensor, p.bytes, ARRIVAL);
-                if (!same(own, other)) throw new IllegalStateException(format.name + ": " + names[d] + " gives " + other + " for " + text(p.bytes) + ", byre " + own);
-            }
+            Decoded d = PayloadDecoder.decode(p.sensor, p.bytes, ARRIVAL);
+            if (!d.ok()) throw new IllegalStateException(format.name + ": rejects " + new String(p.bytes, StandardCharsets.UTF_8) + ": " + d.detail());
         }
-    }
-
-    private static boolean same(Decoded a, Decoded b) {
-        return a.reject() == b.reject() && Double.doubleToRawLongBits(a.value()) == Double.doubleToRawLongBits(b.value())
-                && a.unit() == b.unit() && Objects.equals(a.payloadTime(), b.payloadTime());
-    }
-
-    /** Bad and odd payloads: prints those the two readers treat differently (not part of the timing). */
-    private static void differences(JacksonPayloadDecoder jackson) {
-        SensorConfig vTs = json("v", "ts");
-        SensorConfig deep = json("a.b", null);
-        SensorConfig pack = senml("rh", Quantity.RH, Unit.PERCENT);
-        String deepSkipped = "{\"x\":" + "[".repeat(40) + "]".repeat(40) + ",\"v\":1}";
-        String longNumber = "{\"v\":1" + "0".repeat(1100) + "}";
-        Object[][] cases = {
-            {vTs, "{\"v\":21.4,}"}, {vTs, "{\"v\":21.4} x"}, {vTs, "{\"v\":21.4}{\"v\":1}"}, {vTs, "{\"v\":01}"},
-            {vTs, "{\"v\":NaN}"}, {vTs, "{'v':1}"}, {vTs, "{\"v\":1 /* c */}"}, {vTs, "{\"v\":1e400}"},
-            {vTs, "{\"v\":\"21.4\"}"}, {vTs, "{\"v\":1,\"v\":2}"}, {vTs, "{\"v\":-0}"}, {vTs, "{\"v\":-0.0}"},
-            {vTs, "{\"v\":1,\"ts\":\"soon\"}"}, {vTs, "{\"v\":1,\"ts\":[1]}"}, {vTs, "{\"v\":{\"x\":1}}"}, {vTs, "{\"v\":[1,2}"},
-            {vTs, "{\"id\":\"a\u0001b\",\"v\":1}"}, {vTs, "{\"id\":\"a\\xb\",\"v\":1}"}, {vTs, "{\"id\":\"\\ud800\",\"v\":1}"},
-            {vTs, "\f{\"v\":1}"}, {vTs, "\uFEFF{\"v\":1}"}, {vTs, ""}, {vTs, "  "}, {vTs, "[1]"}, {vTs, "{\"v\":1"},
-            {vTs, deepSkipped}, {vTs, longNumber}, {deep, "{\"a\":{\"b\":1},\"a\":{\"c\":2}}"}, {deep, "{\"a\":[{\"b\":1}]}"},
-            {pack, "[{\"n\":\"rh\",\"v\":50},{\"n\":\"x\",\"v\":1},]"}, {pack, "[{\"n\":\"rh\",\"v\":50}] 1"}, {pack, "{\"n\":\"rh\"}"},
-            {pack, "[1,{\"n\":\"rh\",\"v\":50}]"}, {pack, "[{\"n\":\"rh\",\"v\":\"50\"}]"}, {pack, "[{\"n\":\"rh\",\"u\":\"Cel\",\"v\":50}]"},
-        };
-        List<String> differ = new ArrayList<>();
-        List<byte[]> payloads = new ArrayList<>();
-        for (Object[] c : cases) payloads.add(bytes((String) c[1]));
-        payloads.add(new byte[] {'{', '"', 'i', 'd', '"', ':', '"', (byte) 0xC3, '(', '"', ',', '"', 'v', '"', ':', '1', '}'});
-        for (int i = 0; i < payloads.size(); i++) {
-            SensorConfig sensor = i < cases.length ? (SensorConfig) cases[i][0] : vTs;
-            Decoded own = PayloadDecoder.decode(sensor, payloads.get(i), ARRIVAL);
-            Decoded other = jackson.decode(sensor, payloads.get(i), ARRIVAL);
-            if (!same(own, other)) {
-                differ.add(String.format(Locale.ROOT, "  %s %s: byre %s, Jackson %s", sensor.payload(), text(payloads.get(i)), verdict(own), verdict(other)));
-            }
-        }
-        System.out.printf(Locale.ROOT, "%d bad or odd payloads: %d decoded alike%s%n", payloads.size(), payloads.size() - differ.size(),
-                differ.isEmpty() ? "" : ", these differently:");
-        differ.forEach(System.out::println);
-    }
-
-    private static String verdict(Decoded d) {
-        return d.ok() ? "value " + d.value() : d.reject() + " (" + d.detail() + ")";
-    }
-
-    private static String text(byte[] b) {
-        String s = new String(b, StandardCharsets.UTF_8);
-        StringBuilder out = new StringBuilder();
-        for (char c : (s.length() > 60 ? s.substring(0, 60) + "..." : s).toCharArray()) {
-            out.append(c < 0x20 || c > 0x7e ? String.format(Locale.ROOT, "\\u%04x", (int) c) : String.valueOf(c));
-        }
-        return "'" + out + "'";
     }
 
     /** Decodes {@code count} payloads of the format in turn: ns per payload and bytes allocated per payload. */
-    private static double[] measure(Format format, Decoder decoder, long count) {
+    private static double[] measure(Format format, long count) {
         com.sun.management.ThreadMXBean threads = (com.sun.management.ThreadMXBean) ManagementFactory.getThreadMXBean();
         List<Payload> payloads = format.payloads;
         int size = payloads.size();
@@ -303,7 +202,7 @@ public final class JsonReaderBench {
         long start = System.nanoTime();
         for (long i = 0; i < count; i++) {
             Payload p = payloads.get((int) (i % size));
-            Decoded d = decoder.decode(p.sensor, p.bytes, ARRIVAL);
+            Decoded d = PayloadDecoder.decode(p.sensor, p.bytes, ARRIVAL);
             acc += Double.doubleToRawLongBits(d.value()) + (d.payloadTime() == null ? 0 : 1);
         }
         long ns = System.nanoTime() - start;

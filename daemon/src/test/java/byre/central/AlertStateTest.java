@@ -67,7 +67,7 @@ class AlertStateTest {
 
     @Test
     void aMalformedStateIsRefusedSayingWhy() {
-        assertEquals("it is not event JSON (unexpected end of input at offset 9)", refusal(TOPIC, "{\"value\":"));
+        assertEquals("it is not event JSON (Unexpected end-of-input within/between Object entries at line 1, column 10)", refusal(TOPIC, "{\"value\":"));
         assertEquals("an alert event must be a JSON object", refusal(TOPIC, "[1,2]"));
         assertEquals("unknown event kind 'opened'", refusal(TOPIC, state("i1", "opened", 5, 35)));
         assertEquals("a 'digest' event is not the state of an alert", refusal(TOPIC, state("i1", "digest", 5, 35)));
