@@ -42,6 +42,18 @@ public final class SiteEventLog implements AutoCloseable {
     private final long keepMs;
     private long lastPruneMs = Long.MIN_VALUE;
 
+    /**
+     * The sites' open alerts as the stored events tell them, read on {@code readOnly} (which stays the caller's): what
+     * {@code byre status} shows of the sites while the central daemon is down. Nothing learnt from alert states, which
+     * only the running daemon holds.
+     */
+    public static List<OpenAlert> storedOpenAlerts(Connection readOnly) throws SQLException {
+        try (ResultSet rs = readOnly.getMetaData().getTables(null, null, "site_event", null)) {
+            if (!rs.next()) return List.of();
+        }
+        return new SiteEventLog(readOnly, DEFAULT_KEEP).openAlerts(); // not closed: the connection is the caller's
+    }
+
     /** Uses (and closes) {@code conn}, a synced connection to the central history file; keeps events 14 days. */
     public SiteEventLog(Connection conn) throws SQLException {
         this(conn, DEFAULT_KEEP);

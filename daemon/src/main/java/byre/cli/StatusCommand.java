@@ -140,10 +140,23 @@ final class StatusCommand implements Callable<Integer> {
             from = "from the daemon";
         } else {
             alerts = alertsFromState(r.state(ALERT_STATE_KEY).get(ALERT_STATE_KEY));
+            if (cfg.central().enabled()) alerts = withSiteAlerts(alerts, r);
             from = alerts.isEmpty() && daemon.reachable() ? null : "from the database";
             if (!daemon.reachable()) from = "from the database; the daemon is not answering";
         }
         return new StatusData(daemon, zones, alerts, from, silent);
+    }
+
+    /** A central byre's own alerts and, from the stored events, its sites' open ones (the daemon is not answering). */
+    private static List<OpenAlert> withSiteAlerts(List<OpenAlert> own, HistoryReader r) {
+        try {
+            List<OpenAlert> all = new ArrayList<>(own);
+            all.addAll(byre.central.SiteEventLog.storedOpenAlerts(r.connection()));
+            return all;
+        } catch (java.sql.SQLException e) {
+            System.err.println("byre: cannot read the sites' events from the history: " + e.getMessage());
+            return own;
+        }
     }
 
     private static boolean isCentral(ByreConfig cfg, SensorConfig s) {

@@ -27,6 +27,14 @@ public final class HistoryReader implements AutoCloseable {
 
     private final Connection conn;
 
+    /**
+     * This reader's read-only connection, for a stage that keeps its own tables in the history file and reads them
+     * while the daemon is down (a central byre's site events). It stays this reader's: do not close it.
+     */
+    public Connection connection() {
+        return conn;
+    }
+
     HistoryReader(Connection conn) {
         this.conn = conn;
     }

@@ -120,4 +120,23 @@ class CentralCliTest {
     static OpenAlert alert(String incident, String zone) {
         return new OpenAlert(incident, "heat-stress", zone, "warning", "thi", 73.4, NOW, null, null);
     }
+
+    @Test
+    void statusWhileTheCentreIsDownShowsTheSitesOpenAlertsFromTheStoredEvents() throws Exception {
+        Path cfg = dir.resolve("central.yaml");
+        java.nio.file.Files.writeString(cfg, "site: hub\ncentral:\n  sites:\n    larkmoor: { zones: [cow-shed] }\n"
+                + "admin: { listen: 127.0.0.1:" + byre.mqtt.EmbeddedBroker.freePort("127.0.0.1") + " }\n"
+                + "history: { path: " + dir.resolve("h.db") + " }\n");
+        String raised = "{\"id\":\"e1\",\"incident\":\"i7\",\"event\":\"raised\",\"site\":\"larkmoor\",\"watch\":\"heat-stress\","
+                + "\"zone\":\"cow-shed\",\"level\":\"warning\",\"quantity\":\"thi\",\"value\":73.4,\"unit\":\"\","
+                + "\"since\":\"2026-07-14T13:05:00Z\",\"at\":\"2026-07-14T13:35:00Z\",\"message\":\"Heat stress\"}";
+        try (byre.history.HistoryStore store = byre.history.HistoryStore.open(dir.resolve("h.db"));
+             byre.central.SiteEventLog log = new byre.central.SiteEventLog(store.openSyncedConnection())) {
+            log.record("larkmoor", byre.alerts.AlertEvent.fromJson(raised), raised, Instant.now());
+        }
+        CliRun r = CliRun.of("status", "--config", cfg.toString(), "--site", "larkmoor", "--no-color");
+        assertEquals(Main.OK, r.code(), r.out() + r.err());
+        assertEquals(true, r.out().contains("heat-stress") && r.out().contains("larkmoor/cow-shed"), r.out());
+        assertEquals(true, r.out().contains("the daemon is not answering"), r.out());
+    }
 }
