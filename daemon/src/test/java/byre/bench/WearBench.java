@@ -129,9 +129,22 @@ public final class WearBench {
                 Sample byre0 = new Sample(byreDisk.bytes(), cpuS(byre.pid()), 0, (long) FootprintBench.metric(admin, "byre_history_commits"));
                 long[] dev0 = {w2.bytes(), w60.bytes()};
                 double[] cpu0 = {cpuS(minimal2), cpuS(minimal60)};
-                LoadMain.Result r = LoadMain.run(LoadMain.Options.parse("--broker", m.uri(), "--rate", String.valueOf(load.sensors / (double) load.everyS),
-                        "--sensors", String.valueOf(load.sensors), "--zones", String.valueOf(load.zones), "--duration", seconds + "s", "--qos", "1",
-                        "--client-id", "wear-load"), new PrintStream(java.io.OutputStream.nullOutputStream()));
+                java.util.concurrent.CompletableFuture<LoadMain.Result> running = java.util.concurrent.CompletableFuture.supplyAsync(() -> {
+                    try {
+                        return LoadMain.run(LoadMain.Options.parse("--broker", m.uri(), "--rate", String.valueOf(load.sensors / (double) load.everyS),
+                                "--sensors", String.valueOf(load.sensors), "--zones", String.valueOf(load.zones), "--duration", seconds + "s", "--qos", "1",
+                                "--client-id", "wear-load"), new PrintStream(java.io.OutputStream.nullOutputStream()));
+                    } catch (Exception e) {
+                        throw new IllegalStateException(e);
+                    }
+                });
+                // CPU over the second half of the load as well: byre's compiler has settled by then (steady state).
+                Thread.sleep(seconds * 500L);
+                double[] half = {cpuS(byre.pid()), cpuS(minimal2), cpuS(minimal60)};
+                long halfNanos = System.nanoTime();
+                LoadMain.Result r = running.get();
+                double[] end = {cpuS(byre.pid()), cpuS(minimal2), cpuS(minimal60)};
+                double halfMin = (System.nanoTime() - halfNanos) / 60e9;
                 Thread.sleep(4000); // the last commits of byre and of the 2 s writer
                 double byreCpu = cpuS(byre.pid()) - byre0.cpuS;
                 long byreRss = FootprintBench.rssKb(byre.pid());
@@ -158,6 +171,8 @@ public final class WearBench {
                         String.format(Locale.ROOT, "60 s writer: %.1f x", bytes[0] / Math.max(1, bytes[2]))});
                 table.add(row(what + "commits per reading", (double) byreCommits / readings, (double) c2 / readings, (double) c60 / readings, "%.3f"));
                 table.add(row(what + "CPU seconds per minute", byreCpu * perMin, cpu2 * perMin, cpu60 * perMin, "%.2f"));
+                table.add(row(what + "CPU seconds per minute, second half of the load", (end[0] - half[0]) / halfMin,
+                        (end[1] - half[1]) / halfMin, (end[2] - half[2]) / halfMin, "%.2f"));
                 table.add(row(what + "resident memory, MB (writer: python + mosquitto_sub)", byreRss / 1000.0, rss2 / 1000.0, rss60 / 1000.0, "%.1f"));
                 table.add(new String[] {what + "launch to first stored reading, s (seeded history)", String.format(Locale.ROOT, "%.2f", startupS), "", "", ""});
                 System.out.printf(Locale.ROOT, "%s: %d readings published in %.1f s (%d failed); byre exit %d; writers %s %s%n",
