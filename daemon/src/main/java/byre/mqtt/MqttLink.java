@@ -28,6 +28,7 @@ import org.eclipse.paho.client.mqttv3.MqttCallbackExtended;
 import org.eclipse.paho.client.mqttv3.MqttConnectOptions;
 import org.eclipse.paho.client.mqttv3.MqttException;
 import org.eclipse.paho.client.mqttv3.MqttMessage;
+import org.eclipse.paho.client.mqttv3.ScheduledExecutorPingSender;
 import org.eclipse.paho.client.mqttv3.persist.MemoryPersistence;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
@@ -66,6 +67,7 @@ public final class MqttLink implements AutoCloseable {
     private final List<Runnable> onConnect = new ArrayList<>();
     private final List<Runnable> onConnecting = new ArrayList<>();
     private final MqttAsyncClient client;
+    private final ClientThreads threads;
     /** Acknowledgements go out only on the connection that delivered their message. */
     private final AckGate acks;
     private final AtomicBoolean closing = new AtomicBoolean();
@@ -90,7 +92,9 @@ public final class MqttLink implements AutoCloseable {
         this.ticker = ticker;
         this.warnings = new RateLimitedLog(LOG, Duration.ofHours(1), ticker::nanos);
         this.statusTopic = settings.publishPrefix() + "/" + site + "/status";
-        this.client = new MqttAsyncClient(settings.connectUri(), settings.clientId(), new MemoryPersistence());
+        this.threads = new ClientThreads(settings.clientId());
+        this.client = new MqttAsyncClient(settings.connectUri(), settings.clientId(), new MemoryPersistence(),
+                new ScheduledExecutorPingSender(threads), threads);
         client.setCallback(new Callback());
         client.setManualAcks(true);
         this.acks = new AckGate(client::isConnected, client::messageArrivedComplete);
@@ -356,6 +360,7 @@ public final class MqttLink implements AutoCloseable {
         } catch (MqttException e) {
             LOG.debug("close: {}", e.toString());
         }
+        threads.shutdownNow();
         connected = false;
         quiet.lost(ticker.nanos());
         if (connector != null) {
