@@ -70,7 +70,11 @@ public final class WebhookChannel implements Channel {
     private final Map<String, String> headers;
     private final String secret;
     private final Duration timeout;
-    private final HttpClient client;
+    /**
+     * Made at the first delivery: building the JDK's client sets up TLS (reads the trust store) and starts a selector
+     * thread, a tenth of a second of byre's start-up and a thread, for a channel that may not send for weeks.
+     */
+    private HttpClient client;
 
     public WebhookChannel(String name, URI url, String template, Map<String, String> headers, String secret, Duration timeout) {
         this.name = name;
@@ -79,10 +83,21 @@ public final class WebhookChannel implements Channel {
         this.headers = Map.copyOf(headers);
         this.secret = secret;
         this.timeout = timeout;
-        // HTTP/1.1: the JDK's default (HTTP/2) asks a plain-http server to upgrade with "Upgrade: h2c", which some
-        // proxies and small servers reject; one short POST gains nothing from HTTP/2.
-        this.client = HttpClient.newBuilder().version(HttpClient.Version.HTTP_1_1).connectTimeout(timeout)
-                .followRedirects(HttpClient.Redirect.NEVER).build();
+    }
+
+    private synchronized HttpClient client() {
+        if (client == null) {
+            // HTTP/1.1: the JDK's default (HTTP/2) asks a plain-http server to upgrade with "Upgrade: h2c", which some
+            // proxies and small servers reject; one short POST gains nothing from HTTP/2.
+            client = HttpClient.newBuilder().version(HttpClient.Version.HTTP_1_1).connectTimeout(timeout)
+                    .followRedirects(HttpClient.Redirect.NEVER).build();
+        }
+        return client;
+    }
+
+    /** True once the HTTP client exists (after the first delivery). */
+    synchronized boolean clientMade() {
+        return client != null;
     }
 
     @Override
@@ -112,7 +127,7 @@ public final class WebhookChannel implements Channel {
         headers.forEach(rb::header);
         if (secret != null) rb.header(SIGNATURE_HEADER, "sha256=" + Hmac.sha256Hex(secret, body));
         try {
-            HttpResponse<String> r = client.send(rb.build(), HttpResponse.BodyHandlers.ofString());
+            HttpResponse<String> r = client().send(rb.build(), HttpResponse.BodyHandlers.ofString());
             if (r.statusCode() / 100 == 2) return DeliveryResult.success("HTTP " + r.statusCode());
             return DeliveryResult.failure(FailureReason.HTTP_STATUS,
                     "HTTP " + r.statusCode() + " from " + shown(url) + ": " + DeliveryResult.excerpt(r.body(), 200));

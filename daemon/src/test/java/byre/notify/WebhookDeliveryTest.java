@@ -106,6 +106,17 @@ class WebhookDeliveryTest {
     }
 
     @Test
+    void theHttpClientIsMadeAtTheFirstDeliveryNotAtStartUp() {
+        // Building the JDK's client reads the trust store and starts a thread: start-up should not wait for it.
+        WebhookChannel hook = new WebhookChannel("night-phone", receiver.url(), null, Map.of(), null, Duration.ofSeconds(2));
+        assertFalse(hook.clientMade());
+        assertTrue(hook.deliver(new AlertEvent("e1", "i1", EventKind.TEST, "larkmoor", "notify-test", "byre", "info", null, Double.NaN, null,
+                T0, T0, "test", null, List.of(), List.of())).ok());
+        assertTrue(hook.clientMade());
+        assertEquals(1, receiver.requests().size());
+    }
+
+    @Test
     void postsOverPlainHttp11WithoutAnH2cUpgrade() throws Exception {
         service = service(receiver.url(), Duration.ofSeconds(2));
         service.accept(raise("cows"));
