@@ -130,7 +130,8 @@ public final class Daemon implements AutoCloseable {
                 mqtt = mqtt.withBroker("embedded", broker.ownPort());
             }
             link = new MqttLink(mqtt, config.site(), registry, ticker);
-            quietLimit = QuietLimit.of(running, ReportingIntervals.fromHistory(running, clock.instant()));
+            // The intervals the rule loader learnt a moment ago: reading the history twice would cost start-up its time again.
+            quietLimit = QuietLimit.of(running, ReportingIntervals.byZone(running, rules.intervals()));
             publisher = new ZoneStreamPublisher(link, config.mqtt().publishPrefix(), config.site(), config.mqtt().publishEvery());
             if (sites.enabled()) {
                 // The centre does not send the sites' streams back out under its own name.

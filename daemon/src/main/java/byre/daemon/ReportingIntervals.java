@@ -32,11 +32,6 @@ public final class ReportingIntervals {
 
     private ReportingIntervals() {}
 
-    /** Intervals keyed by zone, then quantity; empty when there is no history database. */
-    public static Map<String, Map<Quantity, Duration>> fromHistory(ByreConfig config, Instant now) {
-        return byZone(config, sensorsFromHistory(config, now));
-    }
-
     /** Each configured sensor's median gap over the last day; sensors with too few readings are left out. */
     public static Map<String, Duration> sensorsFromHistory(ByreConfig config, Instant now) {
         if (!Files.isRegularFile(config.history().path())) return Map.of();

@@ -26,6 +26,7 @@ final class RuleLoader {
     private final java.time.Clock clock;
     private String fingerprint = "";
     private volatile ByreConfig effective;
+    private volatile Map<String, Duration> intervals = Map.of();
     private List<String> loggedWarnings = List.of();
 
     RuleLoader(ByreConfig config, java.time.Clock clock) {
@@ -54,6 +55,11 @@ final class RuleLoader {
     /** The configuration with the max-ages of the last load (learnt ones filled in); safe to read on any thread. */
     ByreConfig effective() {
         return effective;
+    }
+
+    /** Each sensor's reporting interval as the last {@link #load()} learnt it from the history (empty before). */
+    Map<String, Duration> intervals() {
+        return intervals;
     }
 
     /** True while a zone without a max-age of its own still has the fixed default (nothing learnt yet). */
@@ -89,6 +95,7 @@ final class RuleLoader {
     Optional<RuleSet> load() {
         fingerprint = RuleFiles.fingerprint(paths());
         Map<String, Duration> intervals = ReportingIntervals.sensorsFromHistory(config, clock.instant());
+        this.intervals = intervals;
         ByreConfig learnt = Freshness.resolve(config, intervals);
         List<String> warnings = Freshness.warnings(learnt, intervals);
         if (!warnings.equals(loggedWarnings)) warnings.forEach(LOG::warn); // once, not at every reload
