@@ -45,7 +45,12 @@ public final class Dispatcher implements AutoCloseable {
     private final NotifyMetrics metrics;
     private final Map<String, Instant> failingSince = new ConcurrentHashMap<>();
     private final Map<String, String> lastFailure = new ConcurrentHashMap<>();
-    private final Map<String, Object> locks = new HashMap<>();
+    /** Per channel: its thread waits here, and a wake that came while it was busy is remembered. */
+    private final Map<String, Wakeup> locks = new HashMap<>();
+
+    private static final class Wakeup {
+        boolean pending;
+    }
     private final List<Thread> threads = new ArrayList<>();
     private volatile boolean running;
 
@@ -59,7 +64,7 @@ public final class Dispatcher implements AutoCloseable {
         this.ids = ids;
         this.site = site;
         this.metrics = metrics;
-        for (String c : channels.keySet()) locks.put(c, new Object());
+        for (String c : channels.keySet()) locks.put(c, new Wakeup());
     }
 
     /** Starts one delivery thread per channel; undelivered rows from before a restart go first. */
@@ -83,9 +88,10 @@ public final class Dispatcher implements AutoCloseable {
 
     /** Wakes the delivery threads (call after new rows were committed). */
     public void wake() {
-        for (Object l : locks.values()) {
-            synchronized (l) {
-                l.notifyAll();
+        for (Wakeup w : locks.values()) {
+            synchronized (w) {
+                w.pending = true;
+                w.notifyAll();
             }
         }
     }
@@ -107,12 +113,18 @@ public final class Dispatcher implements AutoCloseable {
     }
 
     private void loop(String name) {
-        Object lock = locks.get(name);
+        Wakeup lock = locks.get(name);
         while (running) {
+            synchronized (lock) {
+                lock.pending = false; // from here on a wake means: look again
+            }
             Instant next = pass(name);
             long waitMs = next == null ? IDLE_WAIT_MS : Math.max(1, Duration.between(clock.instant(), next).toMillis());
             synchronized (lock) {
                 if (!running) break;
+                // Woken while the pass ran (an event committed after it had looked): without this the event would
+                // wait for the next wake or the idle timeout, 30 s.
+                if (lock.pending) continue;
                 try {
                     lock.wait(Math.min(waitMs, IDLE_WAIT_MS));
                 } catch (InterruptedException e) {
