@@ -5,14 +5,16 @@ import java.io.UncheckedIOException;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.ArrayList;
+import java.util.LinkedHashMap;
 import java.util.List;
+import java.util.Map;
 import java.util.concurrent.TimeUnit;
 import java.util.regex.Matcher;
 import java.util.regex.Pattern;
 
 /**
  * byre as its own JVM ({@code byre.cli.Main run --config F}) on this JVM's class path, with the JVM options
- * of the systemd unit, so that it can be killed with SIGKILL like a real crash or measured from outside
+ * and environment of the systemd unit, so that it can be killed with SIGKILL like a real crash or measured from outside
  * (/proc/PID/status). Output goes to a log file next to the configuration.
  */
 public final class ByreProcess implements AutoCloseable {
@@ -21,18 +23,41 @@ public final class ByreProcess implements AutoCloseable {
      * tests and benchmarks run byre as it runs in a barn (C1 only, a 64 MB serial-GC heap, ...).
      */
     public static final List<String> SERVICE_JVM_OPTIONS = serviceJvmOptions();
+    /**
+     * The other variables the unit sets ({@code Environment=NAME=value}, e.g. the C library's allocator settings), so that
+     * byre's memory is measured as the service's would be.
+     */
+    public static final Map<String, String> SERVICE_ENVIRONMENT = serviceEnvironment();
 
     static List<String> serviceJvmOptions() {
-        Pattern opts = Pattern.compile("(?m)^Environment=\"BYRE_JAVA_OPTS=([^\"]*)\"");
+        String opts = unitEnvironment().get("BYRE_JAVA_OPTS");
+        if (opts == null) throw new IllegalStateException("systemd/byre.service sets no BYRE_JAVA_OPTS");
+        return List.of(opts.trim().split("\\s+"));
+    }
+
+    static Map<String, String> serviceEnvironment() {
+        Map<String, String> env = new LinkedHashMap<>(unitEnvironment());
+        env.remove("BYRE_JAVA_OPTS");
+        return Map.copyOf(env);
+    }
+
+    /** Every {@code Environment=} assignment of the unit file, quoted ({@code "NAME=value"}) or not. */
+    static Map<String, String> unitEnvironment() {
+        Pattern line = Pattern.compile("(?m)^Environment=(?:\"([^\"]*)\"|(\\S+))\\s*$");
         for (Path unit : List.of(Path.of("systemd", "byre.service"), Path.of("..", "systemd", "byre.service"))) {
             if (!Files.isRegularFile(unit)) continue;
+            Map<String, String> out = new LinkedHashMap<>();
             try {
-                Matcher m = opts.matcher(Files.readString(unit));
-                if (m.find()) return List.of(m.group(1).trim().split("\\s+"));
+                Matcher m = line.matcher(Files.readString(unit));
+                while (m.find()) {
+                    String assignment = m.group(1) != null ? m.group(1) : m.group(2);
+                    int eq = assignment.indexOf('=');
+                    if (eq > 0) out.put(assignment.substring(0, eq), assignment.substring(eq + 1));
+                }
             } catch (IOException e) {
                 throw new UncheckedIOException(e);
             }
-            throw new IllegalStateException(unit + " sets no BYRE_JAVA_OPTS");
+            return out;
         }
         throw new IllegalStateException("systemd/byre.service not found from " + Path.of("").toAbsolutePath());
     }
@@ -61,7 +86,9 @@ public final class ByreProcess implements AutoCloseable {
         cmd.add(config.toString());
         Path log = config.resolveSibling("byre-" + System.nanoTime() + ".log");
         long t0 = System.nanoTime();
-        Process p = new ProcessBuilder(cmd).redirectErrorStream(true).redirectOutput(log.toFile()).start();
+        ProcessBuilder pb = new ProcessBuilder(cmd).redirectErrorStream(true).redirectOutput(log.toFile());
+        pb.environment().putAll(SERVICE_ENVIRONMENT);
+        Process p = pb.start();
         return new ByreProcess(p, log, t0);
     }
 
