@@ -66,7 +66,8 @@ class PackageIT {
                 "drwxr-xr-x root/root .* \\./etc/byre/rules\\.d/", "-rw-r--r-- root/root .* \\./etc/byre/rules\\.d/[a-z-]+\\.rules",
                 "drwxr-xr-x root/root .* \\./var/lib/byre/", "-rwxr-xr-x root/root .* \\./usr/sbin/byre-broker",
                 "-rw-r--r-- root/root .* \\./usr/share/byre/mosquitto-bridge\\.conf",
-                "-rw-r--r-- root/root .* \\./usr/share/byre/mosquitto-barn\\.conf")) {
+                "-rw-r--r-- root/root .* \\./usr/share/byre/mosquitto-barn\\.conf",
+                "-rwxr-xr-x root/root .* \\./usr/lib/byre/class-archive", "-rw-r--r-- root/root .* \\./usr/share/byre/byre\\.classlist")) {
             assertTrue(contents.out().lines().anyMatch(l -> l.matches(expected)), expected + " in\n" + contents.out());
         }
 
@@ -88,6 +89,7 @@ class PackageIT {
         assertTrue(!postinst.contains("/etc/mosquitto/conf.d"), "installing byre never changes the farm's mosquitto by itself");
         String postrm = Files.readString(control.resolve("postrm"));
         assertTrue(postrm.contains("rm -f /etc/mosquitto/conf.d/byre.conf") && postrm.contains("rm -rf /etc/mosquitto/byre"), postrm);
+        assertTrue(postrm.contains("rm -rf /var/cache/byre"), "purge removes the class-data sharing archive\n" + postrm);
 
         // The packaged jar is the one that runs.
         Path data = dir.resolve("data");
@@ -109,6 +111,7 @@ class PackageIT {
         assertEquals(0, exec(dir, "dpkg-deb", "-x", deb().toString(), data.toString()).code());
         cmd.add(data.resolve("usr/bin/byre").toString());
         cmd.add(data.resolve("usr/sbin/byre-broker").toString());
+        cmd.add(data.resolve("usr/lib/byre/class-archive").toString());
         Result r = exec(dir, cmd.toArray(String[]::new));
         assertEquals(0, r.code(), "shellcheck findings:\n" + r.out());
     }
@@ -122,16 +125,79 @@ class PackageIT {
         stub.toFile().setExecutable(true);
         String unit = Files.readString(root().resolve("systemd/byre.service"));
         assertTrue(unit.contains("ExecStart=/usr/bin/byre run --config /etc/byre/byre.yaml"), unit);
+        assertTrue(unit.contains("ExecStartPre=-/usr/lib/byre/class-archive /var/cache/byre/byre.jsa"), unit);
+        assertTrue(byre.testing.ByreProcess.SERVICE_JVM_OPTIONS.contains("-XX:SharedArchiveFile=/var/cache/byre/byre.jsa"),
+                "the JVM maps the archive the script makes: " + byre.testing.ByreProcess.SERVICE_JVM_OPTIONS);
+        assertEquals("2", byre.testing.ByreProcess.SERVICE_ENVIRONMENT.get("MALLOC_ARENA_MAX"), "tests and benchmarks run byre with the unit's environment");
         Path copy = dir.resolve("byre.service");
-        Files.writeString(copy, unit.replace("ExecStart=/usr/bin/byre ", "ExecStart=" + stub + " "));
+        Files.writeString(copy, unit.replace("ExecStart=/usr/bin/byre ", "ExecStart=" + stub + " ")
+                .replace("ExecStartPre=-/usr/lib/byre/class-archive ", "ExecStartPre=-" + stub + " "));
         Result r = exec(dir, "systemd-analyze", "verify", copy.toString());
         assertEquals(0, r.code(), "systemd-analyze verify:\n" + r.out());
         assertEquals("", r.out().strip(), "no warnings from systemd-analyze verify");
         for (String line : List.of("User=byre", "Restart=on-failure", "NoNewPrivileges=yes", "ProtectSystem=strict",
-                "ReadWritePaths=/var/lib/byre", "ProtectHome=yes", "PrivateTmp=yes", "MemoryMax=256M", "WatchdogSec=",
+                "ReadWritePaths=/var/lib/byre", "CacheDirectory=byre", "ProtectHome=yes", "PrivateTmp=yes", "MemoryMax=256M", "WatchdogSec=",
+                "Environment=MALLOC_ARENA_MAX=2",
                 "ExecReload=/bin/kill -HUP $MAINPID")) {
             assertTrue(unit.contains(line), line);
         }
+    }
+
+    /**
+     * The packaged class-archive script with the packaged jar and class list: it makes an archive the JVM accepts (with
+     * -Xshare:on an archive that does not fit is an error, not a silent fallback) and from which byre's classes are
+     * mapped, with the unit's JVM options; it leaves a fitting archive alone, and remakes it when the jar changes.
+     */
+    @Test
+    void theClassArchiveScriptMakesAnArchiveTheJvmMapsAndRemakesItWhenTheJarChanges() throws Exception {
+        Path data = dir.resolve("data");
+        assertEquals(0, exec(dir, "dpkg-deb", "-x", deb().toString(), data.toString()).code());
+        Path jar = data.resolve("usr/share/byre/byre.jar");
+        Path list = data.resolve("usr/share/byre/byre.classlist");
+        List<String> classes = Files.readAllLines(list);
+        for (String c : List.of("byre/cli/Main", "byre/daemon/Daemon", "byre/history/BatchLoop", "org/sqlite/JDBC",
+                "org/eclipse/paho/client/mqttv3/MqttAsyncClient", "io/micrometer/prometheusmetrics/PrometheusMeterRegistry")) {
+            assertTrue(classes.stream().anyMatch(l -> l.equals(c) || l.startsWith(c + " ")), c + " in the class list");
+        }
+        assertTrue(classes.stream().noneMatch(l -> l.startsWith("io/moquette/")), "the embedded broker of the training is not in the list");
+        Path archive = dir.resolve("cache/byre.jsa");
+        String opts = String.join(" ", byre.testing.ByreProcess.SERVICE_JVM_OPTIONS).replaceAll("-XX:SharedArchiveFile=\\S+", "-XX:SharedArchiveFile=" + archive);
+        Result made = archiveScript(data, archive, opts);
+        assertEquals(0, made.code(), made.out());
+        assertTrue(made.out().contains("made " + archive), made.out());
+        assertTrue(Files.size(archive) > 1_000_000, "an archive of some size");
+
+        List<String> run = new ArrayList<>(List.of(Path.of(System.getProperty("java.home"), "bin", "java").toString()));
+        run.addAll(List.of(opts.split(" ")));
+        run.addAll(List.of("-Xshare:on", "-Xlog:class+load=info", "-jar", jar.toString(), "--version"));
+        Result version = exec(dir, run.toArray(String[]::new));
+        assertEquals(0, version.code(), version.out());
+        assertTrue(version.out().lines().anyMatch(l -> l.matches(".* byre\\.cli\\.Main source: shared objects file.*")),
+                "byre's classes come from the archive");
+
+        long made1 = Files.getLastModifiedTime(archive).toMillis();
+        Result again = archiveScript(data, archive, opts);
+        assertEquals(0, again.code(), again.out());
+        assertEquals("", again.out().strip(), "an archive that fits is left alone");
+        assertEquals(made1, Files.getLastModifiedTime(archive).toMillis());
+
+        Files.setLastModifiedTime(jar, java.nio.file.attribute.FileTime.fromMillis(Files.getLastModifiedTime(jar).toMillis() - 60_000));
+        Result remade = archiveScript(data, archive, opts);
+        assertTrue(remade.out().contains("made " + archive), "a changed jar gets a new archive\n" + remade.out());
+        assertEquals(0, exec(dir, run.toArray(String[]::new)).code(), "and the JVM takes it");
+    }
+
+    Result archiveScript(Path data, Path archive, String opts) throws Exception {
+        ProcessBuilder pb = new ProcessBuilder(data.resolve("usr/lib/byre/class-archive").toString(), archive.toString())
+                .redirectErrorStream(true).directory(dir.toFile()).redirectInput(ProcessBuilder.Redirect.from(new java.io.File("/dev/null")));
+        pb.environment().put("BYRE_JAR", data.resolve("usr/share/byre/byre.jar").toString());
+        pb.environment().put("BYRE_CLASSLIST", data.resolve("usr/share/byre/byre.classlist").toString());
+        pb.environment().put("JAVA_HOME", System.getProperty("java.home"));
+        pb.environment().put("BYRE_JAVA_OPTS", opts);
+        Process p = pb.start();
+        String out = new String(p.getInputStream().readAllBytes(), StandardCharsets.UTF_8);
+        assertTrue(p.waitFor(120, TimeUnit.SECONDS), "class-archive did not finish");
+        return new Result(p.exitValue(), out);
     }
 
     /** Runs the packaged byre-broker on folders of the test's (the BYRE_MOSQUITTO_* variables), never on this machine's mosquitto. */
