@@ -7,13 +7,9 @@ final class Sparkline {
     private Sparkline() {}
 
     static String draw(double[] values) {
-        double lo = Double.POSITIVE_INFINITY;
-        double hi = Double.NEGATIVE_INFINITY;
-        for (double v : values) {
-            if (Double.isNaN(v)) continue;
-            lo = Math.min(lo, v);
-            hi = Math.max(hi, v);
-        }
+        byre.history.Extent extent = byre.history.Extent.of(values);
+        double lo = extent.lo();
+        double hi = extent.hi();
         StringBuilder sb = new StringBuilder(values.length);
         for (double v : values) {
             if (Double.isNaN(v)) {

@@ -158,13 +158,9 @@ final class StatusScreen {
     }
 
     private static String range(double[] t, Unit u) {
-        double lo = Double.POSITIVE_INFINITY;
-        double hi = Double.NEGATIVE_INFINITY;
-        for (double v : t) {
-            if (Double.isNaN(v)) continue;
-            lo = Math.min(lo, v);
-            hi = Math.max(hi, v);
-        }
+        byre.history.Extent extent = byre.history.Extent.of(t);
+        double lo = extent.lo();
+        double hi = extent.hi();
         if (lo > hi) return "";
         return CalcCommand.fmt(u.fromCanonical(lo), 1) + ".." + CalcCommand.fmt(u.fromCanonical(hi), 1);
     }

@@ -272,13 +272,9 @@ final class BarnPageHtml {
     /** One quantity's 24 hours as an inline SVG line (gaps where nothing was stored), THI over its band colours. */
     static void trend(StringBuilder sb, Quantity q, double[] cells, boolean us) {
         Unit u = displayUnit(q, us);
-        double lo = Double.POSITIVE_INFINITY;
-        double hi = Double.NEGATIVE_INFINITY;
-        for (double c : cells) {
-            if (Double.isNaN(c)) continue;
-            lo = Math.min(lo, c);
-            hi = Math.max(hi, c);
-        }
+        byre.history.Extent extent = byre.history.Extent.of(cells);
+        double lo = extent.lo();
+        double hi = extent.hi();
         if (lo > hi) return;
         String range = number(u.fromCanonical(lo), q, u) + " to " + number(u.fromCanonical(hi), q, u) + unitSuffix(u);
         double pad = Math.max((hi - lo) * 0.1, q == Quantity.THI ? 1 : 0.5);
