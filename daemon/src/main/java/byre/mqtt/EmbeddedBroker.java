@@ -216,14 +216,16 @@ public final class EmbeddedBroker implements AutoCloseable {
 
         @Override
         public boolean canWrite(Topic topic, String user, String client) {
-            String t = topic.toString();
-            if (validTopic(t)) return true;
-            refuse(t, client);
-            return false;
+            return allowed(topic, client);
         }
 
         @Override
         public boolean canRead(Topic topic, String user, String client) {
+            return allowed(topic, client);
+        }
+
+        /** The same check for publishing and subscribing: a bad topic is refused and its client disconnected. */
+        private boolean allowed(Topic topic, String client) {
             String t = topic.toString();
             if (validTopic(t)) return true;
             refuse(t, client);

@@ -20,19 +20,22 @@ class CheckCommandTest {
     @TempDir
     Path dir;
 
+    /** A cow shed with a dry bulb and RH, one channel, rules in rules.d (also used by {@code CheckLimitsTest}). */
+    static final String COW_SHED = """
+            site: larkmoor
+            sensors:
+              shed-dry: { topic: t/dry, quantity: dry-bulb }
+              shed-rh: { topic: t/rh, quantity: rh }
+            zones:
+              cow-shed: { groups: [cows], sensors: [shed-dry, shed-rh] }
+            notify:
+              office: { type: command, argv: [/bin/true] }
+            rules: rules.d
+            history: { path: history.db }
+            """;
+
     Path config() throws Exception {
-        return Files.writeString(dir.resolve("byre.yaml"), """
-                site: larkmoor
-                sensors:
-                  shed-dry: { topic: t/dry, quantity: dry-bulb }
-                  shed-rh: { topic: t/rh, quantity: rh }
-                zones:
-                  cow-shed: { groups: [cows], sensors: [shed-dry, shed-rh] }
-                notify:
-                  office: { type: command, argv: [/bin/true] }
-                rules: rules.d
-                history: { path: history.db }
-                """);
+        return Files.writeString(dir.resolve("byre.yaml"), COW_SHED);
     }
 
     @Test

@@ -18,18 +18,7 @@ class CheckLimitsTest {
         Files.createDirectories(dir.resolve("rules.d"));
         Files.writeString(dir.resolve("rules.d/heat.rules"),
                 "watch heat\n  raise when cow-shed.thi >= 72 for 30m\n  clear when cow-shed.thi <= 70 for 20m\n  notify office\n");
-        return Files.writeString(dir.resolve("byre.yaml"), """
-                site: larkmoor
-                sensors:
-                  shed-dry: { topic: t/dry, quantity: dry-bulb }
-                  shed-rh: { topic: t/rh, quantity: rh }
-                zones:
-                  cow-shed: { groups: [cows], sensors: [shed-dry, shed-rh] }
-                notify:
-                  office: { type: command, argv: [/bin/true] }
-                rules: rules.d
-                history: { path: history.db }
-                """ + extra);
+        return Files.writeString(dir.resolve("byre.yaml"), CheckCommandTest.COW_SHED + extra);
     }
 
     @Test
