@@ -43,9 +43,7 @@ public final class Pipeline implements AutoCloseable {
     static final int MAX_WAITING = 50_000;
     /** The time-driven parts run this often. */
     private static final long TICK_MILLIS = 250;
-    /** A batch within this time of the previous one means a burst ... */
-    private static final long BUSY_NANOS = TimeUnit.MILLISECONDS.toNanos(100);
-    /** ... and then readings gather this long before the thread takes them. */
+    /** In a burst (see {@link BurstGauge}) readings gather this long before the thread takes them. */
     private static final long GATHER_NANOS = TimeUnit.MILLISECONDS.toNanos(2);
 
     /** A stage that consumes zone streams and may also act on the passing of time. */
@@ -148,7 +146,7 @@ public final class Pipeline implements AutoCloseable {
 
     private void loop() {
         Instant lastTick = Instant.MIN;
-        long lastBatchNanos = System.nanoTime() - BUSY_NANOS;
+        BurstGauge burst = new BurstGauge();
         List<ZoneReading> batch = new ArrayList<>();
         while (!closed) {
             batch.clear();
@@ -165,7 +163,7 @@ public final class Pipeline implements AutoCloseable {
                     }
                 }
                 // In a burst, let readings gather for a moment: one wake-up per batch, not one per reading.
-                if (woken && System.nanoTime() - lastBatchNanos < BUSY_NANOS) LockSupport.parkNanos(GATHER_NANOS);
+                if (woken && burst.inBurst()) LockSupport.parkNanos(GATHER_NANOS);
                 synchronized (lock) {
                     now = clock.instant();
                     tickDue = tickDue(now, lastTick);
@@ -182,7 +180,7 @@ public final class Pipeline implements AutoCloseable {
                 break;
             }
             lastProgressNanos = ticker.nanos();
-            if (!batch.isEmpty()) lastBatchNanos = System.nanoTime();
+            if (!batch.isEmpty()) burst.batch(System.nanoTime(), batch.size());
             for (ZoneReading zr : batch) deliver(zr);
             if (tickDue) {
                 lastTick = now;
