@@ -120,16 +120,26 @@ public final class HistoryStore implements AutoCloseable {
         if (key == null || key.isEmpty()) throw new IllegalArgumentException("state key must not be empty");
         if (value == null) throw new IllegalArgumentException("state value for '" + key + "' must not be null (use deleteState)");
         synchronized (stateConn) {
-            try (PreparedStatement ps = stateConn.prepareStatement(
-                    "INSERT INTO state(key, value, updated) VALUES (?, ?, ?) "
-                    + "ON CONFLICT(key) DO UPDATE SET value = excluded.value, updated = excluded.updated")) {
-                ps.setString(1, key);
-                ps.setString(2, value);
-                ps.setLong(3, clock.millis());
-                ps.executeUpdate();
+            try {
+                writeState(stateConn, key, value, clock.millis());
             } catch (SQLException e) {
                 throw new HistoryException("history " + file + ": cannot save state '" + key + "': " + e.getMessage(), e);
             }
+        }
+    }
+
+    /**
+     * Stores {@code value} under {@code key} on {@code conn}, a connection to a history file, inside the caller's
+     * transaction if one is open: the alert outbox commits the incident state together with the events it caused.
+     */
+    public static void writeState(Connection conn, String key, String value, long updatedMs) throws SQLException {
+        try (PreparedStatement ps = conn.prepareStatement(
+                "INSERT INTO state(key, value, updated) VALUES (?, ?, ?) "
+                + "ON CONFLICT(key) DO UPDATE SET value = excluded.value, updated = excluded.updated")) {
+            ps.setString(1, key);
+            ps.setString(2, value);
+            ps.setLong(3, updatedMs);
+            ps.executeUpdate();
         }
     }
 

@@ -21,8 +21,9 @@ import org.slf4j.LoggerFactory;
 
 /**
  * Alerting as one piece: the incident book decides what to send, the outbox keeps it, the dispatcher delivers
- * it. Every event is committed to the outbox before this returns; the incident state is saved after each change
- * so a restart repeats nothing. Build it with {@link AlertServices#create}.
+ * it. Every event is committed to the outbox before this returns, in one transaction with the incident state it
+ * leaves (so a restart neither repeats nor loses it); a change without events saves the state alone. Build it with
+ * {@link AlertServices#create}.
  */
 public final class AlertService implements AckService, AutoCloseable {
     private static final Logger LOG = LoggerFactory.getLogger(AlertService.class);
@@ -179,10 +180,12 @@ public final class AlertService implements AckService, AutoCloseable {
         book.setText(book.text().withLinks(links));
     }
 
-    /** Commits events to the outbox, saves the incident state and wakes the dispatcher. */
+    /** Commits events to the outbox with the incident state and wakes the dispatcher; without events, saves the state. */
     void send(List<AlertEvent> events) {
-        saveState();
-        if (events.isEmpty()) return;
+        if (events.isEmpty()) {
+            saveState();
+            return;
+        }
         String all = everyEventTo;
         if (all != null) {
             events = events.stream().map(e -> {
@@ -207,9 +210,14 @@ public final class AlertService implements AckService, AutoCloseable {
     }
 
     private void enqueue(List<AlertEvent> events) {
+        String state = book.snapshot();
+        boolean stateChanged = !state.equals(lastSaved);
         try {
-            outbox.enqueue(events, clock.instant());
+            // The state rides in the events' transaction: one commit, not two, before the dispatcher is woken.
+            outbox.enqueue(events, clock.instant(), stateChanged ? STATE_KEY : null, state);
+            lastSaved = state;
         } catch (SQLException | RuntimeException e) {
+            saveState();
             // The outbox is unusable (disk full, read-only): alerting must still work, so try each channel once now.
             LOG.error("alert outbox cannot be written ({}); sending {} event(s) directly without retries", e.getMessage(), events.size());
             for (AlertEvent ev : events) {

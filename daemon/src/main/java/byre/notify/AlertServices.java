@@ -63,7 +63,10 @@ public final class AlertServices {
         return service;
     }
 
-    /** The same from parts (tests, benchmarks). */
+    /**
+     * The same from parts (tests, benchmarks). {@code saveState} and {@code loadState} are the state table of the
+     * outbox's file: the outbox itself commits the incident state together with the events it caused.
+     */
     public static AlertService assemble(String site, Map<String, Channel> channels, Map<String, ChannelFactory.Policy> policies,
                                         Outbox outbox, BiConsumer<String, String> saveState,
                                         Function<String, Map<String, String>> loadState, Clock clock, Random random,
