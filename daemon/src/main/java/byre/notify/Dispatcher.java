@@ -161,9 +161,9 @@ public final class Dispatcher implements AutoCloseable {
                 continue;
             }
             if (head.nextAt().isAfter(now)) return head.nextAt();
-            List<Instant> window = outbox.deliveredSince(name, now.minus(RATE_WINDOW));
-            int free = policy.perTenMinutes() - window.size();
-            if (free <= 0) return window.get(window.size() - 1).plus(RATE_WINDOW);
+            Outbox.Sent sent = outbox.sentSince(name, now.minus(RATE_WINDOW));
+            int free = policy.perTenMinutes() - sent.count();
+            if (free <= 0) return sent.oldest().plus(RATE_WINDOW);
             if (free == 1 && rows.size() > 1 && !EventKind.SUMMARY.id().equals(head.kind())) {
                 outbox.fold(name, rows, summary(name, rows, now), now);
                 metrics.folded(name, rows.size());

@@ -243,20 +243,27 @@ public final class Outbox implements AutoCloseable {
         }
     }
 
-    /** Messages delivered on a channel at or after {@code from} (a summary counts once), newest first. */
-    public List<Instant> deliveredSince(String channel, Instant from) throws SQLException {
-        List<Instant> out = new ArrayList<>();
+    /** How many messages a channel was sent in a window, and when the oldest of them went (null when none). */
+    public record Sent(int count, Instant oldest) {}
+
+    /**
+     * Messages delivered on a channel at or after {@code from} (a summary counts once), for the rate limit. Counted
+     * by SQLite: the dispatcher asks before every attempt, and listing a busy channel's window was the largest
+     * allocation on the way of an alert.
+     */
+    public Sent sentSince(String channel, Instant from) throws SQLException {
         synchronized (conn) {
             try (PreparedStatement ps = conn.prepareStatement(
-                    "SELECT done_at FROM outbox_delivery WHERE channel = ? AND state = 'delivered' AND done_at >= ? ORDER BY done_at DESC")) {
+                    "SELECT count(*), min(done_at) FROM outbox_delivery WHERE channel = ? AND state = 'delivered' AND done_at >= ?")) {
                 ps.setString(1, channel);
                 ps.setLong(2, from.toEpochMilli());
                 try (ResultSet rs = ps.executeQuery()) {
-                    while (rs.next()) out.add(Instant.ofEpochMilli(rs.getLong(1)));
+                    rs.next();
+                    int n = rs.getInt(1);
+                    return new Sent(n, n == 0 ? null : Instant.ofEpochMilli(rs.getLong(2)));
                 }
             }
         }
-        return out;
     }
 
     /** Pending deliveries over all channels. */
