@@ -26,7 +26,17 @@ public final class Outbox implements AutoCloseable {
 
     /** Uses (and closes) {@code conn}, a connection to a history file migrated to version 2 or later. */
     public Outbox(Connection conn) {
+        this(conn, byre.time.Ticker.SYSTEM);
+    }
+
+    /** {@code ticker} times how long a statement has waited for the file's write lock ({@link ShortBusyWait}). */
+    Outbox(Connection conn, byre.time.Ticker ticker) {
         this.conn = conn;
+        try {
+            ShortBusyWait.install(conn, ticker);
+        } catch (SQLException e) {
+            // The connection keeps the busy timeout it was opened with: slower to notice a released lock, no less safe.
+        }
     }
 
     /**
