@@ -161,7 +161,8 @@ public final class IngestBench {
             }
             if (!ingestOnly) {
                 System.out.println("alert latency phase ...");
-                AlertLatencyBench.rows(AlertLatencyBench.run(m, 100, Duration.ofSeconds(50)), table);
+                AlertLatencyBench.rows(AlertLatencyBench.run(m, AlertLatencyBench.DEFAULT_CYCLES,
+                        AlertLatencyBench.DEFAULT_WARMUP, Duration.ofSeconds(60)), table);
             }
         }
         if (!ingestOnly) {
