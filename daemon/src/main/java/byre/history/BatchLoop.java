@@ -60,6 +60,8 @@ final class BatchLoop implements Runnable {
     private long nextRetryNanos;
     private long retryDelayNanos = INITIAL_RETRY_NANOS;
     private long nextRetentionNanos;
+    /** {@link #batches} when the last retention round began. */
+    private long batchesAtLastRound = -1;
     /** Rows in the backlog whose callback waits for their commit. */
     private int pendingCallbacks;
 
@@ -328,6 +330,17 @@ final class BatchLoop implements Runnable {
         pendingCallbacks = 0;
     }
 
+    /**
+     * The alert outbox's connection leaves checkpoints to this one (it must not copy the log on an alert's commit), and
+     * this connection checkpoints only after its own commits past the limit. So when no batch was committed since the
+     * last retention round (no readings: sensors or broker down), the log is checkpointed here, passively: the outbox's
+     * commits cannot grow it without bound. While batches commit, this adds nothing to the writes.
+     */
+    private void checkpointIfIdle() throws SQLException {
+        if (batches == batchesAtLastRound) WriterTx.checkpointPassive(conn);
+        batchesAtLastRound = batches;
+    }
+
     private void maybePrune(long now) {
         if (!healthy) return;
         try {
@@ -335,6 +348,7 @@ final class BatchLoop implements Runnable {
                 if (!retentionRequested && now < nextRetentionNanos) return;
                 retentionRequested = false;
                 nextRetentionNanos = now + settings.retentionEvery().toNanos();
+                checkpointIfIdle();
                 pruner.begin(conn);
                 if (!pruner.active()) {
                     retentionRounds++;

@@ -21,6 +21,11 @@ final class WriterTx {
         exec(conn, "COMMIT");
     }
 
+    /** Copies what it can of the write-ahead log into the file without waiting for other connections. */
+    static void checkpointPassive(Connection conn) throws SQLException {
+        exec(conn, "PRAGMA wal_checkpoint(PASSIVE)");
+    }
+
     static void rollbackQuietly(Connection conn) {
         try {
             exec(conn, "ROLLBACK");

@@ -37,6 +37,14 @@ public final class Outbox implements AutoCloseable {
         } catch (SQLException e) {
             // The connection keeps the busy timeout it was opened with: slower to notice a released lock, no less safe.
         }
+        try (Statement st = conn.createStatement()) {
+            // Whichever connection commits past the write-ahead log's limit copies the whole log into the file (4000
+            // pages) before its commit returns; an alert's commit must not be that one. The history writer checkpoints
+            // instead (after its own commits past the limit, and after an idle retention interval).
+            st.execute("PRAGMA wal_autocheckpoint = 0");
+        } catch (SQLException e) {
+            // The connection then checkpoints now and then itself: slower for that one alert, no less safe.
+        }
     }
 
     /**
