@@ -223,7 +223,7 @@ public final class HistoryStore implements AutoCloseable {
         if (!readOnly) {
             // Every page a checkpoint copies is written twice (log, then file); copying less often writes each hot
             // page (a stream's newest) once for more commits. Set on every writing connection: whichever commits
-            // past the limit runs the checkpoint.
+            // past the limit runs the checkpoint. The alert outbox turns it off on its own (the writer checkpoints for it).
             try (Statement st = conn.createStatement()) {
                 st.execute("PRAGMA wal_autocheckpoint = " + WAL_CHECKPOINT_PAGES);
             }
