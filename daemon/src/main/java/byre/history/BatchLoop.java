@@ -32,6 +32,9 @@ final class BatchLoop implements Runnable {
     private static final Logger log = LoggerFactory.getLogger(HistoryWriter.class);
 
     private static final long INITIAL_RETRY_NANOS = TimeUnit.MILLISECONDS.toNanos(100);
+    /** At most this long the writer lets a waiting alert commit go first (the outbox gives up after as long). */
+    private static final long YIELD_LIMIT_NANOS = TimeUnit.MILLISECONDS.toNanos(HistoryStore.BUSY_TIMEOUT_MS);
+    private static final long YIELD_NAP_NANOS = TimeUnit.MICROSECONDS.toNanos(100);
     /** While a batch fills, the writer looks at its queue this often (a flush waits at most this much longer). */
     private static final long GATHER_NANOS = TimeUnit.MILLISECONDS.toNanos(20);
     /**
@@ -271,6 +274,7 @@ final class BatchLoop implements Runnable {
 
     private void commitBatch() {
         int n = Math.min(settings.batchRows(), backlog.size());
+        yieldTurn();
         long nowMs = clock.millis();
         long t0 = ticker.nanos();
         BatchInsert.Result result;
@@ -341,6 +345,18 @@ final class BatchLoop implements Runnable {
         batchesAtLastRound = batches;
     }
 
+    /**
+     * Before taking the write lock: while an alert's commit waits for it ({@link WriteTurn}), the writer waits, so that
+     * the alert does not wait behind this transaction too (and the next, in a burst). Between transactions, so the
+     * lock is free for it.
+     */
+    private void yieldTurn() {
+        WriteTurn turn = store.writeTurn();
+        if (!turn.anyWaiting()) return;
+        long until = ticker.nanos() + YIELD_LIMIT_NANOS;
+        while (turn.anyWaiting() && ticker.nanos() - until < 0) LockSupport.parkNanos(YIELD_NAP_NANOS);
+    }
+
     private void maybePrune(long now) {
         if (!healthy) return;
         try {
@@ -355,6 +371,7 @@ final class BatchLoop implements Runnable {
                     return;
                 }
             }
+            yieldTurn();
             int deleted = pruner.step(conn);
             retentionSteps++;
             retentionRowsDeleted += deleted;

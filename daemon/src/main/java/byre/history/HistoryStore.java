@@ -33,6 +33,7 @@ public final class HistoryStore implements AutoCloseable {
     private final Clock clock;
     private final Connection stateConn;
     private final int schemaVersion;
+    private final WriteTurn writeTurn = new WriteTurn();
 
     private HistoryStore(Path file, Clock clock, Connection stateConn, int schemaVersion) {
         this.file = file;
@@ -78,6 +79,9 @@ public final class HistoryStore implements AutoCloseable {
             throw e;
         }
     }
+
+    /** Where a connection that must not wait long for the write lock asks the history writer to let it go first. */
+    public WriteTurn writeTurn() { return writeTurn; }
 
     /** The database file (absolute). */
     public Path path() { return file; }

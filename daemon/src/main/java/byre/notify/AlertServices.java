@@ -55,7 +55,7 @@ public final class AlertServices {
             channels.put(eventsChannel, new MqttChannel(eventsChannel, eventsChannel, false, link, ChannelFactory.DEFAULT_TIMEOUT.toMillis()));
             policies.put(eventsChannel, new ChannelFactory.Policy(Integer.MAX_VALUE, ChannelFactory.DEFAULT_GIVE_UP));
         }
-        AlertService service = assemble(config.site(), channels, policies, new Outbox(store.openSyncedConnection()), store::putState,
+        AlertService service = assemble(config.site(), channels, policies, new Outbox(store.openSyncedConnection(), store.writeTurn()), store::putState,
                 prefix -> store.loadState(prefix), clock, new SecureRandom(), IdSource.random(), registry,
                 a.selfAlertNotify(), a.channelFailingAfter(), base + "/ack");
         if (eventsChannel != null) service.sendEveryEventTo(eventsChannel);

@@ -2,6 +2,7 @@ package byre.notify;
 
 import byre.alerts.AlertEvent;
 import byre.alerts.EventKind;
+import byre.history.WriteTurn;
 import java.sql.Connection;
 import java.sql.PreparedStatement;
 import java.sql.ResultSet;
@@ -23,20 +24,32 @@ public final class Outbox implements AutoCloseable {
                       Instant nextAt, String lastError) {}
 
     private final Connection conn;
+    /** Null when it could not be installed. */
+    private final ShortBusyWait busyWait;
 
     /** Uses (and closes) {@code conn}, a connection to a history file migrated to version 2 or later. */
     public Outbox(Connection conn) {
-        this(conn, byre.time.Ticker.SYSTEM);
+        this(conn, null);
+    }
+
+    /**
+     * As {@link #Outbox(Connection)}; an event's commit that has to wait for the file's write lock stands in
+     * {@code turn}, the history writer's ({@link byre.history.HistoryStore#writeTurn()}), which then lets it go first.
+     */
+    public Outbox(Connection conn, WriteTurn turn) {
+        this(conn, byre.time.Ticker.SYSTEM, turn);
     }
 
     /** {@code ticker} times how long a statement has waited for the file's write lock ({@link ShortBusyWait}). */
-    Outbox(Connection conn, byre.time.Ticker ticker) {
+    Outbox(Connection conn, byre.time.Ticker ticker, WriteTurn turn) {
         this.conn = conn;
+        ShortBusyWait w = null;
         try {
-            ShortBusyWait.install(conn, ticker);
+            w = ShortBusyWait.install(conn, ticker, turn);
         } catch (SQLException e) {
             // The connection keeps the busy timeout it was opened with: slower to notice a released lock, no less safe.
         }
+        this.busyWait = w;
         try (Statement st = conn.createStatement()) {
             // Whichever connection commits past the write-ahead log's limit copies the whole log into the file (4000
             // pages) before its commit returns; an alert's commit must not be that one. The history writer checkpoints
@@ -65,10 +78,15 @@ public final class Outbox implements AutoCloseable {
      */
     public int enqueue(List<AlertEvent> events, Instant now, String stateKey, String stateValue) throws SQLException {
         synchronized (conn) {
-            return inTransaction(() -> {
-                if (stateKey != null) byre.history.HistoryStore.writeState(conn, stateKey, stateValue, now.toEpochMilli());
-                return insertEvents(events, now);
-            });
+            if (busyWait != null) busyWait.urgent();
+            try {
+                return inTransaction(() -> {
+                    if (stateKey != null) byre.history.HistoryStore.writeState(conn, stateKey, stateValue, now.toEpochMilli());
+                    return insertEvents(events, now);
+                });
+            } finally {
+                if (busyWait != null) busyWait.done();
+            }
         }
     }
 

@@ -1,5 +1,6 @@
 package byre.notify;
 
+import byre.history.WriteTurn;
 import byre.time.Ticker;
 import java.sql.Connection;
 import java.sql.SQLException;
@@ -22,15 +23,36 @@ final class ShortBusyWait extends BusyHandler {
     private static final long MAX_NAP_NANOS = TimeUnit.MILLISECONDS.toNanos(1);
 
     private final Ticker ticker;
+    private final WriteTurn turn;
     private long firstNanos;
+    private boolean urgent;
+    private boolean inLine;
 
-    private ShortBusyWait(Ticker ticker) {
+    private ShortBusyWait(Ticker ticker, WriteTurn turn) {
         this.ticker = ticker;
+        this.turn = turn;
     }
 
-    /** Makes {@code conn} wait this way instead of with SQLite's busy timeout. */
-    static void install(Connection conn, Ticker ticker) throws SQLException {
-        BusyHandler.setHandler(conn, new ShortBusyWait(ticker));
+    /**
+     * Makes {@code conn} wait this way instead of with SQLite's busy timeout. While {@link #urgent()}, a wait also
+     * stands in {@code turn} (null: nowhere), so that the history writer lets it go first.
+     */
+    static ShortBusyWait install(Connection conn, Ticker ticker, WriteTurn turn) throws SQLException {
+        ShortBusyWait w = new ShortBusyWait(ticker, turn);
+        BusyHandler.setHandler(conn, w);
+        return w;
+    }
+
+    /** The statements until {@link #done()} are an alert's commit. */
+    void urgent() {
+        urgent = true;
+    }
+
+    /** The alert's commit has ended: leaves the writer's line if it stood in it. */
+    void done() {
+        if (inLine) turn.served();
+        inLine = false;
+        urgent = false;
     }
 
     @Override
@@ -38,6 +60,10 @@ final class ShortBusyWait extends BusyHandler {
         long now = ticker.nanos();
         if (triesBefore == 0) {
             firstNanos = now;
+            if (urgent && !inLine && turn != null) {
+                turn.waiting();
+                inLine = true;
+            }
         } else if (now - firstNanos >= LIMIT.toNanos()) {
             return 0;
         }

@@ -44,7 +44,7 @@ class ShortBusyWaitTest {
     void anEnqueueWaitsWhileAnotherConnectionWritesAndGoesOnOnceItCommits() throws Exception {
         Path db = dir.resolve("history.db");
         CountingTicker ticker = new CountingTicker(Duration.ZERO);
-        try (HistoryStore store = HistoryStore.open(db); Outbox outbox = new Outbox(store.openSyncedConnection(), ticker);
+        try (HistoryStore store = HistoryStore.open(db); Outbox outbox = new Outbox(store.openSyncedConnection(), ticker, null);
              Connection other = DriverManager.getConnection("jdbc:sqlite:" + db); Statement st = other.createStatement()) {
             st.execute("BEGIN IMMEDIATE"); // as the history writer's batch does
             CompletableFuture<Integer> enqueued = CompletableFuture.supplyAsync(() -> {
@@ -66,7 +66,7 @@ class ShortBusyWaitTest {
     void givesUpAfterTheLimitAsBusy() throws Exception {
         Path db = dir.resolve("history.db");
         CountingTicker ticker = new CountingTicker(Duration.ofSeconds(1));
-        try (HistoryStore store = HistoryStore.open(db); Outbox outbox = new Outbox(store.openSyncedConnection(), ticker);
+        try (HistoryStore store = HistoryStore.open(db); Outbox outbox = new Outbox(store.openSyncedConnection(), ticker, null);
              Connection other = DriverManager.getConnection("jdbc:sqlite:" + db); Statement st = other.createStatement()) {
             st.execute("BEGIN IMMEDIATE");
             SQLException e = assertThrows(SQLException.class,
