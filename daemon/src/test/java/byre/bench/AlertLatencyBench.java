@@ -31,7 +31,11 @@ import org.eclipse.paho.client.mqttv3.MqttMessage;
  * the {@code --cycles} after them (default {@value #DEFAULT_CYCLES}) as the steady state a barn lives in. The probe
  * channel's rate limit is raised for the bench ({@link BenchRules#PROBE_RATE_LIMIT}) so that more cycles fit.
  *
- * <p>Usage: {@code AlertLatencyBench [--cycles N] [--warmup N] [--seconds S]} (a bare number is {@code --cycles}).
+ * <p>{@code --background R} sets the background load to R readings a second in all (default 200, one a second per
+ * sensor): above a few thousand the history writer commits full batches back to back, as in a burst.
+ *
+ * <p>Usage: {@code AlertLatencyBench [--cycles N] [--warmup N] [--seconds S] [--background R]} (a bare number is
+ * {@code --cycles}).
  */
 public final class AlertLatencyBench {
     static final int SENSORS = 200;
@@ -50,23 +54,29 @@ public final class AlertLatencyBench {
                   long timeouts, long hookRequests) {}
 
     public static void main(String[] args) throws Exception {
-        int cycles = DEFAULT_CYCLES, warmup = DEFAULT_WARMUP, seconds = 120;
+        int cycles = DEFAULT_CYCLES, warmup = DEFAULT_WARMUP, seconds = 120, perS = SENSORS;
         for (int i = 0; i < args.length; i++) {
             switch (args[i]) {
                 case "--cycles" -> cycles = Integer.parseInt(args[++i]);
                 case "--warmup" -> warmup = Integer.parseInt(args[++i]);
                 case "--seconds" -> seconds = Integer.parseInt(args[++i]);
+                case "--background" -> perS = Integer.parseInt(args[++i]);
                 default -> cycles = Integer.parseInt(args[i]);
             }
         }
         try (Mosquitto m = Mosquitto.start()) {
             List<String[]> table = new ArrayList<>();
-            rows(run(m, cycles, warmup, Duration.ofSeconds(seconds)), table);
+            rows(run(m, cycles, warmup, Duration.ofSeconds(seconds), perS), table);
             IngestBench.print(table);
         }
     }
 
     static Result run(Mosquitto m, int cycles, int warmup, Duration bound) throws Exception {
+        return run(m, cycles, warmup, bound, SENSORS);
+    }
+
+    /** As above with {@code backgroundPerS} background readings a second. */
+    static Result run(Mosquitto m, int cycles, int warmup, Duration bound, int backgroundPerS) throws Exception {
         Path work = Files.createTempDirectory("byre-latency");
         Path rules = work.resolve("rules.d");
         BenchRules.write(rules, ZONES, true);
@@ -76,7 +86,7 @@ public final class AlertLatencyBench {
                     LoadConfig.yaml(SENSORS, ZONES, m.uri(), null, "bg", rules, work.resolve("history.db")), sink, true));
             ByreProcess byre = ByreProcess.launch(config, List.of());
             AtomicBoolean stop = new AtomicBoolean();
-            Thread background = new Thread(() -> background(m, stop), "bench-background");
+            Thread background = new Thread(() -> background(m, stop, backgroundPerS), "bench-background");
             try {
                 long until = System.nanoTime() + Duration.ofSeconds(30).toNanos();
                 while (!byre.log().contains("connected to MQTT broker") && System.nanoTime() < until) Thread.sleep(10);
@@ -135,15 +145,15 @@ public final class AlertLatencyBench {
         }
     }
 
-    /** 200 sensors, one reading a second each, spread over the second (QoS 1, sensors' own topics). */
-    static void background(Mosquitto m, AtomicBoolean stop) {
+    /** 200 sensors in turn, {@code perS} readings a second in all, evenly spread (QoS 1, sensors' own topics). */
+    static void background(Mosquitto m, AtomicBoolean stop, int perS) {
         try {
             MqttClient c = IngestBench.client(m.uri(), "bench-background");
             String[] topics = new String[SENSORS];
             for (int i = 0; i < SENSORS; i++) topics[i] = LoadConfig.topic("bg", i, SENSORS, ZONES);
             long start = System.nanoTime();
             for (long n = 0; !stop.get(); n++) {
-                long due = start + n * 1_000_000_000L / SENSORS;
+                long due = start + n * 1_000_000_000L / perS;
                 long now;
                 while ((now = System.nanoTime()) < due) TimeUnit.NANOSECONDS.sleep(due - now);
                 int i = (int) (n % SENSORS);
