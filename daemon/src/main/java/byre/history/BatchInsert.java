@@ -23,6 +23,9 @@ final class BatchInsert {
 
     private final Connection conn;
     private final OpenRollups rollups = new OpenRollups();
+    private final RunSealer sealer;
+    /** Rows the ten-minute write packs into runs at most; the rest goes in later steps ({@link #sealStep}). */
+    private final int sealRows;
     private final Map<StreamKey, Integer> streamIds = new HashMap<>();
     /**
      * Zone rows (derived from sensor readings that are stored; no acknowledgement waits on them), held until the
@@ -33,8 +36,39 @@ final class BatchInsert {
 
     /** Reads the rollup marks and rebuilds the open rollup buckets (after a crash, from the raw rows). */
     BatchInsert(Connection conn) throws SQLException {
+        this(conn, RunSealer.STEP_ROWS);
+    }
+
+    BatchInsert(Connection conn, int sealRows) throws SQLException {
         this.conn = conn;
+        this.sealRows = sealRows;
+        this.sealer = new RunSealer(conn);
         rollups.load(conn);
+    }
+
+    /** Whether raw rows older than the minute mark still wait to be packed into runs ({@link #sealStep}). */
+    boolean sealBehind() { return sealer.behind(); }
+
+    /** Raw rows packed into runs since start. */
+    long rowsSealed() { return sealer.rowsSealed(); }
+
+    /**
+     * Packs at most {@code maxRows} raw rows older than the minute mark into runs and commits: the writer runs such
+     * steps between batches while {@link #sealBehind()} (after an upgrade, or a ten-minute write that had more to do).
+     *
+     * @throws SQLException after rolling back
+     */
+    int sealStep(int maxRows) throws SQLException {
+        try {
+            WriterTx.begin(conn);
+            int moved = sealer.seal(rollups.minuteMark(), maxRows);
+            WriterTx.commit(conn);
+            return moved;
+        } catch (SQLException | RuntimeException e) {
+            WriterTx.rollbackQuietly(conn);
+            sealer.rolledBack();
+            throw e;
+        }
     }
 
     int openRollupBuckets() { return rollups.openBuckets(); }
@@ -57,6 +91,7 @@ final class BatchInsert {
         boolean rollupsWritten;
         boolean writeHeld = allRollups || rollups.writeDue(nowMs);
         int heldBefore = heldZoneRows.size();
+        sealer.forgetRun();
         try {
             WriterTx.begin(conn);
             int capacity = n + (writeHeld ? heldBefore : 0);
@@ -71,8 +106,13 @@ final class BatchInsert {
                         tooOld++;
                         continue;
                     }
+                    int id = streamId(r.key, newIds);
+                    if (sealer.inRun(id, r.tsMs)) {
+                        duplicate++;
+                        continue;
+                    }
                     rows[queued] = r;
-                    order[queued] = ((long) streamId(r.key, newIds) << 32) | queued;
+                    order[queued] = ((long) id << 32) | queued;
                     queued++;
                 }
             }
@@ -86,8 +126,15 @@ final class BatchInsert {
                     heldZoneRows.add(r);
                     continue;
                 }
+                int id = streamId(r.key, newIds);
+                // Rows go into `reading` by INSERT OR IGNORE, which sees no packed run: one older than its stream's
+                // newest run is looked up there (a redelivery, a retained message with an old time).
+                if (sealer.inRun(id, r.tsMs)) {
+                    duplicate++;
+                    continue;
+                }
                 rows[queued] = r;
-                order[queued] = ((long) streamId(r.key, newIds) << 32) | queued;
+                order[queued] = ((long) id << 32) | queued;
                 queued++;
             }
             Arrays.sort(order, 0, queued);
@@ -117,10 +164,16 @@ final class BatchInsert {
                 }
             }
             rollupsWritten = rollups.write(conn, nowMs, allRollups);
+            if (rollupsWritten) {
+                // The rows the written buckets cover become runs in the same commit: their pages are written once.
+                sealer.markMoved();
+                sealer.seal(rollups.stagedMinuteMark(), sealRows);
+            }
             WriterTx.commit(conn);
         } catch (SQLException | RuntimeException e) {
             WriterTx.rollbackQuietly(conn);
             rollups.rolledBack();
+            sealer.rolledBack();
             heldZoneRows.subList(heldBefore, heldZoneRows.size()).clear(); // the batch stays in the backlog and comes again
             throw e;
         }

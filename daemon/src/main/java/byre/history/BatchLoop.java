@@ -62,6 +62,8 @@ final class BatchLoop implements Runnable {
     private long lastArrivalNanos;
     private long nextRetryNanos;
     private long retryDelayNanos = INITIAL_RETRY_NANOS;
+    private long nextSealNanos;
+    private long sealRetryNanos = INITIAL_RETRY_NANOS;
     private long nextRetentionNanos;
     /** {@link #batches} when the last retention round began. */
     private long batchesAtLastRound = -1;
@@ -90,6 +92,8 @@ final class BatchLoop implements Runnable {
     volatile long retentionRounds;
     volatile long retentionRowsDeleted;
     volatile long maxRetentionStepRows;
+    volatile long rowsSealed;
+    volatile boolean sealBehind;
 
     BatchLoop(HistoryStore store, Retention retention, Clock clock, Ticker ticker, WriterSettings settings,
               BlockingQueue<WriterItem> queue, Connection conn) throws SQLException {
@@ -105,6 +109,7 @@ final class BatchLoop implements Runnable {
         this.nextRetentionNanos = ticker.nanos();
         this.openRollupBuckets = insert.openRollupBuckets();
         this.heldZoneRows = insert.heldZoneRows();
+        this.sealBehind = insert.sealBehind();
     }
 
     /** Time between the last two rows: shorter than a nap means rows come faster than naps. */
@@ -138,7 +143,8 @@ final class BatchLoop implements Runnable {
                 if (commitDue(now)) {
                     commitBatch();
                 } else if (backlog.isEmpty() || now - firstPendingNanos < settings.commitEvery().toNanos()) {
-                    maybePrune(now);
+                    if (sealDue(now)) sealStep(now);
+                    else maybePrune(now);
                 }
                 completeMarkers();
             }
@@ -163,6 +169,7 @@ final class BatchLoop implements Runnable {
 
     private long waitNanos() {
         long now = ticker.nanos();
+        if (sealDue(now)) return 0; // a packing step runs at once, between batches
         if (!backlog.isEmpty()) {
             long due = !healthy ? nextRetryNanos : commitNow(now) ? now : nextDue();
             return Math.max(0, due - now);
@@ -296,6 +303,8 @@ final class BatchLoop implements Runnable {
         backlogRows = backlog.size();
         openRollupBuckets = insert.openRollupBuckets();
         heldZoneRows = insert.heldZoneRows();
+        rowsSealed = insert.rowsSealed();
+        sealBehind = insert.sealBehind();
         rowsWritten += result.inserted();
         rowsDuplicate += result.duplicate();
         rowsTooOld += result.tooOld();
@@ -355,6 +364,29 @@ final class BatchLoop implements Runnable {
         if (!turn.anyWaiting()) return;
         long until = ticker.nanos() + YIELD_LIMIT_NANOS;
         while (turn.anyWaiting() && ticker.nanos() - until < 0) LockSupport.parkNanos(YIELD_NAP_NANOS);
+    }
+
+    /** Packing raw rows into runs has work left, the database takes writes and no failed step waits to be retried. */
+    private boolean sealDue(long now) {
+        return sealBehind && healthy && now >= nextSealNanos;
+    }
+
+    /** One bounded step of packing raw rows into runs (after an upgrade, or a ten-minute write that had more). */
+    private void sealStep(long now) {
+        yieldTurn();
+        try {
+            insert.sealStep(RunSealer.STEP_ROWS);
+            sealRetryNanos = INITIAL_RETRY_NANOS;
+        } catch (SQLException e) {
+            // The rows stay in `reading`, where readers find them too: retry later, with a doubling delay.
+            writeErrors++;
+            lastError = "packing: " + e.getMessage();
+            log.warn("history {}: packing raw readings into runs failed: {}", store.path(), e.getMessage());
+            nextSealNanos = now + sealRetryNanos;
+            sealRetryNanos = Math.min(sealRetryNanos * 2, settings.maxRetryDelay().toNanos());
+        }
+        rowsSealed = insert.rowsSealed();
+        sealBehind = insert.sealBehind();
     }
 
     private void maybePrune(long now) {

@@ -26,6 +26,7 @@ public final class HistoryReader implements AutoCloseable {
     private static final long MINUTE_MS = Resolution.MINUTE.widthMs;
 
     private final Connection conn;
+    private boolean hasRuns;
 
     /**
      * This reader's read-only connection, for a stage that keeps its own tables in the history file and reads them
@@ -101,24 +102,29 @@ public final class HistoryReader implements AutoCloseable {
 
     /** The newest stored reading of every stream that has one, in {@link #streams()} order. */
     public List<HistoryRow> latest() {
+        record Stream(int id, StreamKey key) {}
+        List<Stream> streams = new ArrayList<>();
+        query("list streams", "SELECT id, kind, key FROM stream ORDER BY kind, key", ps -> { }, rs -> {
+            int id = rs.getInt(1);
+            toKey(rs.getString(2), rs.getString(3)).ifPresent(k -> streams.add(new Stream(id, k)));
+        });
         List<HistoryRow> out = new ArrayList<>();
-        query("latest values", "SELECT s.kind, s.key, r.ts, r.value FROM stream s "
-                + "JOIN reading r ON r.stream = s.id AND r.ts = (SELECT max(ts) FROM reading WHERE stream = s.id) "
-                + "ORDER BY s.kind, s.key", ps -> { },
-            rs -> {
-                Optional<StreamKey> k = toKey(rs.getString(1), rs.getString(2));
-                if (k.isPresent()) out.add(new HistoryRow(k.get(), Instant.ofEpochMilli(rs.getLong(3)), rs.getDouble(4)));
-            });
+        for (Stream s : streams) newest(s.id(), s.key()).ifPresent(out::add);
         return out;
     }
 
     /** The newest stored reading of one stream. */
     public Optional<HistoryRow> latest(StreamKey key) {
-        List<HistoryRow> out = new ArrayList<>(1);
-        query("latest value of " + key, "SELECT r.ts, r.value FROM reading r JOIN stream s ON s.id = r.stream "
-                + "WHERE s.kind = ? AND s.key = ? ORDER BY r.ts DESC LIMIT 1", ps -> bindKey(ps, 1, key),
-            rs -> out.add(new HistoryRow(key, Instant.ofEpochMilli(rs.getLong(1)), rs.getDouble(2))));
-        return out.stream().findFirst();
+        int id = streamId(key);
+        return id < 0 ? Optional.empty() : newest(id, key);
+    }
+
+    private Optional<HistoryRow> newest(int id, StreamKey key) {
+        try (RawCursor c = new RawCursor(conn, id, Long.MIN_VALUE, Long.MAX_VALUE, true, hasRuns())) {
+            return c.next() ? Optional.of(new HistoryRow(key, Instant.ofEpochMilli(c.ts()), c.value())) : Optional.empty();
+        } catch (SQLException e) {
+            throw new HistoryException("history query (latest value of " + key + ") failed: " + e.getMessage(), e);
+        }
     }
 
     /** Raw readings of one stream in [from, to), oldest first. */
@@ -133,19 +139,18 @@ public final class HistoryReader implements AutoCloseable {
      * one walk back along the (stream, time) key, however long the history.
      */
     public long[] latestTimes(StreamKey key, Instant from, Instant to, int limit) {
-        long[] times = new long[limit];
-        int[] n = {0};
-        query("latest times of " + key, "SELECT r.ts FROM reading r JOIN stream s ON s.id = r.stream "
-                + "WHERE s.kind = ? AND s.key = ? AND r.ts >= ? AND r.ts < ? ORDER BY r.ts DESC LIMIT ?",
-            ps -> {
-                bindKey(ps, 1, key);
-                ps.setLong(3, lo(from));
-                ps.setLong(4, hi(to));
-                ps.setInt(5, limit);
-            },
-            rs -> times[n[0]++] = rs.getLong(1));
-        long[] out = new long[n[0]];
-        for (int i = 0; i < n[0]; i++) out[i] = times[n[0] - 1 - i];
+        long[] times = new long[Math.max(0, limit)];
+        int n = 0;
+        int id = streamId(key);
+        if (id >= 0 && limit > 0) {
+            try (RawCursor c = new RawCursor(conn, id, lo(from), hi(to), true, hasRuns())) {
+                while (n < limit && c.next()) times[n++] = c.ts();
+            } catch (SQLException e) {
+                throw new HistoryException("history query (latest times of " + key + ") failed: " + e.getMessage(), e);
+            }
+        }
+        long[] out = new long[n];
+        for (int i = 0; i < n; i++) out[i] = times[n - 1 - i];
         return out;
     }
 
@@ -155,14 +160,13 @@ public final class HistoryReader implements AutoCloseable {
     }
 
     private void rawRange(StreamKey key, long lo, long hi, Consumer<HistoryRow> sink) {
-        query("raw readings of " + key, "SELECT r.ts, r.value FROM reading r JOIN stream s ON s.id = r.stream "
-                + "WHERE s.kind = ? AND s.key = ? AND r.ts >= ? AND r.ts < ? ORDER BY r.ts",
-            ps -> {
-                bindKey(ps, 1, key);
-                ps.setLong(3, lo);
-                ps.setLong(4, hi);
-            },
-            rs -> sink.accept(new HistoryRow(key, Instant.ofEpochMilli(rs.getLong(1)), rs.getDouble(2))));
+        int id = streamId(key);
+        if (id < 0) return;
+        try (RawCursor c = new RawCursor(conn, id, lo, hi, false, hasRuns())) {
+            while (c.next()) sink.accept(new HistoryRow(key, Instant.ofEpochMilli(c.ts()), c.value()));
+        } catch (SQLException e) {
+            throw new HistoryException("history query (raw readings of " + key + ") failed: " + e.getMessage(), e);
+        }
     }
 
     /**
@@ -170,39 +174,29 @@ public final class HistoryReader implements AutoCloseable {
      * order in {@code keys}), as replay needs them. Each stream is read by its own cursor, so no sort is needed.
      */
     public void forEachRawInTimeOrder(Collection<StreamKey> keys, Instant from, Instant to, Consumer<HistoryRow> sink) {
-        record Cursor(int order, StreamKey key, PreparedStatement ps, ResultSet rs) {}
-        PriorityQueue<Cursor> heap = new PriorityQueue<>(Comparator.<Cursor>comparingLong(c -> {
-            try {
-                return c.rs().getLong(1);
-            } catch (SQLException e) {
-                throw new HistoryException("history read failed: " + e.getMessage(), e);
-            }
-        }).thenComparingInt(Cursor::order));
+        record Cursor(int order, StreamKey key, RawCursor raw) {}
+        PriorityQueue<Cursor> heap = new PriorityQueue<>(Comparator.<Cursor>comparingLong(c -> c.raw().ts()).thenComparingInt(Cursor::order));
         List<Cursor> all = new ArrayList<>();
         try {
             int order = 0;
+            boolean withRuns = hasRuns();
             for (StreamKey key : keys) {
-                PreparedStatement ps = conn.prepareStatement("SELECT r.ts, r.value FROM reading r JOIN stream s ON s.id = r.stream "
-                    + "WHERE s.kind = ? AND s.key = ? AND r.ts >= ? AND r.ts < ? ORDER BY r.ts");
-                bindKey(ps, 1, key);
-                ps.setLong(3, lo(from));
-                ps.setLong(4, hi(to));
-                Cursor c = new Cursor(order++, key, ps, ps.executeQuery());
+                int id = streamId(key);
+                int o = order++;
+                if (id < 0) continue;
+                Cursor c = new Cursor(o, key, new RawCursor(conn, id, lo(from), hi(to), false, withRuns));
                 all.add(c);
-                if (c.rs().next()) heap.add(c);
+                if (c.raw().next()) heap.add(c);
             }
             while (!heap.isEmpty()) {
                 Cursor c = heap.poll();
-                sink.accept(new HistoryRow(c.key(), Instant.ofEpochMilli(c.rs().getLong(1)), c.rs().getDouble(2)));
-                if (c.rs().next()) heap.add(c);
+                sink.accept(new HistoryRow(c.key(), Instant.ofEpochMilli(c.raw().ts()), c.raw().value()));
+                if (c.raw().next()) heap.add(c);
             }
         } catch (SQLException e) {
             throw new HistoryException("history read of " + keys.size() + " streams failed: " + e.getMessage(), e);
         } finally {
-            for (Cursor c : all) {
-                HistoryStore.closeQuietly(c.rs());
-                HistoryStore.closeQuietly(c.ps());
-            }
+            for (Cursor c : all) c.raw().close();
         }
     }
 
@@ -302,6 +296,24 @@ public final class HistoryReader implements AutoCloseable {
     }
 
     // ---- helpers ----
+
+    /** The id of a stream, or -1 when it was never written. */
+    private int streamId(StreamKey key) {
+        int[] id = {-1};
+        query("stream " + key, "SELECT id FROM stream WHERE kind = ? AND key = ?", ps -> bindKey(ps, 1, key), rs -> id[0] = rs.getInt(1));
+        return id[0];
+    }
+
+    /**
+     * Whether the file has the table of packed runs: one written by an older byre (schema 4 or older, read while that
+     * byre runs) has not. Asked again until it has, as that byre may be upgraded meanwhile.
+     */
+    private boolean hasRuns() {
+        if (!hasRuns) {
+            query("tables", "SELECT 1 FROM sqlite_schema WHERE type = 'table' AND name = 'reading_run'", ps -> { }, rs -> hasRuns = true);
+        }
+        return hasRuns;
+    }
 
     @FunctionalInterface
     private interface Binder {

@@ -224,7 +224,7 @@ public final class HistoryWriter implements AutoCloseable {
         return new WriterStats(l.healthy, l.lastError, l.rowsWritten, l.rowsDuplicate, l.rowsTooOld, rowsRejected.get(),
             l.rowsDropped, l.batches, l.lastBatchRows, l.lastCommitMillis, queue.size(), l.backlogRows, l.writeErrors,
             l.rollupFlushes, l.openRollupBuckets, l.retentionSteps, l.retentionRounds, l.retentionRowsDeleted,
-            l.maxRetentionStepRows);
+            l.maxRetentionStepRows, l.rowsSealed, l.sealBehind);
     }
 
     /** The writer's settings. */

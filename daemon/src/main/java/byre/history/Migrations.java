@@ -112,7 +112,20 @@ final class Migrations {
               body     TEXT    NOT NULL,
               received INTEGER NOT NULL)""",
             "CREATE INDEX IF NOT EXISTS site_event_incident ON site_event (incident)",
-            "CREATE INDEX IF NOT EXISTS site_event_received ON site_event (received)"))
+            "CREATE INDEX IF NOT EXISTS site_event_received ON site_event (received)")),
+        new Migration(5, "packed runs of raw readings", List.of(
+            // Raw readings older than the minute mark, packed (RunCodec) a few hundred to a row: a row per reading
+            // costs about 25 bytes, a packed reading 2 to 4. ts = the run's first time, upto its last (epoch ms); runs
+            // of a stream never overlap. `reading` keeps the newest rows, a row each, until they are sealed into runs
+            // (RunSealer); rows already in `reading` are packed a step at a time by the writer after this upgrade.
+            """
+            CREATE TABLE reading_run (
+              stream INTEGER NOT NULL,
+              ts     INTEGER NOT NULL,
+              upto   INTEGER NOT NULL,
+              n      INTEGER NOT NULL,
+              data   BLOB    NOT NULL,
+              PRIMARY KEY (stream, ts)) WITHOUT ROWID"""))
     );
 
     static int latestVersion() { return ALL.get(ALL.size() - 1).version(); }

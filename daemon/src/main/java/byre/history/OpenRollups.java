@@ -88,6 +88,9 @@ final class OpenRollups {
 
     long hourMark() { return hourMark; }
 
+    /** The minute mark as the current batch leaves it (moved by {@link #write}, not yet committed). */
+    long stagedMinuteMark() { return stagedFlush ? stagedMinuteMark : minuteMark; }
+
     /** Minute buckets held in memory. */
     int openBuckets() { return open.size(); }
 

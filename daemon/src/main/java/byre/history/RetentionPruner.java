@@ -11,11 +11,14 @@ import java.util.List;
 /**
  * Deletes rows older than the {@link Retention} ages, one small bounded step at a time, so the writer thread
  * can interleave steps with ingest batches. A round walks every (table, stream) pair; each step deletes at most
- * {@code stepRows} rows of one stream by a primary-key range and commits.
+ * {@code stepRows} rows of one stream by a primary-key range and commits. Packed runs count by their readings: a
+ * step deletes whole runs while they fit, and rewrites the next without its old readings (a run that straddles
+ * the cutoff, or one larger than what is left of the step), so keep-raw holds to the reading there too.
  */
 final class RetentionPruner {
 
-    private static final String[] TABLES = {"reading", Resolution.MINUTE.table, Resolution.HOUR.table};
+    private static final String RUNS = "reading_run";
+    private static final String[] TABLES = {"reading", RUNS, Resolution.MINUTE.table, Resolution.HOUR.table};
 
     private final Retention retention;
     private final Clock clock;
@@ -38,7 +41,8 @@ final class RetentionPruner {
     void begin(Connection conn) throws SQLException {
         long now = clock.millis();
         cutoffs = new long[] {
-            now - retention.keepRaw().toMillis(), now - retention.keepMinute().toMillis(), now - retention.keepHour().toMillis()};
+            now - retention.keepRaw().toMillis(), now - retention.keepRaw().toMillis(), now - retention.keepMinute().toMillis(),
+            now - retention.keepHour().toMillis()};
         streams = new ArrayList<>();
         try (PreparedStatement ps = conn.prepareStatement("SELECT id FROM stream ORDER BY id");
              ResultSet rs = ps.executeQuery()) {
@@ -58,6 +62,12 @@ final class RetentionPruner {
         int deleted;
         WriterTx.begin(conn);
         try {
+            if (table.equals(RUNS)) {
+                deleted = stepRuns(conn, stream, cutoff);
+                WriterTx.commit(conn);
+                if (deleted < stepRows) advance();
+                return deleted;
+            }
             long lastTs = Long.MIN_VALUE;
             boolean more = false;
             // ts is unique within a stream, so "ts <= the stepRows-th oldest old ts" is exactly stepRows rows.
@@ -84,6 +94,52 @@ final class RetentionPruner {
         } catch (SQLException e) {
             WriterTx.rollbackQuietly(conn);
             throw e;
+        }
+        return deleted;
+    }
+
+    /**
+     * Deletes the oldest at most {@code stepRows} readings of one stream's runs older than {@code cutoff}: whole runs
+     * while they fit, then the first run left is rewritten without its old readings.
+     */
+    private int stepRuns(Connection conn, int stream, long cutoff) throws SQLException {
+        int deleted = 0;
+        long lastWhole = Long.MIN_VALUE;
+        RunTable.Stored trim = null;
+        try (PreparedStatement ps = conn.prepareStatement("SELECT ts, upto, n, data FROM reading_run WHERE stream = ? AND ts < ? ORDER BY ts")) {
+            ps.setInt(1, stream);
+            ps.setLong(2, cutoff);
+            try (ResultSet rs = ps.executeQuery()) {
+                while (rs.next()) {
+                    long upto = rs.getLong(2);
+                    int n = rs.getInt(3);
+                    if (upto < cutoff && deleted + n <= stepRows) {
+                        lastWhole = rs.getLong(1);
+                        deleted += n;
+                        continue;
+                    }
+                    if (deleted < stepRows) trim = new RunTable.Stored(rs.getLong(1), upto, n, rs.getBytes(4));
+                    break;
+                }
+            }
+        }
+        if (lastWhole != Long.MIN_VALUE) {
+            try (PreparedStatement del = conn.prepareStatement("DELETE FROM reading_run WHERE stream = ? AND ts <= ?")) {
+                del.setInt(1, stream);
+                del.setLong(2, lastWhole);
+                del.executeUpdate();
+            }
+        }
+        if (trim != null) {
+            RunCodec.Run run = trim.decode();
+            int old = 0;
+            while (old < run.size() && run.tsMs()[old] < cutoff && deleted + old < stepRows) old++;
+            if (old > 0) {
+                RunTable runs = new RunTable(conn);
+                runs.delete(stream, trim.ts());
+                runs.write(stream, run.tsMs(), run.values(), old, run.size());
+                deleted += old;
+            }
         }
         return deleted;
     }

@@ -25,11 +25,14 @@ import java.util.Optional;
  * @param retentionRounds      completed retention rounds
  * @param retentionRowsDeleted rows deleted by retention in total
  * @param maxRetentionStepRows the most rows any one retention step deleted
+ * @param rowsSealed           raw rows packed into runs since start (see {@code RunSealer})
+ * @param sealPending          raw rows older than the minute mark may still wait to be packed (after an upgrade)
  */
 public record WriterStats(boolean healthy, String lastErrorText, long rowsWritten, long rowsDuplicate, long rowsTooOld,
                           long rowsRejected, long rowsDropped, long batches, long lastBatchRows, long lastCommitMillis,
                           int queueDepth, int backlogRows, long writeErrors, long rollupFlushes, int openRollupBuckets,
-                          long retentionSteps, long retentionRounds, long retentionRowsDeleted, long maxRetentionStepRows) {
+                          long retentionSteps, long retentionRounds, long retentionRowsDeleted, long maxRetentionStepRows,
+                          long rowsSealed, boolean sealPending) {
 
     /** The message of the most recent write error, if any. */
     public Optional<String> lastError() { return Optional.ofNullable(lastErrorText); }

@@ -2,6 +2,7 @@ package byre.bench;
 
 import byre.demo.LoadConfig;
 import byre.demo.LoadMain;
+import byre.history.StoredReadings;
 import byre.testing.ByreProcess;
 import byre.testing.Mosquitto;
 import java.io.ByteArrayOutputStream;
@@ -277,11 +278,9 @@ public final class IngestBench {
     }
 
     static long sensorRows(Path db) throws Exception {
-        try (Connection c = DriverManager.getConnection("jdbc:sqlite:" + db);
-             Statement st = c.createStatement();
-             ResultSet rs = st.executeQuery("SELECT count(*) FROM reading WHERE stream IN (SELECT id FROM stream WHERE kind = 'sensor')")) {
-            return rs.next() ? rs.getLong(1) : 0;
-        } catch (java.sql.SQLException e) {
+        try {
+            return StoredReadings.count(db, r -> r.kind().equals("sensor"));
+        } catch (AssertionError e) {
             return 0; // not created yet
         }
     }

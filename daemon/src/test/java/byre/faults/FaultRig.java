@@ -1,5 +1,6 @@
 package byre.faults;
 
+import byre.history.StoredReadings;
 import java.nio.file.Path;
 import java.sql.Connection;
 import java.sql.DriverManager;
@@ -58,10 +59,8 @@ final class FaultRig {
     /** Every stored raw row as "sensor@ts". */
     static Set<String> sensorRows(Path db) throws SQLException {
         Set<String> out = new HashSet<>();
-        try (Connection c = DriverManager.getConnection("jdbc:sqlite:" + db);
-             Statement st = c.createStatement();
-             ResultSet rs = st.executeQuery("SELECT s.key, r.ts FROM reading r JOIN stream s ON s.id = r.stream WHERE s.kind = 'sensor'")) {
-            while (rs.next()) out.add(rs.getString(1) + "@" + rs.getLong(2));
+        for (StoredReadings.Row r : StoredReadings.all(db)) {
+            if (r.kind().equals("sensor")) out.add(r.key() + "@" + r.tsMs());
         }
         return out;
     }

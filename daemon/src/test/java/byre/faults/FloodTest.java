@@ -5,6 +5,7 @@ import static org.junit.jupiter.api.Assertions.assertEquals;
 
 import byre.config.ByreConfig;
 import byre.daemon.Daemon;
+import byre.history.StoredReadings;
 import byre.testing.Configs;
 import byre.testing.ManualTicker;
 import byre.testing.Mosquitto;
@@ -70,6 +71,6 @@ class FloodTest {
     }
 
     static long rows(Path db, String sensor) throws Exception {
-        return FaultRig.number(db, "SELECT count(*) FROM reading r JOIN stream s ON s.id = r.stream WHERE s.key = '" + sensor + "'");
+        return StoredReadings.count(db, sensor);
     }
 }

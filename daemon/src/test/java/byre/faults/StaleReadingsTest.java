@@ -5,6 +5,7 @@ import static org.junit.jupiter.api.Assertions.assertEquals;
 
 import byre.config.ByreConfig;
 import byre.daemon.Daemon;
+import byre.history.StoredReadings;
 import byre.rules.eval.AlertState;
 import byre.testing.Configs;
 import byre.testing.Mosquitto;
@@ -54,8 +55,7 @@ class StaleReadingsTest {
     }
 
     long rows(String sensor) throws Exception {
-        return FaultRig.number(dir.resolve("history.db"),
-                "SELECT count(*) FROM reading r JOIN stream s ON s.id = r.stream WHERE s.key = '" + sensor + "'");
+        return StoredReadings.count(dir.resolve("history.db"), sensor);
     }
 
     static String dry(double v, long tsMs) {

@@ -89,7 +89,7 @@ class BatchInsertTest {
             BatchInsert.Result second = batch(insert, 10, 20, rnd);
             assertEquals(10, second.inserted());
             assertFalse(second.rollupsWritten());
-            assertEquals(20, Sql.number(store.path(), "SELECT count(*) FROM reading"));
+            assertEquals(20, StoredReadings.count(store.path()));
             assertEquals(0, Sql.number(store.path(), "SELECT count(*) FROM rollup_minute"), "the open minute is in memory");
             assertEquals(0, Sql.number(store.path(), "SELECT count(*) FROM rollup_hour"));
             assertEquals(2, insert.openRollupBuckets());
@@ -166,7 +166,7 @@ class BatchInsertTest {
                 assertFalse(insert.write(zone.subList(i, i + 1).iterator(), 1, now, 0, false).rollupsWritten());
             }
             assertEquals(9, insert.heldZoneRows());
-            assertEquals(1, Sql.number(store.path(), "SELECT count(*) FROM reading"), "only the row with an acknowledgement");
+            assertEquals(1, StoredReadings.count(store.path()), "only the row with an acknowledgement");
             try (HistoryReader r = store.openReader()) {
                 assertEquals(0, r.raw(thi, null, null).size(), "held rows are not in the file yet");
             }
@@ -188,7 +188,7 @@ class BatchInsertTest {
             assertEquals(1, insert.heldZoneRows());
             insert.write(List.<WriterItem.Row>of().iterator(), 0, due + 66_000, 0, true);
             assertEquals(0, insert.heldZoneRows());
-            assertEquals(11, Sql.number(store.path(), "SELECT count(*) FROM reading WHERE stream = (SELECT id FROM stream WHERE key = 'calf-barn.thi')"));
+            assertEquals(11, StoredReadings.count(store.path(), "calf-barn.thi"));
         }
     }
 

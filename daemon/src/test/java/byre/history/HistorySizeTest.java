@@ -11,15 +11,20 @@ import java.util.Random;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 
-/** A size check, not a timing check: the target is under 40 bytes on disk per raw reading. */
+/**
+ * A size check, not a timing check: the issue's target is at most 25 bytes on disk per raw reading, rollups included.
+ * With a row per reading it was 34.4; with the readings packed into runs about 19, of which the minute rollups take 8
+ * and the pages the newest rows freed when they were packed about 5 (reused, so less for a longer history).
+ */
 class HistorySizeTest {
 
     @TempDir Path dir;
 
     @Test
-    void aHundredThousandReadingsOfFiftyStreamsTakeUnderFortyBytesEach() throws Exception {
+    void aHundredThousandReadingsOfFiftyStreamsTakeAtMostTwentyFiveBytesEach() throws Exception {
         Instant t0 = Instant.parse("2025-07-14T00:00:00Z");
-        TestClock clock = new TestClock(t0.plus(Duration.ofDays(1)));
+        // The clock follows the readings, so the rollups are written and the rows packed every ten minutes, as live.
+        TestClock clock = new TestClock(t0.plusSeconds(1));
         int streams = 50;
         int rows = 100_000;
         Path db = dir.resolve("history.db");
@@ -29,6 +34,7 @@ class HistorySizeTest {
                 // Sensors reporting every 10 s in turn, values with two decimals, as they arrive live.
                 for (int i = 0; i < rows; i++) {
                     int s = i % streams;
+                    if (s == 0 && i > 0) clock.advance(Duration.ofSeconds(10));
                     long ts = t0.toEpochMilli() + (i / streams) * 10_000L + s * 37L;
                     writer.append(StreamKey.sensor("shed" + s / 10 + "-sensor" + s), ts, Math.round((12 + 8 * rnd.nextDouble()) * 100) / 100.0);
                 }
@@ -38,9 +44,11 @@ class HistorySizeTest {
             store.checkpoint();
         }
         assertEquals("ok", Sql.text(db, "PRAGMA integrity_check"));
+        assertEquals(rows, StoredReadings.count(db));
+        assertEquals(0, Sql.number(db, "SELECT count(*) FROM reading"), "every reading packed once its rollups are written");
         long bytes = Files.size(db);
         double perRow = bytes / (double) rows;
         System.out.printf("history size: %d bytes for %d readings = %.1f bytes per reading (rollups included)%n", bytes, rows, perRow);
-        assertTrue(perRow < 40, "bytes per reading " + perRow);
+        assertTrue(perRow <= 25, "bytes per reading " + perRow);
     }
 }

@@ -28,7 +28,7 @@ class HistoryStoreTest {
         assertEquals("wal", Sql.text(db, "PRAGMA journal_mode"));
         assertEquals(HistoryStore.latestSchemaVersion(), Sql.number(db, "PRAGMA user_version"));
         assertEquals(Migrations.APPLICATION_ID, Sql.number(db, "PRAGMA application_id"));
-        assertEquals("stream,reading,rollup_minute,rollup_hour,state,outbox_event,sqlite_sequence,outbox_delivery,rollup_mark,site_event",
+        assertEquals("stream,reading,rollup_minute,rollup_hour,state,outbox_event,sqlite_sequence,outbox_delivery,rollup_mark,site_event,reading_run",
             Sql.text(db, "SELECT group_concat(name) FROM (SELECT name FROM sqlite_schema WHERE type = 'table' ORDER BY rowid)"));
         // The raw table must be keyed by (stream, ts) without a hidden rowid: that is what keeps rows small.
         assertTrue(Sql.text(db, "SELECT sql FROM sqlite_schema WHERE name = 'reading'").contains("WITHOUT ROWID"));

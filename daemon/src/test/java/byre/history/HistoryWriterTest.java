@@ -99,7 +99,7 @@ class HistoryWriterTest {
         ticker.advance(Duration.ofMillis(1));
         await().atMost(Duration.ofSeconds(10)).until(() -> acks.get() == 3);
         assertEquals(1, writer.stats().batches(), "one commit for the three readings");
-        assertEquals(3, Sql.number(store.path(), "SELECT count(*) FROM reading"), "acknowledged only once committed");
+        assertEquals(3, StoredReadings.count(store.path()), "acknowledged only once committed");
     }
 
     @Test
@@ -153,7 +153,7 @@ class HistoryWriterTest {
         assertEquals(200, writer.stats().rowsWritten());
         assertEquals(100, writer.stats().lastBatchRows());
         assertEquals(50, writer.stats().backlogRows(), "the rest waits for the next trigger");
-        assertEquals(200, Sql.number(store.path(), "SELECT count(*) FROM reading"));
+        assertEquals(200, StoredReadings.count(store.path()));
         assertTrue(writer.flush());
         assertEquals(250, writer.stats().rowsWritten());
     }
@@ -172,7 +172,7 @@ class HistoryWriterTest {
         ticker.advance(Duration.ofMinutes(1));
         await().atMost(Duration.ofSeconds(10)).until(() -> writer.stats().rowsWritten() == 5);
         assertEquals(1, writer.stats().batches());
-        assertEquals(5, Sql.number(store.path(), "SELECT count(*) FROM reading"));
+        assertEquals(5, StoredReadings.count(store.path()));
     }
 
     @Test
@@ -240,7 +240,7 @@ class HistoryWriterTest {
         start(WriterSettings.builder().batchRows(1000).commitEvery(Duration.ofHours(1)).firstBatchAtOnce(false).build());
         writer.append(PEN1_DRY, T0, 1.0);
         writer.close();
-        assertEquals(1, Sql.number(store.path(), "SELECT count(*) FROM reading"));
+        assertEquals(1, StoredReadings.count(store.path()));
         assertFalse(writer.append(PEN1_DRY, T0.plusSeconds(1), 2.0));
         assertEquals(1, writer.stats().rowsRejected());
     }
@@ -259,14 +259,14 @@ class HistoryWriterTest {
         assertTrue(writer.stats().writeErrors() >= 1);
         await().atMost(Duration.ofSeconds(20)).until(() -> writer.stats().queueDepth() == 0);
         assertTrue(writer.stats().backlogRows() > 0, "rows are kept in memory");
-        long storedWhileFull = Sql.number(store.path(), "SELECT count(*) FROM reading");
+        long storedWhileFull = StoredReadings.count(store.path());
         assertTrue(storedWhileFull < rows + 1);
         assertEquals(0, writer.stats().rowsDropped());
 
         WriterHooks.lift(writer);
         await().atMost(Duration.ofSeconds(20)).until(() -> writer.stats().healthy());
         assertTrue(writer.flush());
-        assertEquals(rows + 1, Sql.number(store.path(), "SELECT count(*) FROM reading"));
+        assertEquals(rows + 1, StoredReadings.count(store.path()));
         assertEquals(rows + 1, Sql.number(store.path(), "SELECT sum(n) FROM rollup_minute"), "no batch counted twice by the retries");
         assertEquals(0, writer.stats().backlogRows());
     }
@@ -284,9 +284,9 @@ class HistoryWriterTest {
         assertTrue(writer.stats().backlogRows() <= 1000);
         WriterHooks.lift(writer);
         assertTrue(writer.flush(Duration.ofSeconds(20)));
-        long stored = Sql.number(store.path(), "SELECT count(*) FROM reading");
+        long stored = StoredReadings.count(store.path());
         assertEquals(3001, stored + writer.stats().rowsDropped(), "every row is either stored or counted as dropped");
         // The newest rows survive: it is the oldest that are dropped.
-        assertEquals(T0.plusSeconds(3000).toEpochMilli(), Sql.number(store.path(), "SELECT max(ts) FROM reading"));
+        assertEquals(T0.plusSeconds(3000).toEpochMilli(), StoredReadings.maxTs(store.path()).orElseThrow());
     }
 }

@@ -32,14 +32,14 @@ class RetentionTest {
                 for (StreamKey k : KEYS) writer.append(k, T.minus(Duration.ofHours(20)).plusSeconds(s), s);
             }
             assertTrue(writer.flush());
-            assertEquals(4800, Sql.number(db, "SELECT count(*) FROM reading"));
+            assertEquals(4800, StoredReadings.count(db));
 
             // Now T+10h: raw cutoff T-14h, so the 6 oldest hours of raw rows go; no rollup is old enough.
             clock.advance(Duration.ofHours(10));
             writer.requestRetention();
-            await().atMost(Duration.ofSeconds(20)).until(() -> Sql.number(db, "SELECT count(*) FROM reading") == 4800 - 2 * 720);
+            await().atMost(Duration.ofSeconds(20)).until(() -> StoredReadings.count(db) == 4800 - 2 * 720);
             long cutoff = T.minus(Duration.ofHours(14)).toEpochMilli();
-            assertEquals(cutoff, Sql.number(db, "SELECT min(ts) FROM reading"), "nothing newer than the cutoff is removed");
+            assertEquals(cutoff, StoredReadings.minTs(db).orElseThrow(), "nothing newer than the cutoff is removed");
             assertEquals(2400, Sql.number(db, "SELECT count(*) FROM rollup_minute"));
             assertEquals(40, Sql.number(db, "SELECT count(*) FROM rollup_hour"));
             // 720 old rows per stream in steps of at most 100 rows.
@@ -50,7 +50,7 @@ class RetentionTest {
             clock.advance(Duration.ofHours(30));
             writer.requestRetention();
             await().atMost(Duration.ofSeconds(20)).until(() -> Sql.number(db, "SELECT count(*) FROM rollup_minute") == 2 * 480);
-            assertEquals(0, Sql.number(db, "SELECT count(*) FROM reading"));
+            assertEquals(0, StoredReadings.count(db));
             assertEquals(T.minus(Duration.ofHours(8)).toEpochMilli(), Sql.number(db, "SELECT min(ts) FROM rollup_minute"));
             assertEquals(40, Sql.number(db, "SELECT count(*) FROM rollup_hour"));
 
