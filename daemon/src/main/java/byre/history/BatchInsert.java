@@ -164,8 +164,9 @@ final class BatchInsert {
                 }
             }
             rollupsWritten = rollups.write(conn, nowMs, allRollups);
-            if (rollupsWritten) {
+            if (rollupsWritten || allRollups) {
                 // The rows the written buckets cover become runs in the same commit: their pages are written once.
+                // A flush packs late rows too (older than the mark, they wait as rows for the next ten-minute write).
                 sealer.markMoved();
                 sealer.seal(rollups.stagedMinuteMark(), sealRows);
             }

@@ -135,9 +135,8 @@ final class RetentionPruner {
             int old = 0;
             while (old < run.size() && run.tsMs()[old] < cutoff && deleted + old < stepRows) old++;
             if (old > 0) {
-                RunTable runs = new RunTable(conn);
-                runs.delete(stream, trim.ts());
-                runs.write(stream, run.tsMs(), run.values(), old, run.size());
+                RunTable.delete(conn, stream, trim.ts());
+                RunTable.write(conn, stream, run.tsMs(), run.values(), old, run.size());
                 deleted += old;
             }
         }

@@ -30,7 +30,6 @@ final class RunSealer {
     private static final long NO_RUN = Long.MIN_VALUE;
 
     private final Connection conn;
-    private final RunTable runs;
     /** By stream id: the last time of the stream's newest run, {@link #NO_RUN}, or {@link #UNKNOWN} (not read yet). */
     private long[] newestUpto = new long[0];
     /** The run last decoded for a duplicate check (a redelivered burst asks about one run many times). */
@@ -46,7 +45,6 @@ final class RunSealer {
 
     RunSealer(Connection conn) {
         this.conn = conn;
-        this.runs = new RunTable(conn);
     }
 
     /** Whether rows older than the mark may still wait in {@code reading}. */
@@ -76,7 +74,7 @@ final class RunSealer {
     boolean inRun(int stream, long ts) throws SQLException {
         if (ts > newestUpto(stream)) return false;
         if (cachedRun == null || cachedStream != stream || ts < cachedRun.first() || ts > cachedRun.last()) {
-            RunTable.Stored floor = runs.floor(stream, ts);
+            RunTable.Stored floor = RunTable.floor(conn, stream, ts);
             if (floor == null || floor.upto() < ts) return false;
             cachedRun = floor.decode();
             cachedStream = stream;
@@ -92,7 +90,7 @@ final class RunSealer {
         }
         long upto = newestUpto[stream];
         if (upto == UNKNOWN) {
-            RunTable.Stored newest = runs.newest(stream);
+            RunTable.Stored newest = RunTable.newest(conn, stream);
             upto = newest == null ? NO_RUN : newest.upto();
             newestUpto[stream] = upto;
         }
@@ -160,17 +158,17 @@ final class RunSealer {
         long upto = newestUpto(stream);
         for (int i = 0; i < n; ) {
             // Rows before the next run's start go with the run at or before them: runs never overlap.
-            RunTable.Stored floor = runs.floor(stream, ts[i]);
-            long next = runs.nextStart(stream, ts[i]);
+            RunTable.Stored floor = RunTable.floor(conn, stream, ts[i]);
+            long next = RunTable.nextStart(conn, stream, ts[i]);
             int j = i + 1;
             while (j < n && ts[j] < next) j++;
             if (floor == null || (ts[i] > floor.upto() && floor.full())) {
-                runs.write(stream, ts, values, i, j);
+                RunTable.write(conn, stream, ts, values, i, j);
             } else {
                 RunCodec.Run run = floor.decode();
-                runs.delete(stream, floor.ts());
+                RunTable.delete(conn, stream, floor.ts());
                 Merged m = merge(run, ts, values, i, j);
-                runs.write(stream, m.ts, m.values, 0, m.n);
+                RunTable.write(conn, stream, m.ts, m.values, 0, m.n);
             }
             upto = Math.max(upto, ts[j - 1]);
             i = j;

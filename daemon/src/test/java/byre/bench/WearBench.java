@@ -16,6 +16,7 @@ import java.nio.file.Path;
 import java.time.Clock;
 import java.time.Duration;
 import java.time.Instant;
+import java.time.ZoneId;
 import java.time.ZoneOffset;
 import java.util.ArrayList;
 import java.util.Comparator;
@@ -201,22 +202,43 @@ public final class WearBench {
         return String.format(Locale.ROOT, "%.1f", bytes / 1e6 * 3600 / Math.max(1, seconds));
     }
 
-    /** The same number of rows as the minimal writers get, through byre's own writer, over the past 14 days. */
+    /**
+     * The same number of rows as the minimal writers get, through byre's own writer, over the past 14 days. The clock
+     * follows the rows, so that rollups are written and rows packed into runs as they would have been live: the
+     * measured run starts from a steady state, not from packing the whole history.
+     */
     static void seedByre(Path db, Load load, long rows) {
         Instant now = Instant.now();
-        Clock clock = Clock.fixed(now, ZoneOffset.UTC);
+        FollowingClock clock = new FollowingClock();
         long stepMs = Duration.ofDays(14).toMillis() * load.sensors / Math.max(1, rows);
         long t0 = now.minus(Duration.ofDays(14)).toEpochMilli();
+        clock.ms = t0;
         try (HistoryStore store = HistoryStore.open(db, clock)) {
             try (HistoryWriter w = HistoryWriter.start(store, Retention.DEFAULT, clock)) {
                 for (long i = 0; i < rows; i++) {
                     int s = (int) (i % load.sensors);
-                    w.appendWaiting(StreamKey.sensor(LoadConfig.sensorId(s, load.sensors)), t0 + (i / load.sensors) * stepMs, 15.0 + (i % 97) / 10.0, null);
+                    long ts = t0 + (i / load.sensors) * stepMs;
+                    clock.ms = ts + 1000;
+                    w.appendWaiting(StreamKey.sensor(LoadConfig.sensorId(s, load.sensors)), ts, 15.0 + (i % 97) / 10.0, null);
                 }
+                clock.ms = now.toEpochMilli();
                 w.flush(Duration.ofMinutes(5));
+                long deadline = System.nanoTime() + Duration.ofMinutes(5).toNanos();
+                while (w.stats().sealPending() && System.nanoTime() < deadline) java.util.concurrent.locks.LockSupport.parkNanos(20_000_000);
             }
             store.checkpoint();
         }
+    }
+
+    /** A clock set by hand: the seeding's time, moved along with the rows it appends. */
+    static final class FollowingClock extends Clock {
+        volatile long ms;
+
+        @Override public ZoneId getZone() { return ZoneOffset.UTC; }
+
+        @Override public Clock withZone(ZoneId zone) { return this; }
+
+        @Override public Instant instant() { return Instant.ofEpochMilli(ms); }
     }
 
     /** Seeds under the topics the load publishes, as {@link #seedByre} seeds under its sensor ids: both start in steady state. */
