@@ -63,6 +63,7 @@ final class BatchInsert {
             WriterTx.begin(conn);
             int moved = sealer.seal(rollups.minuteMark(), maxRows);
             WriterTx.commit(conn);
+            sealer.committed();
             return moved;
         } catch (SQLException | RuntimeException e) {
             WriterTx.rollbackQuietly(conn);
@@ -179,6 +180,7 @@ final class BatchInsert {
             throw e;
         }
         rollups.committed();
+        sealer.committed();
         if (writeHeld) heldZoneRows.clear();
         streamIds.putAll(newIds);
         return new Result(inserted, duplicate, tooOld, rollupsWritten);

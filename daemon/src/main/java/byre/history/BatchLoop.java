@@ -16,7 +16,8 @@ import org.slf4j.LoggerFactory;
 
 /**
  * The writer thread: takes items from the queue into its backlog, decides when a batch is due, commits it with
- * {@link BatchInsert}, retries failed batches with a doubling delay, and prunes old rows between batches.
+ * {@link BatchInsert}, retries failed batches with a doubling delay, and between batches packs raw rows into runs
+ * while that is behind (after an upgrade; see {@link RunSealer}) and prunes old rows.
  *
  * <p><b>When a batch is due:</b> {@code batchRows} rows wait; the oldest has waited {@code commitEvery}; a flush or
  * close waits for it; it is the very first batch; or the intake looks stalled with acknowledgements held. The

@@ -18,7 +18,8 @@ import java.util.concurrent.atomic.AtomicLong;
 /**
  * The single writer of the history: callers {@link #append} readings, one thread ({@link BatchLoop}) commits them
  * in batches (see {@link WriterSettings}: by default every 2 s or 10,000 rows) and, between batches, prunes old
- * rows in small steps. Minute and hour rollups are kept in memory until their bucket closes ({@link OpenRollups}).
+ * rows in small steps. Minute and hour rollups are kept in memory until their bucket closes ({@link OpenRollups});
+ * when they are written, the raw rows they cover are packed into runs in the same commit ({@link RunSealer}).
  *
  * <p><b>Back-pressure, not loss.</b> {@code append} puts into a bounded queue; when the queue is full it waits
  * up to {@code appendTimeout} and then gives up, returning false and counting the row in
@@ -34,7 +35,7 @@ import java.util.concurrent.atomic.AtomicLong;
  *
  * <p><b>Duplicates.</b> A reading whose (stream, time) is already stored (an MQTT redelivery) is ignored: the
  * first value is kept and the rollups count it once, because only rows that the insert really added go into
- * the rollups. Readings older than {@code keep-raw} are skipped ({@link WriterStats#rowsTooOld()}): their raw
+ * the rollups (a reading older than its stream's newest run is looked up in that run first). Readings older than {@code keep-raw} are skipped ({@link WriterStats#rowsTooOld()}): their raw
  * row could already be pruned, so a redelivery would otherwise be counted twice in the rollups.
  */
 public final class HistoryWriter implements AutoCloseable {

@@ -42,6 +42,8 @@ final class RunSealer {
     /** A new pass is due: at start (the file may hold anything), after the mark moved, after a rollback. */
     private boolean passWanted = true;
     private long rowsSealed;
+    /** Rows moved by the transaction under way. */
+    private long rowsStaged;
 
     RunSealer(Connection conn) {
         this.conn = conn;
@@ -50,8 +52,14 @@ final class RunSealer {
     /** Whether rows older than the mark may still wait in {@code reading}. */
     boolean behind() { return passWanted || pass != null; }
 
-    /** Rows moved into runs since start (committed or not). */
+    /** Rows moved into runs since start, by committed transactions. */
     long rowsSealed() { return rowsSealed; }
+
+    /** The caller's transaction was committed. */
+    void committed() {
+        rowsSealed += rowsStaged;
+        rowsStaged = 0;
+    }
 
     /** The mark moved: every stream may have rows to move. */
     void markMoved() { passWanted = true; }
@@ -61,6 +69,7 @@ final class RunSealer {
 
     /** The caller's transaction was rolled back: forget what it changed (read again when needed). */
     void rolledBack() {
+        rowsStaged = 0;
         Arrays.fill(newestUpto, UNKNOWN);
         cachedRun = null;
         pass = null;
@@ -174,7 +183,7 @@ final class RunSealer {
             i = j;
         }
         newestUpto[stream] = upto;
-        rowsSealed += n;
+        rowsStaged += n;
         return n;
     }
 
