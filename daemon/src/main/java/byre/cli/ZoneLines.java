@@ -51,6 +51,12 @@ final class ZoneLines implements Pipeline.ZoneListener {
         if (m != null) m.put(r.quantity(), r.value());
     }
 
+    /** The next lines are due then; the first tick comes at the pipeline's first turn. */
+    @Override
+    public Instant nextTick(Instant now) {
+        return nextPrint == null ? now : nextPrint;
+    }
+
     @Override
     public void tick(Instant now) {
         if (nextPrint == null) nextPrint = now.plus(every);

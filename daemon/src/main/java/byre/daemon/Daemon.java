@@ -146,6 +146,11 @@ public final class Daemon implements AutoCloseable {
                     public void tick(java.time.Instant now) {
                         own.tick(now);
                     }
+
+                    @Override
+                    public java.time.Instant nextTick(java.time.Instant now) {
+                        return own.nextTick(now);
+                    }
                 });
             } else {
                 pipeline.addListener(publisher);
@@ -227,9 +232,11 @@ public final class Daemon implements AutoCloseable {
         Gauge.builder("byre.history.size.bytes", store, HistoryStore::sizeOnDiskBytes).description("Database size on disk").register(registry);
     }
 
-    /** Asks for the rule files to be read again (SIGHUP); done on the pipeline thread within a second. */
+    /** Asks for the rule files to be read again (SIGHUP); done on the pipeline thread at once. */
     public void reload() {
         reloadRequested = true;
+        Pipeline p = pipeline;
+        if (p != null) p.wake();
     }
 
     /** Incidents, outbox and channels; also the acknowledgement service of the admin API. */

@@ -6,6 +6,7 @@ import byre.ingest.Reading;
 import byre.rules.ZoneReading;
 import byre.zones.ZoneStage;
 import java.time.Clock;
+import java.time.Duration;
 import java.time.Instant;
 import java.util.ArrayDeque;
 import java.util.ArrayList;
@@ -28,8 +29,10 @@ import org.slf4j.LoggerFactory;
  * <p>The zone streams derived from them (at most one per zone and second of reading time) go, in the order
  * they were derived, to the pipeline thread, which stores them (thinned), runs the rules and republishes
  * them: that work may wait on SQLite or on the broker, so it must not run on the MQTT client's own thread.
- * Four times a second that thread also lets the time-driven parts run (pending derivations, hold timers,
- * silence, rule reloads).
+ * That thread also lets the time-driven parts run (pending derivations, hold timers, silence, reminders, rule
+ * reloads), each when it is due: every stage says when it next needs a tick ({@link ZoneListener#nextTick}), and
+ * the thread sleeps until the earliest of those or the next zone reading. Waking four times a second to find
+ * nothing due cost a barn with a few sensors more CPU than the readings did.
  */
 public final class Pipeline implements AutoCloseable {
     private static final Logger LOG = LoggerFactory.getLogger(Pipeline.class);
@@ -41,8 +44,17 @@ public final class Pipeline implements AutoCloseable {
     static final java.time.Duration ZONE_STREAM_STORE_EVERY = java.time.Duration.ofMinutes(1);
     /** Zone readings waiting for the pipeline thread at most; then the intake waits. */
     static final int MAX_WAITING = 50_000;
-    /** The time-driven parts run this often. */
-    private static final long TICK_MILLIS = 250;
+    /**
+     * The longest rest with the machine's clock, whatever is due: a deadline is a time on the clock, the rest a span
+     * of real time, and a clock set forward meanwhile makes a deadline come sooner. Well below
+     * {@link byre.admin.HealthMonitor#STALL_AFTER}, since each turn counts as progress.
+     */
+    static final long MAX_REST_MILLIS = 10_000;
+    /**
+     * The longest rest with any other clock: a faster one (the demo's) or one moved by hand (tests') does not keep
+     * pace with real time, so deadlines on it are looked at this often, as the thread's ticks always came.
+     */
+    static final long OTHER_CLOCK_REST_MILLIS = 250;
     /** In a burst (see {@link BurstGauge}) readings gather this long before the thread takes them. */
     private static final long GATHER_NANOS = TimeUnit.MILLISECONDS.toNanos(2);
 
@@ -50,7 +62,21 @@ public final class Pipeline implements AutoCloseable {
     public interface ZoneListener {
         void accept(ZoneReading r);
 
+        /**
+         * Acts on the time; called at every turn of the pipeline thread (after the readings it delivered), which comes
+         * at the earliest {@link #nextTick} of all stages or sooner, so check your own.
+         */
         default void tick(Instant now) {}
+
+        /**
+         * When this stage next needs {@link #tick} at the latest, as of {@code now} (the time of the pipeline's turn
+         * that just ended, after its readings and ticks), or null for never: a stage that acts on time overrides both.
+         * A time at or before {@code now} means at once. A stage content with a turn anywhere in a span names its end:
+         * the readings' turns may serve it sooner.
+         */
+        default Instant nextTick(Instant now) {
+            return null;
+        }
     }
 
     private final ZoneStage zones;
@@ -61,8 +87,16 @@ public final class Pipeline implements AutoCloseable {
     private final Thread thread;
     private final StoreThinning thinning = new StoreThinning(ZONE_STREAM_STORE_EVERY);
     private final AtomicLong processed = new AtomicLong();
+    private final long maxRestMillis;
     private volatile long lastProgressNanos;
     private volatile boolean closed;
+    /** The pipeline thread's state between turns (only it touches them). */
+    private Instant lastTick = Instant.MIN;
+    private Instant nextTick = Instant.MIN;
+    private final BurstGauge burst = new BurstGauge();
+    private final List<ZoneReading> batch = new ArrayList<>();
+    /** Turns since the start (tests count them). */
+    private long turns;
 
     /** Guards {@link #zones} and {@link #derived}: one order of derivations for both threads. */
     private final Object lock = new Object();
@@ -70,6 +104,8 @@ public final class Pipeline implements AutoCloseable {
     private final ArrayDeque<ZoneReading> derived = new ArrayDeque<>();
     /** The pipeline thread waits for {@link #derived}: only then is a notification needed. */
     private boolean waiting;
+    /** Set by {@link #wake()}: the next turn ticks every stage, due or not. */
+    private boolean wakeAsked;
 
     Pipeline(ZoneStage zones, HistoryWriter history, Clock clock) {
         this(zones, history, clock, byre.time.Ticker.SYSTEM);
@@ -82,7 +118,13 @@ public final class Pipeline implements AutoCloseable {
         this.clock = clock;
         this.ticker = ticker;
         this.lastProgressNanos = ticker.nanos();
+        this.maxRestMillis = isMachineClock(clock) ? MAX_REST_MILLIS : OTHER_CLOCK_REST_MILLIS;
         this.thread = new Thread(this::loop, "pipeline");
+    }
+
+    /** The system clock in any time zone: the one clock whose time passes with real time. */
+    static boolean isMachineClock(Clock clock) {
+        return clock.withZone(java.time.ZoneOffset.UTC).equals(Clock.systemUTC());
     }
 
     /** Takes in zones that came after the start (a central byre's found sites), in step with the readings. */
@@ -98,6 +140,17 @@ public final class Pipeline implements AutoCloseable {
 
     void start() {
         thread.start();
+    }
+
+    /**
+     * Has the pipeline thread tick every stage now, due or not: for a request that comes from outside the stages'
+     * own deadlines (a SIGHUP asking for a reload, sites found by a central byre).
+     */
+    void wake() {
+        synchronized (lock) {
+            wakeAsked = true;
+            lock.notifyAll();
+        }
     }
 
     /**
@@ -145,53 +198,13 @@ public final class Pipeline implements AutoCloseable {
     }
 
     private void loop() {
-        Instant lastTick = Instant.MIN;
-        BurstGauge burst = new BurstGauge();
-        List<ZoneReading> batch = new ArrayList<>();
         while (!closed) {
-            batch.clear();
-            Instant now = clock.instant();
-            boolean tickDue = tickDue(now, lastTick);
             try {
-                boolean woken = false;
-                synchronized (lock) {
-                    if (derived.isEmpty() && !tickDue) {
-                        waiting = true;
-                        lock.wait(TICK_MILLIS);
-                        waiting = false;
-                        woken = !derived.isEmpty();
-                    }
-                }
-                // In a burst, let readings gather for a moment: one wake-up per batch, not one per reading.
-                if (woken && burst.inBurst()) LockSupport.parkNanos(GATHER_NANOS);
-                synchronized (lock) {
-                    now = clock.instant();
-                    tickDue = tickDue(now, lastTick);
-                    if (tickDue) {
-                        try {
-                            zones.derivePending(now, derived::addLast);
-                        } catch (RuntimeException e) {
-                            LOG.error("zone derivation failed: {}", e.toString(), e);
-                        }
-                    }
-                    takeDerived(batch);
-                }
+                rest();
             } catch (InterruptedException e) {
                 break;
             }
-            lastProgressNanos = ticker.nanos();
-            if (!batch.isEmpty()) burst.batch(System.nanoTime(), batch.size());
-            for (ZoneReading zr : batch) deliver(zr);
-            if (tickDue) {
-                lastTick = now;
-                for (ZoneListener l : listeners) {
-                    try {
-                        l.tick(now);
-                    } catch (RuntimeException e) {
-                        LOG.error("timed stage failed: {}", e.toString(), e);
-                    }
-                }
-            }
+            turn();
         }
         // Derived before the stop: still stored and seen by the rules.
         batch.clear();
@@ -201,9 +214,100 @@ public final class Pipeline implements AutoCloseable {
         for (ZoneReading zr : batch) deliver(zr);
     }
 
-    /** Due at the interval, and at once after the clock stepped back. */
-    private static boolean tickDue(Instant now, Instant lastTick) {
-        return now.isBefore(lastTick) || !now.isBefore(lastTick.plusMillis(TICK_MILLIS));
+    /** Waits until a zone reading is waiting, a tick is due or {@link #wake()} was called (or the longest rest passed). */
+    private void rest() throws InterruptedException {
+        boolean woken = false;
+        synchronized (lock) {
+            Instant now = clock.instant();
+            if (derived.isEmpty() && !wakeAsked && !closed && !tickDue(now)) {
+                waiting = true;
+                lock.wait(restMillis(now));
+                waiting = false;
+                woken = !derived.isEmpty();
+            }
+        }
+        // In a burst, let readings gather for a moment: one wake-up per batch, not one per reading.
+        if (woken && burst.inBurst()) LockSupport.parkNanos(GATHER_NANOS);
+    }
+
+    /** Real milliseconds to rest from {@code now} until the next tick, at least 1 and at most the longest rest. */
+    long restMillis(Instant now) {
+        if (nextTick == null || !nextTick.isBefore(now.plusMillis(maxRestMillis))) return maxRestMillis;
+        if (!nextTick.isAfter(now)) return 1;
+        long nanos = Duration.between(now, nextTick).toNanos();
+        return Math.max(1, (nanos + 999_999) / 1_000_000);
+    }
+
+    /**
+     * One turn of the pipeline thread, without waiting: delivers the zone readings waiting, ticks the stages when a tick is
+     * due, and asks them when the next one is. Tests call it on their own thread (with the thread not started) to
+     * step through time.
+     */
+    void turn() {
+        turns++;
+        batch.clear();
+        Instant now;
+        synchronized (lock) {
+            now = clock.instant();
+            Instant pending = zones.nextPending();
+            if (wakeAsked || now.isBefore(lastTick) || (pending != null && !now.isBefore(pending))) {
+                try {
+                    zones.derivePending(now, derived::addLast);
+                } catch (RuntimeException e) {
+                    LOG.error("zone derivation failed: {}", e.toString(), e);
+                }
+            }
+            wakeAsked = false;
+            takeDerived(batch);
+        }
+        lastProgressNanos = ticker.nanos();
+        if (!batch.isEmpty()) burst.batch(System.nanoTime(), batch.size());
+        for (ZoneReading zr : batch) deliver(zr);
+        // Every turn ticks every stage, each acting only when its own time has come: what is due soon rides along with
+        // a turn the readings cause, instead of waking the thread again a moment later.
+        lastTick = now;
+        for (ZoneListener l : listeners) {
+            try {
+                l.tick(now);
+            } catch (RuntimeException e) {
+                LOG.error("timed stage failed: {}", e.toString(), e);
+            }
+        }
+        nextTick = earliestTick(now);
+    }
+
+    /** The earliest time any stage or a put-off derivation needs a tick, as of {@code now}; null for none. */
+    private Instant earliestTick(Instant now) {
+        Instant next;
+        synchronized (lock) {
+            next = zones.nextPending();
+        }
+        for (ZoneListener l : listeners) {
+            try {
+                Instant t = l.nextTick(now);
+                if (t != null && (next == null || t.isBefore(next))) next = t;
+            } catch (RuntimeException e) {
+                LOG.error("timed stage failed: {}", e.toString(), e);
+                Instant soon = now.plusMillis(OTHER_CLOCK_REST_MILLIS); // as often as ticks always came
+                if (next == null || soon.isBefore(next)) next = soon;
+            }
+        }
+        return next;
+    }
+
+    /** Due when the earliest tick asked for has come, and at once after the clock stepped back. */
+    private boolean tickDue(Instant now) {
+        return now.isBefore(lastTick) || (nextTick != null && !now.isBefore(nextTick));
+    }
+
+    /** When the next tick is due (null: none asked for); for tests that step through time with {@link #turn()}. */
+    Instant nextTick() {
+        return nextTick;
+    }
+
+    /** Turns taken so far; for tests. */
+    long turns() {
+        return turns;
     }
 
     /** Moves every waiting zone reading into {@code into} (holding {@link #lock}); frees an intake held back. */

@@ -23,7 +23,7 @@ final class SelfWatch implements Pipeline.ZoneListener {
     private final AlertService alerts;
     private Instant unhealthySince;
     private boolean raised;
-    private final Cadence checks = new Cadence(Duration.ofSeconds(5), Duration.ofSeconds(60));
+    private final Cadence checks = new Cadence(Duration.ofSeconds(4), Duration.ofSeconds(1), Duration.ofSeconds(60));
     private Instant nextPrune = Instant.MIN;
 
     SelfWatch(HistoryWriter writer, AlertService alerts) {
@@ -33,6 +33,11 @@ final class SelfWatch implements Pipeline.ZoneListener {
 
     @Override
     public void accept(ZoneReading r) {}
+
+    @Override
+    public Instant nextTick(Instant now) {
+        return checks.nextAt(now);
+    }
 
     @Override
     public void tick(Instant now) {

@@ -29,12 +29,24 @@ public final class WatchStage implements Pipeline.ZoneListener {
     static final String STATE_KEY = "rules.snapshot";
     /** How far back windows are refilled from history at start and on reload. */
     static final Duration PRIME_SPAN = Duration.ofHours(25);
+    /**
+     * The engine is told the time at least this often, hold timers or not: it takes a step of the clock over
+     * {@link WatchEngine.Options#live()}'s bound (10 minutes) for a correction of the clock, not for time passing.
+     */
+    static final Duration TELL_TIME_EVERY = Duration.ofMinutes(1);
+    /** Running holds are saved at most this often (a transition is saved at once). */
+    static final Duration SAVE_EVERY = Duration.ofSeconds(60);
 
     /** Receives what the watches decide. */
     public interface Outcomes {
         void transition(Transition t, Watch watch);
 
         default void tick(Instant now) {}
+
+        /** When {@link #tick} is next needed, as {@link Pipeline.ZoneListener#nextTick}; null for never. */
+        default Instant nextTick(Instant now) {
+            return null;
+        }
     }
 
     private final HistoryStore store;
@@ -112,6 +124,22 @@ public final class WatchStage implements Pipeline.ZoneListener {
         outcomes.tick(now);
     }
 
+    /**
+     * The earliest of: the engine's next hold timer or silence check, the next look at running holds to save, the
+     * alert stage's next turn, and a minute from now (see {@link #TELL_TIME_EVERY}).
+     */
+    @Override
+    public Instant nextTick(Instant now) {
+        Instant next = now.plus(TELL_TIME_EVERY);
+        next = earlier(next, engine.nextDue());
+        next = earlier(next, lastSave.plus(SAVE_EVERY));
+        return earlier(next, outcomes.nextTick(now));
+    }
+
+    private static Instant earlier(Instant a, Instant b) {
+        return b != null && b.isBefore(a) ? b : a;
+    }
+
     private void handle(List<Transition> transitions, Instant now) {
         for (Transition t : transitions) {
             Watch w = engine.rules().watch(t.watch()).orElse(null);
@@ -132,7 +160,7 @@ public final class WatchStage implements Pipeline.ZoneListener {
 
     /** Stores the state when an alert changed, and at most once a minute for running holds. */
     private void save(Instant now, boolean force) {
-        if (!force && now.isBefore(lastSave.plusSeconds(60)) && !now.isBefore(lastSave)) return;
+        if (!force && now.isBefore(lastSave.plus(SAVE_EVERY)) && !now.isBefore(lastSave)) return;
         lastSave = now; // looked at once a minute whether or not it changed (and retried a minute after a failure)
         countStates();
         Map<String, String> snap = engine.snapshot();

@@ -21,9 +21,13 @@ final class ZoneStreamPublisher implements Pipeline.ZoneListener {
     /** Topic per zone and quantity, built once: offer runs for every derived value of every reading. */
     private final Map<String, Map<Quantity, String>> topics = new ConcurrentHashMap<>();
     private final Cadence flushes;
+    private final java.time.Duration every;
+    /** The turn at which the oldest value waiting to be sent came (pipeline thread only); null when none waits. */
+    private java.time.Instant waitingSince;
 
     ZoneStreamPublisher(MqttLink link, String prefix, String site, java.time.Duration every) {
         this.flushes = new Cadence(every, every.multipliedBy(10));
+        this.every = every;
         this.link = link;
         this.base = prefix + "/" + site + "/zones/";
     }
@@ -34,10 +38,29 @@ final class ZoneStreamPublisher implements Pipeline.ZoneListener {
         offer(r);
     }
 
-    /** Flushes at most once per interval (the pipeline ticks four times a second). */
+    /** Flushes at most once per interval. */
     @Override
     public void tick(java.time.Instant now) {
         if (flushes.due(now)) flush();
+    }
+
+    /**
+     * While values wait: at the latest one interval after the oldest came (and not before the interval since the last
+     * flush has passed). The turns of the readings flush sooner once that interval has passed, so that a steady
+     * trickle of readings needs no wake-up of its own for the flushes. Nothing while disconnected: the connection
+     * sends everything when it comes back ({@link #republishAll()}).
+     */
+    @Override
+    public java.time.Instant nextTick(java.time.Instant now) {
+        if (pending.isEmpty()) {
+            waitingSince = null;
+            return null;
+        }
+        if (!link.isConnected()) return null;
+        if (waitingSince == null) waitingSince = now;
+        java.time.Instant latest = waitingSince.plus(every);
+        java.time.Instant allowed = flushes.nextAt(now);
+        return allowed.isAfter(latest) ? allowed : latest;
     }
 
     void offer(ZoneReading r) {

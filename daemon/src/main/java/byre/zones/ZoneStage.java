@@ -58,6 +58,8 @@ public final class ZoneStage {
     private volatile Map<String, ZoneState> byZone = Map.of();
     private final ZoneDeriver deriver;
     private final Observer observer;
+    /** When {@link #derivePending} next has work (epoch ms on the caller's clock), or Long.MAX_VALUE: kept as derivations are put off. */
+    private long pendingDueMs = Long.MAX_VALUE;
 
     public ZoneStage(List<ZoneConfig> zones, ZoneDeriver deriver, Observer observer) {
         this.deriver = deriver;
@@ -110,6 +112,7 @@ public final class ZoneStage {
         // Long.MIN_VALUE = never derived (t - MIN_VALUE would overflow and put off the first derivation for ever).
         if (t >= z.lastDerivedMs && t - z.lastDerivedMs < MIN_DERIVE_INTERVAL_MS) {
             z.pendingAt = r.at();
+            if (now != null) pendingDueMs = Math.min(pendingDueMs, dueMs(z, now.toEpochMilli()));
             return;
         }
         derive(z, r.at(), out);
@@ -136,11 +139,27 @@ public final class ZoneStage {
     /** Derives the zones whose derivation was put off and is now due (the interval has passed by {@code now}). */
     public void derivePending(Instant now, Consumer<ZoneReading> out) {
         long n = now.toEpochMilli();
+        long next = Long.MAX_VALUE;
         for (ZoneState z : byZone.values()) {
-            if (z.pendingAt != null && (n - z.lastDerivedMs >= MIN_DERIVE_INTERVAL_MS || n < z.lastDerivedMs)) {
-                derive(z, z.pendingAt, out);
-            }
+            if (z.pendingAt == null) continue;
+            if (dueMs(z, n) <= n) derive(z, z.pendingAt, out);
+            else next = Math.min(next, dueMs(z, n));
         }
+        pendingDueMs = next;
+    }
+
+    /**
+     * When {@link #derivePending} next has work (live): the earliest time a derivation put off by
+     * {@link #accept(Reading, Instant, Consumer)} is due, or null when none waits. It may come early (a zone derived
+     * meanwhile on a reading of its own), never late.
+     */
+    public Instant nextPending() {
+        return pendingDueMs == Long.MAX_VALUE ? null : Instant.ofEpochMilli(pendingDueMs);
+    }
+
+    /** When a zone's put-off derivation is due: an interval after its last one, or at once when the clock is behind that. */
+    private static long dueMs(ZoneState z, long nowMs) {
+        return nowMs < z.lastDerivedMs ? nowMs : z.lastDerivedMs + MIN_DERIVE_INTERVAL_MS;
     }
 
     private void derive(ZoneState z, Instant at, Consumer<ZoneReading> out) {

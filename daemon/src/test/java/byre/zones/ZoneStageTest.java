@@ -115,4 +115,27 @@ class ZoneStageTest {
         assertTrue(has(feed(new Reading("pen1-dry", Quantity.DRY_BULB, 5.1, T0.plusSeconds(60))), Quantity.DRY_BULB));
         assertEquals(List.of(), feed(new Reading("pen1-dry", Quantity.DRY_BULB, 5.1, T0.plusSeconds(60))), "a duplicate row counts once");
     }
+
+    /** A derivation put off live says when it is due, so that the pipeline need not look for it four times a second. */
+    @Test
+    void aPutOffDerivationSaysWhenItIsDue() {
+        Instant now = T0.plusMillis(300);
+        assertEquals(null, stage.nextPending(), "nothing put off");
+        feedLive(new Reading("pen1-dry", Quantity.DRY_BULB, 5.0, T0), now);
+        assertEquals(null, stage.nextPending(), "the first reading derives at once");
+        feedLive(new Reading("pen1-wet", Quantity.WET_BULB, 4.0, T0.plusMillis(200)), now);
+        assertEquals(T0.plusMillis(1000), stage.nextPending(), "a second after the last derivation");
+        List<ZoneReading> pending = new ArrayList<>();
+        stage.derivePending(T0.plusMillis(999), pending::add);
+        assertEquals(List.of(), pending, "not before");
+        assertEquals(T0.plusMillis(1000), stage.nextPending(), "still due then");
+        stage.derivePending(T0.plusMillis(1000), pending::add);
+        assertTrue(has(pending, Quantity.RH), "due at that very time: " + pending);
+        assertEquals(null, stage.nextPending(), "nothing left");
+
+        // A clock behind the last derivation's reading time (the sensors' clocks run ahead): due at once, as
+        // derivePending takes it.
+        feedLive(new Reading("pen1-wet", Quantity.WET_BULB, 4.1, T0.plusMillis(1100)), T0.plusMillis(100));
+        assertEquals(T0.plusMillis(100), stage.nextPending());
+    }
 }

@@ -44,7 +44,7 @@ public final class WatchEngine {
         /** Replay: every gap is real time. */
         public static Options replay() { return new Options(null, false); }
 
-        /** Live, ticked every second: a step over 10 minutes is a clock jump. */
+        /** Live (told the time at least every minute): a step over 10 minutes is a clock jump. */
         public static Options live() { return new Options(Duration.ofMinutes(10), false); }
     }
 
@@ -152,6 +152,19 @@ public final class WatchEngine {
     public List<Transition> tick(Instant t) {
         if (t != null) advance(t.toEpochMilli(), true);
         return drain();
+    }
+
+    /**
+     * When the next hold timer or silence check is due, in the caller's clock (what {@link #tick} is given), or null
+     * when none is set: a live caller need not tick before then (but see {@link Options#maxClockStep()}).
+     */
+    public Instant nextDue() {
+        while (!due.isEmpty()) {
+            Due d = due.peek();
+            if (d.inst.dueStamp == d.stamp && d.inst.due == d.at) return Instant.ofEpochMilli(d.at + offset);
+            due.poll(); // superseded by a later schedule of its instance
+        }
+        return null;
     }
 
     /**
