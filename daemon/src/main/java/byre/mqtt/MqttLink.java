@@ -222,7 +222,10 @@ public final class MqttLink implements AutoCloseable {
             if (connected) {
                 synchronized (reconnectLock) {
                     try {
-                        reconnectLock.wait(1000);
+                        // Asleep until the connection is lost (connectionLost clears the flag, then notifies under this
+                        // lock, so no loss slips between the check and the wait) or close() interrupts: a timed wait
+                        // woke this thread every second for nothing.
+                        while (connected && !closing.get()) reconnectLock.wait();
                     } catch (InterruptedException e) {
                         return;
                     }
