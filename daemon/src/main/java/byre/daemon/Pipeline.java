@@ -32,7 +32,7 @@ import org.slf4j.LoggerFactory;
  * That thread also lets the time-driven parts run (pending derivations, hold timers, silence, reminders, rule
  * reloads), each when it is due: every stage says when it next needs a tick ({@link ZoneListener#nextTick}), and
  * the thread sleeps until the earliest of those or the next zone reading. Waking four times a second to find
- * nothing due cost a barn with a few sensors more CPU than the readings did.
+ * nothing due cost 0.05 CPU seconds a minute (ThreadCpuBench), a sixth of byre's CPU in a barn of 40 sensors.
  */
 public final class Pipeline implements AutoCloseable {
     private static final Logger LOG = LoggerFactory.getLogger(Pipeline.class);
