@@ -210,9 +210,11 @@ public final class LoadMain {
         long end = start + o.duration().toNanos();
         double nanosPerMessage = o.rate() > 0 ? 1e9 / o.rate() : 0;
         long sent = 0;
-        // Payload times: one millisecond apart per sensor from the start, so no two readings of a sensor share a
-        // time (the history keeps one row per sensor and time); ahead of the clock only beyond 1000 msg/s per sensor.
-        long firstMs = System.currentTimeMillis();
+        // Payload times: the clock's, but at least a millisecond after the sensor's previous one, so no two readings
+        // of a sensor share a time (the history keeps one row per sensor and time); ahead of the clock only beyond
+        // 1000 msg/s per sensor. (Times that stood still made a long paced run's readings look older than the zones'
+        // max-age after a few minutes, so byre stopped deriving.)
+        long[] lastMs = new long[o.sensors()];
         outer:
         while (o.count() == 0 || sent < o.count()) {
             long now = System.nanoTime();
@@ -223,7 +225,8 @@ public final class LoadMain {
                 while ((now = System.nanoTime()) < due) LockSupport.parkNanos(due - now);
             }
             int i = (int) (sent % o.sensors());
-            MqttMessage m = new MqttMessage(LoadConfig.payload(i, sent, firstMs + sent / o.sensors(), o.zones())
+            lastMs[i] = Math.max(lastMs[i] + 1, System.currentTimeMillis());
+            MqttMessage m = new MqttMessage(LoadConfig.payload(i, sent, lastMs[i], o.zones())
                     .getBytes(StandardCharsets.UTF_8));
             m.setQos(o.qos());
             try {

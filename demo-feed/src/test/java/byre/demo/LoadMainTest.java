@@ -41,8 +41,16 @@ class LoadMainTest {
             List<TinyBroker.Received> got = broker.received();
             assertEquals(700, got.size());
             Map<String, Integer> perTopic = new HashMap<>();
+            Map<String, Long> lastTs = new HashMap<>();
+            long before = System.currentTimeMillis();
             for (int i = 0; i < got.size(); i++) {
                 TinyBroker.Received m = got.get(i);
+                // payload times are the clock's, strictly rising per sensor (flat out, 100 readings of a sensor run at
+                // most 100 ms ahead of it)
+                long ts = Long.parseLong(m.payload().replaceAll(".*\"ts\":(\\d+)}", "$1"));
+                assertTrue(ts <= before + 100 && ts > before - 60_000, m.payload());
+                Long prev = lastTs.put(m.topic(), ts);
+                assertTrue(prev == null || ts > prev, m.payload() + " after " + prev);
                 assertEquals(LoadConfig.topic("bench", i % 7, 7, 3), m.topic());
                 assertTrue(m.payload().matches("\\{\"v\":-?\\d+\\.\\d\\d,\"ts\":\\d{13}}"), m.payload());
                 assertEquals(qos, m.qos());
