@@ -43,16 +43,7 @@ public final class Replay {
         this.engine = new WatchEngine(rules, siteZone, new WatchEngine.Options(null, usUnits));
         this.book = new IncidentBook(site, IdSource.counting(), new EventText(site, usUnits, AckLinks.NONE));
         this.noData = new NoDataReport(rules);
-        this.zones = zoneConfigs == null ? null : new ZoneStage(zoneConfigs, deriver, new ZoneStage.Observer() {
-            @Override
-            public void wetBulbAboveDryBulb(String zone, double excessC) {}
-
-            @Override
-            public void derivationSkipped(String zone, String why) {}
-
-            @Override
-            public void derived(String zone) {}
-        });
+        this.zones = zoneConfigs == null ? null : new ZoneStage(zoneConfigs, deriver, ZoneStage.Observer.NONE);
     }
 
     /** A zone-level reading straight into the watches. */

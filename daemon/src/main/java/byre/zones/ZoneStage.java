@@ -28,6 +28,13 @@ public final class ZoneStage {
 
     /** Counts what the stage noticed, for the metrics. */
     public interface Observer {
+        /** Notices nothing: for replay, which reports neither flags nor skips. */
+        Observer NONE = new Observer() {
+            @Override public void wetBulbAboveDryBulb(String zone, double excessC) {}
+            @Override public void derivationSkipped(String zone, String why) {}
+            @Override public void derived(String zone) {}
+        };
+
         void wetBulbAboveDryBulb(String zone, double excessC);
 
         void derivationSkipped(String zone, String why);

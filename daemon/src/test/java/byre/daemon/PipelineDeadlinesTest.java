@@ -80,16 +80,7 @@ class PipelineDeadlinesTest {
 
     static ZoneStage zones() {
         return new ZoneStage(List.of(new ZoneConfig("cows", List.of("cattle"), List.of("shed-dry", "shed-wet"), Double.NaN,
-                ZoneConfig.Psychrometer.ASPIRATED, Duration.ofMinutes(5), "nrc-1971", 1)), new ClimateDeriver(), new ZoneStage.Observer() {
-                    @Override
-                    public void wetBulbAboveDryBulb(String zone, double excessC) {}
-
-                    @Override
-                    public void derivationSkipped(String zone, String why) {}
-
-                    @Override
-                    public void derived(String zone) {}
-                });
+                ZoneConfig.Psychrometer.ASPIRATED, Duration.ofMinutes(5), "nrc-1971", 1)), new ClimateDeriver(), ZoneStage.Observer.NONE);
     }
 
     Pipeline pipeline(Clock c) {

@@ -21,11 +21,7 @@ class ZoneStageFirstDerivationTest {
 
     final List<ZoneReading> out = new ArrayList<>();
     final ZoneStage stage = new ZoneStage(List.of(new ZoneConfig("calf-pen", List.of(), List.of("dry", "rh"), 0,
-            ZoneConfig.Psychrometer.ASPIRATED, Duration.ofMinutes(5), "nrc-1971", 1)), new ClimateDeriver(), new ZoneStage.Observer() {
-                @Override public void wetBulbAboveDryBulb(String zone, double excessC) {}
-                @Override public void derivationSkipped(String zone, String why) {}
-                @Override public void derived(String zone) {}
-            });
+            ZoneConfig.Psychrometer.ASPIRATED, Duration.ofMinutes(5), "nrc-1971", 1)), new ClimateDeriver(), ZoneStage.Observer.NONE);
 
     boolean hasThi() {
         return out.stream().anyMatch(r -> r.quantity() == Quantity.THI);
